@@ -1,0 +1,8 @@
+module avoidcert
+
+go 1.26.8
+
+require (
+	github.com/rogpeppe/go-internal v1.16.0 // indirect
+	gonum.org/v1/gonum v0.17.0 // indirect
+)

@@ -1,0 +1,96 @@
+package pattern
+
+import (
+	"fmt"
+	"strconv"
+	"strings"
+)
+
+// MaxLength is the longest pattern accepted. A set whose longest pattern
+// has length w is handled through its (w-1)! order cells and, for the
+// structure test, the (2w-2)! joint patterns; at length 8 that is 5040
+// cells and 14! joint patterns, beyond what the exact methods can hold in
+// memory for useful n.
+const MaxLength = 7
+
+// ParseError describes a rejected pattern token.
+type ParseError struct {
+	Token  string // the token as written
+	Reason string // what is wrong and what to do
+}
+
+func (e *ParseError) Error() string {
+	return fmt.Sprintf("pattern %q: %s", e.Token, e.Reason)
+}
+
+// Parse reads one pattern written as digits ("1342") or as entries
+// separated by dots ("1.3.4.2").
+func Parse(token string) (Perm, error) {
+	fail := func(format string, args ...any) (Perm, error) {
+		return nil, &ParseError{Token: token, Reason: fmt.Sprintf(format, args...)}
+	}
+	s := strings.TrimSpace(token)
+	if s == "" {
+		return fail("empty pattern; write a permutation of 1..k such as 132")
+	}
+	var entries []string
+	if strings.Contains(s, ".") {
+		entries = strings.Split(s, ".")
+	} else {
+		entries = strings.Split(s, "")
+	}
+	p := make(Perm, 0, len(entries))
+	for _, e := range entries {
+		if e == "" {
+			return fail("empty entry between dots; write entries like 1.3.4.2")
+		}
+		for _, c := range e {
+			if c < '0' || c > '9' {
+				return fail("character %q is not a digit; write a permutation of 1..k such as 132 or 1.3.2", c)
+			}
+		}
+		v, err := strconv.Atoi(e)
+		if err != nil || len(e) > 3 {
+			return fail("entry %q is too large; the longest pattern accepted has length %d", e, MaxLength)
+		}
+		p = append(p, v)
+	}
+	if len(p) > MaxLength {
+		return fail("length %d is over the limit of %d (a window of length k needs (k-1)! order cells; longer patterns do not fit the exact methods)", len(p), MaxLength)
+	}
+	seen := make([]int, len(p)+1)
+	for i, v := range p {
+		if v < 1 || v > len(p) {
+			return fail("entry %d is out of range: a pattern of length %d uses each of 1..%d once", v, len(p), len(p))
+		}
+		if seen[v] != 0 {
+			return fail("value %d repeats (positions %d and %d); a pattern uses each of 1..%d once", v, seen[v], i+1, len(p))
+		}
+		seen[v] = i + 1
+	}
+	return p, nil
+}
+
+// ParseSet reads a pattern set from command-line arguments; each argument
+// may itself be a comma-separated list ("123,321"). Duplicates and
+// redundant patterns are dropped (see Set.Dropped).
+func ParseSet(args []string) (Set, error) {
+	var perms []Perm
+	var given []string
+	for _, arg := range args {
+		for _, tok := range strings.Split(arg, ",") {
+			p, err := Parse(tok)
+			if err != nil {
+				return Set{}, err
+			}
+			perms = append(perms, p)
+			given = append(given, strings.TrimSpace(tok))
+		}
+	}
+	if len(perms) == 0 {
+		return Set{}, fmt.Errorf("no pattern given; name at least one, such as 132 or 123,321")
+	}
+	s := NewSet(perms...)
+	s.given = given
+	return s, nil
+}

@@ -1,0 +1,293 @@
+package transfer
+
+import (
+	"context"
+	"fmt"
+	"math/big"
+	"runtime"
+	"sync"
+	"sync/atomic"
+
+	"avoidcert/pattern"
+)
+
+// move is one allowed way to extend cell sigma backwards: a new first
+// value t in gap j of sigma's sorted entries, giving an allowed window,
+// whose first m entries have cell tau.
+//
+// Writing l and r for the numbers of other values below and above t inside
+// gap j (l + r = a_j - 1), the index of the shorter permutation on tau is
+// b_i = sum of a over from[i], plus l at i = u-1 and r at i = u, where u is
+// t's rank in tau. Summing G_k[tau] along that line is one or two lookups
+// in its prefix sums along direction e_{u-1} - e_u.
+type move struct {
+	j    int
+	tau  int
+	u    int
+	from [][]int // per tau gap: the sigma gaps (other than j) merged into it
+}
+
+// Engine advances iterates of one System. It is read-only after New and safe
+// for concurrent use.
+type Engine struct {
+	sys   System
+	cells int
+	moves [][]move // per sigma
+	dirU  []int    // per tau: the rank of its first entry (the prefix-sum direction)
+}
+
+// New prepares the moves of a system.
+func New(sys System) *Engine {
+	m := sys.M
+	e := &Engine{sys: sys, cells: sys.Cells()}
+	e.moves = make([][]move, e.cells)
+	e.dirU = make([]int, e.cells)
+	for tau := range e.cells {
+		if m > 0 {
+			e.dirU[tau] = pattern.Unrank(m, tau)[0]
+		}
+	}
+	if m == 0 {
+		return e // only the pattern 1 has length 1: nothing is allowed
+	}
+	for sigma := range e.cells {
+		x := pattern.Unrank(m, sigma)
+		for j := 0; j <= m; j++ {
+			// window (t, x_1..x_m) with t above exactly j of the x's
+			win := make(pattern.Perm, m+1)
+			win[0] = j + 1
+			for i, v := range x {
+				win[i+1] = v
+				if v > j {
+					win[i+1] = v + 1
+				}
+			}
+			if !sys.Allowed[pattern.Rank(win)] {
+				continue
+			}
+			e.moves[sigma] = append(e.moves[sigma], newMove(win, j, m))
+		}
+	}
+	return e
+}
+
+// newMove derives the gap bookkeeping of one window. Around the sorted
+// values z_1 < ... < z_{m+1} of the window there are m+2 gaps: sigma's gaps
+// before j keep their index, gap j splits into the pieces below (L) and
+// above (R) t = z_{j+1}, later gaps shift by one. Dropping x_m = z_p merges
+// the two gaps beside it.
+func newMove(win pattern.Perm, j, m int) move {
+	const pieceL, pieceR = -1, -2
+	g := make([]int, m+2) // source of each gap: a sigma gap, or a piece
+	for i := range g {
+		switch {
+		case i < j:
+			g[i] = i
+		case i == j:
+			g[i] = pieceL
+		case i == j+1:
+			g[i] = pieceR
+		default:
+			g[i] = i - 1
+		}
+	}
+	p := win[m] // rank of x_m among the window
+	var h [][]int
+	for i := 0; i < m+2; i++ {
+		if i == p {
+			h[p-1] = append(h[p-1], g[i])
+			continue
+		}
+		h = append(h, []int{g[i]})
+	}
+	mv := move{j: j, tau: pattern.Rank(pattern.Standardize(win[:m])), from: make([][]int, m+1)}
+	for i, srcs := range h {
+		for _, s := range srcs {
+			switch s {
+			case pieceL:
+				mv.u = i + 1
+			case pieceR:
+				if mv.u != i {
+					panic("transfer: pieces of the split gap are not adjacent")
+				}
+			default:
+				mv.from[i] = append(mv.from[i], s)
+			}
+		}
+	}
+	return mv
+}
+
+// Start returns G_0: one coefficient per cell, 1 where the start vector is
+// 1.
+func (e *Engine) Start() *Iterate {
+	g := newIterate(0, e.sys.M, e.cells, 1, limbsFor(e.sys.M, 0))
+	for c, ok := range e.sys.Start {
+		if ok {
+			g.Words(c, 0)[0] = 1
+		}
+	}
+	return g
+}
+
+// Footprint estimates the bytes Next needs to produce G_{k+1} from G_k:
+// the input, its prefix sums and the output.
+func (e *Engine) Footprint(k int) int64 {
+	m := e.sys.M
+	ix := NewIndexer(m, k+1)
+	in := int64(e.cells) * int64(ix.Count(k)) * int64(limbsFor(m, k))
+	out := int64(e.cells) * int64(ix.Count(k+1)) * int64(limbsFor(m, k+1))
+	return 8 * (2*in + out)
+}
+
+// chunk is the number of output coefficients one task computes.
+const chunk = 2048
+
+// Next returns G_{k+1} computed from g = G_k. It stops early with the
+// context's error when ctx is cancelled.
+func (e *Engine) Next(ctx context.Context, g *Iterate) (*Iterate, error) {
+	if g.M != e.sys.M || g.Cells != e.cells {
+		return nil, fmt.Errorf("transfer: iterate of cell length %d does not belong to this engine (cell length %d)", g.M, e.sys.M)
+	}
+	m, k := e.sys.M, g.K
+	ix := NewIndexer(m, k+1)
+	prefix := newIterate(k, m, e.cells, g.PerCell, g.Limbs)
+	out := newIterate(k+1, m, e.cells, ix.Count(k+1), limbsFor(m, k+1))
+	if m == 0 {
+		return out, nil
+	}
+
+	err := parallel(ctx, e.cells, func(tau int) { e.prefixSums(ix, g, prefix, tau) })
+	if err != nil {
+		return nil, err
+	}
+	perCellTasks := (out.PerCell + chunk - 1) / chunk
+	err = parallel(ctx, e.cells*perCellTasks, func(task int) {
+		sigma, part := task/perCellTasks, task%perCellTasks
+		lo := part * chunk
+		e.fill(ix, prefix, out, sigma, lo, min(lo+chunk, out.PerCell))
+	})
+	if err != nil {
+		return nil, err
+	}
+	return out, nil
+}
+
+// prefixSums writes P[b] = sum_{i=0}^{b_{u-1}} G[b - i e_{u-1} + i e_u] for
+// one cell. In storage order the point b - e_{u-1} + e_u comes earlier, at
+// rank r - C(s_{u-1}+u-2, u-1).
+func (e *Engine) prefixSums(ix *Indexer, g, prefix *Iterate, tau int) {
+	m, k := g.M, g.K
+	u := e.dirU[tau]
+	a := make([]int, m+1)
+	a[m] = k
+	s := 0 // s_{u-1}
+	for r := 0; r < g.PerCell; r++ {
+		dst := prefix.Words(tau, r)
+		copy(dst, g.Words(tau, r))
+		if a[u-1] > 0 {
+			s = 0
+			for i := 0; i < u; i++ {
+				s += a[i]
+			}
+			addWords(dst, prefix.Words(tau, r-ix.binom[s+u-2][u-1]))
+		}
+		ix.Next(a)
+	}
+}
+
+// fill computes output coefficients lo..hi-1 of cell sigma.
+func (e *Engine) fill(ix *Indexer, prefix, out *Iterate, sigma, lo, hi int) {
+	m := out.M
+	a := make([]int, m+1)
+	b := make([]int, m+1)
+	ix.Unrank(out.K, lo, a)
+	for r := lo; r < hi; r++ {
+		dst := out.Words(sigma, r)
+		for _, mv := range e.moves[sigma] {
+			aj := a[mv.j]
+			if aj == 0 {
+				continue
+			}
+			for i, srcs := range mv.from {
+				b[i] = 0
+				for _, src := range srcs {
+					b[i] += a[src]
+				}
+			}
+			base := b[mv.u-1]
+			// far end of the line: l = a_j - 1, r = 0
+			b[mv.u-1] += aj - 1
+			end := ix.Rank(b)
+			addWords(dst, prefix.Words(mv.tau, end))
+			if base > 0 {
+				// just before the line: l = -1, r = a_j
+				b[mv.u-1] -= aj
+				b[mv.u] += aj
+				subWords(dst, prefix.Words(mv.tau, ix.Rank(b)))
+			}
+		}
+		ix.Next(a)
+	}
+}
+
+// parallel runs fn(0..n-1) on GOMAXPROCS goroutines and stops handing out
+// tasks once ctx is done.
+func parallel(ctx context.Context, n int, fn func(int)) error {
+	workers := min(runtime.GOMAXPROCS(0), n)
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for ctx.Err() == nil {
+				t := int(next.Add(1) - 1)
+				if t >= n {
+					return
+				}
+				fn(t)
+			}
+		}()
+	}
+	wg.Wait()
+	return ctx.Err()
+}
+
+// Progress is called after each iterate is produced, with its degree and
+// the last degree asked for.
+type Progress func(k, last int)
+
+// Counts returns a_0..a_N for the set: by enumeration below length m =
+// w-1, and from the iterates G_0..G_{N-m} from there on.
+func Counts(ctx context.Context, s pattern.Set, N int, progress Progress) ([]*big.Int, error) {
+	sys := FromSet(s)
+	counts := make([]*big.Int, 0, N+1)
+	for n := 0; n <= N && n < sys.M; n++ {
+		c := 0
+		for _, ok := range s.AvoidingPerms(n) {
+			if ok {
+				c++
+			}
+		}
+		counts = append(counts, big.NewInt(int64(c)))
+	}
+	if N < sys.M {
+		return counts, nil
+	}
+	e := New(sys)
+	g := e.Start()
+	for {
+		counts = append(counts, g.Sum())
+		if progress != nil {
+			progress(g.K, N-sys.M)
+		}
+		if g.K == N-sys.M {
+			return counts, nil
+		}
+		var err error
+		if g, err = e.Next(ctx, g); err != nil {
+			return nil, err
+		}
+	}
+}
