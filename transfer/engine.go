@@ -143,20 +143,47 @@ func (e *Engine) Footprint(k int) int64 {
 // chunk is the number of output coefficients one task computes.
 const chunk = 2048
 
-// Next returns G_{k+1} computed from g = G_k. It stops early with the
-// context's error when ctx is cancelled.
+// Next returns G_{k+1} computed from g = G_k, leaving g unchanged. It stops
+// early with the context's error when ctx is cancelled.
 func (e *Engine) Next(ctx context.Context, g *Iterate) (*Iterate, error) {
-	if g.M != e.sys.M || g.Cells != e.cells {
-		return nil, fmt.Errorf("transfer: iterate of cell length %d does not belong to this engine (cell length %d)", g.M, e.sys.M)
+	if err := e.owns(g); err != nil {
+		return nil, err
 	}
+	prefix := newIterate(g.K, g.M, g.Cells, g.PerCell, g.Limbs)
+	return e.step(ctx, g, prefix, nil)
+}
+
+// Advance returns G_{k+1} like Next but consumes g: g's storage is
+// overwritten by its prefix sums, and the result reuses the storage of
+// recycle (an iterate of this engine that the caller no longer needs; nil
+// allocates). Holding two iterates instead of three is what lets long
+// counting runs fit in memory. After the call g and recycle must not be
+// used.
+func (e *Engine) Advance(ctx context.Context, g, recycle *Iterate) (*Iterate, error) {
+	if err := e.owns(g); err != nil {
+		return nil, err
+	}
+	return e.step(ctx, g, g, recycle)
+}
+
+func (e *Engine) owns(g *Iterate) error {
+	if g.M != e.sys.M || g.Cells != e.cells {
+		return fmt.Errorf("transfer: iterate of cell length %d does not belong to this engine (cell length %d)", g.M, e.sys.M)
+	}
+	return nil
+}
+
+// step writes the prefix sums of g into prefix (which may be g itself),
+// then fills the next iterate, in the storage of recycle when it is large
+// enough.
+func (e *Engine) step(ctx context.Context, g, prefix, recycle *Iterate) (*Iterate, error) {
 	m, k := e.sys.M, g.K
 	ix := NewIndexer(m, k+1)
-	prefix := newIterate(k, m, e.cells, g.PerCell, g.Limbs)
-	out := newIterate(k+1, m, e.cells, ix.Count(k+1), limbsFor(m, k+1))
+	out := reuseIterate(recycle, k+1, m, e.cells, ix.Count(k+1), limbsFor(m, k+1))
 	if m == 0 {
+		clear(out.words)
 		return out, nil
 	}
-
 	err := parallel(ctx, e.cells, func(tau int) { e.prefixSums(ix, g, prefix, tau) })
 	if err != nil {
 		return nil, err
@@ -174,19 +201,18 @@ func (e *Engine) Next(ctx context.Context, g *Iterate) (*Iterate, error) {
 }
 
 // prefixSums writes P[b] = sum_{i=0}^{b_{u-1}} G[b - i e_{u-1} + i e_u] for
-// one cell. In storage order the point b - e_{u-1} + e_u comes earlier, at
-// rank r - C(s_{u-1}+u-2, u-1).
+// one cell (prefix may alias g). In storage order the point
+// b - e_{u-1} + e_u comes earlier, at rank r - C(s_{u-1}+u-2, u-1).
 func (e *Engine) prefixSums(ix *Indexer, g, prefix *Iterate, tau int) {
 	m, k := g.M, g.K
 	u := e.dirU[tau]
 	a := make([]int, m+1)
 	a[m] = k
-	s := 0 // s_{u-1}
 	for r := 0; r < g.PerCell; r++ {
 		dst := prefix.Words(tau, r)
 		copy(dst, g.Words(tau, r))
 		if a[u-1] > 0 {
-			s = 0
+			s := 0
 			for i := 0; i < u; i++ {
 				s += a[i]
 			}
@@ -204,6 +230,7 @@ func (e *Engine) fill(ix *Indexer, prefix, out *Iterate, sigma, lo, hi int) {
 	ix.Unrank(out.K, lo, a)
 	for r := lo; r < hi; r++ {
 		dst := out.Words(sigma, r)
+		clear(dst)
 		for _, mv := range e.moves[sigma] {
 			aj := a[mv.j]
 			if aj == 0 {
@@ -218,8 +245,7 @@ func (e *Engine) fill(ix *Indexer, prefix, out *Iterate, sigma, lo, hi int) {
 			base := b[mv.u-1]
 			// far end of the line: l = a_j - 1, r = 0
 			b[mv.u-1] += aj - 1
-			end := ix.Rank(b)
-			addWords(dst, prefix.Words(mv.tau, end))
+			addWords(dst, prefix.Words(mv.tau, ix.Rank(b)))
 			if base > 0 {
 				// just before the line: l = -1, r = a_j
 				b[mv.u-1] -= aj
@@ -277,6 +303,7 @@ func Counts(ctx context.Context, s pattern.Set, N int, progress Progress) ([]*bi
 	}
 	e := New(sys)
 	g := e.Start()
+	var spare *Iterate
 	for {
 		counts = append(counts, g.Sum())
 		if progress != nil {
@@ -285,9 +312,10 @@ func Counts(ctx context.Context, s pattern.Set, N int, progress Progress) ([]*bi
 		if g.K == N-sys.M {
 			return counts, nil
 		}
-		var err error
-		if g, err = e.Next(ctx, g); err != nil {
+		next, err := e.Advance(ctx, g, spare)
+		if err != nil {
 			return nil, err
 		}
+		g, spare = next, g
 	}
 }

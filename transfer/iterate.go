@@ -22,6 +22,20 @@ func newIterate(k, m, cells, perCell, limbs int) *Iterate {
 		words: make([]big.Word, cells*perCell*limbs)}
 }
 
+// reuseIterate returns an iterate of the given shape, in the storage of old
+// when it is large enough. The words are not cleared: step writes every
+// coefficient.
+func reuseIterate(old *Iterate, k, m, cells, perCell, limbs int) *Iterate {
+	n := cells * perCell * limbs
+	if old == nil || cap(old.words) < n {
+		// Room for a few more steps: the size grows by a factor of about
+		// (k+m+1)/(k+1) per step.
+		return &Iterate{K: k, M: m, Cells: cells, PerCell: perCell, Limbs: limbs,
+			words: make([]big.Word, n, n+n/8)}
+	}
+	return &Iterate{K: k, M: m, Cells: cells, PerCell: perCell, Limbs: limbs, words: old.words[:n]}
+}
+
 // Words returns the words of coefficient r of a cell. The slice aliases the
 // iterate's storage: callers must not modify it.
 func (g *Iterate) Words(cell, r int) []big.Word {
