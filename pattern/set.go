@@ -52,7 +52,7 @@ func NewSet(perms ...Perm) Set {
 		}
 		s.patterns = append(s.patterns, p)
 	}
-	for _, p := range s.patterns {
+	for _, p := range perms {
 		s.given = append(s.given, p.String())
 	}
 	return s

@@ -1,0 +1,245 @@
+package pattern_test
+
+import (
+	"math/rand/v2"
+	"slices"
+	"testing"
+
+	"avoidcert/internal/brute"
+	"avoidcert/pattern"
+)
+
+func mustSet(t testing.TB, args ...string) pattern.Set {
+	t.Helper()
+	s, err := pattern.ParseSet(args)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+// plain converts a set's members for the brute-force reference.
+func plain(s pattern.Set) [][]int {
+	var out [][]int
+	for _, p := range s.Patterns() {
+		out = append(out, p)
+	}
+	return out
+}
+
+// randomSet draws one to six patterns of lengths 2..5.
+func randomSet(rng *rand.Rand) pattern.Set {
+	perms := make([]pattern.Perm, 1+rng.IntN(6))
+	for i := range perms {
+		p := rng.Perm(2 + rng.IntN(4))
+		for j := range p {
+			p[j]++
+		}
+		perms[i] = p
+	}
+	return pattern.NewSet(perms...)
+}
+
+func TestNewSetIsSortedAndIrredundant(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	for range 300 {
+		s := randomSet(rng)
+		ps := s.Patterns()
+		for i := 1; i < len(ps); i++ {
+			if !ps[i-1].Less(ps[i]) {
+				t.Fatalf("%v: members not strictly sorted", s)
+			}
+		}
+		for _, p := range ps {
+			for _, q := range ps {
+				if len(q) < len(p) && pattern.Contains(p, q) {
+					t.Fatalf("%v: member %v contains member %v", s, p, q)
+				}
+			}
+		}
+		for _, d := range s.Dropped() {
+			if d.Inside == nil {
+				if !slices.ContainsFunc(ps, d.Pattern.Equal) {
+					t.Fatalf("%v: duplicate %v dropped but not kept once", s, d.Pattern)
+				}
+			} else if !slices.ContainsFunc(ps, d.Inside.Equal) || !pattern.Contains(d.Pattern, d.Inside) {
+				t.Fatalf("%v: %v dropped as containing %v, which is not a member it contains", s, d.Pattern, d.Inside)
+			}
+		}
+		if len(ps)+len(s.Dropped()) != len(s.Given()) {
+			t.Fatalf("%v: %d kept + %d dropped != %d given", s, len(ps), len(s.Dropped()), len(s.Given()))
+		}
+	}
+}
+
+// AvoidingPerms and Avoids are checked permutation by permutation against
+// the brute-force reference, which compares windows pairwise.
+func TestAvoidingPermsMatchBruteForce(t *testing.T) {
+	check := func(s pattern.Set, n int) {
+		t.Helper()
+		table := s.AvoidingPerms(n)
+		ref := plain(s)
+		for r, ok := range table {
+			if want := brute.Avoids(pattern.Unrank(n, r), ref); ok != want {
+				t.Fatalf("%v: AvoidingPerms(%d)[%v] = %v, brute force says %v", s, n, pattern.Unrank(n, r), ok, want)
+			}
+		}
+	}
+	for k := 1; k <= 4; k++ {
+		for _, p := range pattern.All(k) {
+			for n := 0; n <= 6; n++ {
+				check(pattern.NewSet(p), n)
+			}
+		}
+	}
+	rng := rand.New(rand.NewPCG(3, 4))
+	for range 40 {
+		check(randomSet(rng), 7)
+	}
+}
+
+// For n >= w, avoiding the set and avoiding its lifted windows agree.
+func TestLift(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	for range 40 {
+		s := randomSet(rng)
+		w := s.Window()
+		lift := s.Lift()
+		for _, p := range lift.Patterns() {
+			if len(p) != w {
+				t.Fatalf("%v: lifted member %v has length %d, want %d", s, p, len(p), w)
+			}
+		}
+		for n := w; n <= 7; n++ {
+			if a, b := brute.Count(n, plain(s)), brute.Count(n, plain(lift)); a != b {
+				t.Fatalf("%v: %d avoiders of length %d, but %d avoid its lift %v", s, a, n, b, lift)
+			}
+		}
+	}
+	// 12 lifts to every window of length 2 but 21
+	if got := mustSet(t, "12").Lift().String(); got != "12" {
+		t.Errorf("lift of 12 = %s", got)
+	}
+	if got := mustSet(t, "12", "321").Lift().String(); got != "123,132,213,231,312,321" {
+		t.Errorf("lift of {12, 321} = %s, want every length-3 window (each has an ascent or is 321)", got)
+	}
+}
+
+// OEIS A262480: number of trivial c-Wilf classes of S_n (classes under
+// reversal and complement), a(0..8).
+var symmetryClassCounts = []int{1, 1, 1, 2, 8, 32, 192, 1272, 10176}
+
+func TestSymmetryClasses(t *testing.T) {
+	for k, want := range symmetryClassCounts {
+		classes := pattern.SymmetryClasses(k)
+		if len(classes) != want {
+			t.Errorf("SymmetryClasses(%d): %d classes, OEIS A262480 has %d", k, len(classes), want)
+		}
+		owner := make(map[string]int) // member -> class index
+		for ci, c := range classes {
+			if ci > 0 && !classes[ci-1].Representative.Less(c.Representative) {
+				t.Fatalf("k=%d: classes not ordered by representative", k)
+			}
+			if !c.Representative.Equal(c.Members[0]) {
+				t.Fatalf("k=%d: representative %v is not the least member of %v", k, c.Representative, c.Members)
+			}
+			for i, p := range c.Members {
+				if i > 0 && !c.Members[i-1].Less(p) {
+					t.Fatalf("k=%d: members %v not sorted and distinct", k, c.Members)
+				}
+				if prev, dup := owner[p.String()]; dup {
+					t.Fatalf("k=%d: %v is in classes %d and %d", k, p, prev, ci)
+				}
+				owner[p.String()] = ci
+			}
+		}
+		if len(owner) != pattern.Factorial(k) {
+			t.Fatalf("k=%d: classes cover %d permutations, want all %d", k, len(owner), pattern.Factorial(k))
+		}
+		// closed under the symmetries: an image lies in the same class
+		for _, p := range pattern.All(k) {
+			for _, q := range []pattern.Perm{p.Reverse(), p.Complement(), p.Reverse().Complement()} {
+				if owner[q.String()] != owner[p.String()] {
+					t.Fatalf("k=%d: %v and its image %v are in different classes", k, p, q)
+				}
+			}
+		}
+	}
+	// the two classes of length 3 (OEIS A262480 %C names them)
+	got := pattern.SymmetryClasses(3)
+	if got[0].Representative.String() != "123" || len(got[0].Members) != 2 ||
+		got[1].Representative.String() != "132" || len(got[1].Members) != 4 {
+		t.Errorf("classes of length 3 = %v, want {123, 321} and {132, 213, 231, 312}", got)
+	}
+}
+
+func TestCanonical(t *testing.T) {
+	var sets []pattern.Set
+	for k := 1; k <= 5; k++ {
+		for _, p := range pattern.All(k) {
+			sets = append(sets, pattern.NewSet(p))
+		}
+	}
+	three := pattern.All(3)
+	for i := range three {
+		for j := i + 1; j < len(three); j++ {
+			sets = append(sets, pattern.NewSet(three[i], three[j]))
+		}
+	}
+	rng := rand.New(rand.NewPCG(7, 8))
+	for range 200 {
+		sets = append(sets, randomSet(rng))
+	}
+	for _, s := range sets {
+		c := s.Canonical()
+		images := s.Symmetric()
+		if !images[0].Equal(s) {
+			t.Fatalf("Symmetric()[0] = %v, want %v itself", images[0], s)
+		}
+		found := false
+		for _, img := range images {
+			if !img.Canonical().Equal(c) {
+				t.Fatalf("%v: canonical %v, but its image %v has canonical %v", s, c, img, img.Canonical())
+			}
+			found = found || img.Equal(c)
+		}
+		if !found {
+			t.Fatalf("%v: canonical %v is none of its images %v", s, c, images)
+		}
+		if !c.Canonical().Equal(c) {
+			t.Fatalf("%v: canonical %v is not its own canonical", s, c)
+		}
+	}
+	// a single pattern's canonical set is its class representative
+	for k := 1; k <= 6; k++ {
+		for _, cl := range pattern.SymmetryClasses(k) {
+			for _, p := range cl.Members {
+				if got := pattern.NewSet(p).Canonical().String(); got != cl.Representative.String() {
+					t.Fatalf("canonical of %v = %s, want the class representative %v", p, got, cl.Representative)
+				}
+			}
+		}
+	}
+}
+
+func TestSetSymmetriesAndInverse(t *testing.T) {
+	s := mustSet(t, "1342,213")
+	tests := []struct {
+		name string
+		got  pattern.Set
+		want string
+	}{
+		{"reverse", s.Reverse(), "312,2431"},
+		{"complement", s.Complement(), "231,4213"},
+		{"reverse-complement", s.ReverseComplement(), "132,3124"},
+		{"inverse", s.Inverse(), "213,1423"},
+	}
+	for _, tc := range tests {
+		if tc.got.String() != tc.want {
+			t.Errorf("%s of %v = %v, want %s", tc.name, s, tc.got, tc.want)
+		}
+	}
+	if s.Window() != 4 || mustSet(t, "1").Window() != 1 {
+		t.Error("Window must be the length of the longest member")
+	}
+}
