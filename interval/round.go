@@ -70,10 +70,13 @@ func dyadic(m *big.Int, e int) *big.Rat {
 	return x.SetFrac(m, new(big.Int).Lsh(big.NewInt(1), uint(-e)))
 }
 
-// PowDown returns a value <= r^e for r >= 0 and e >= 0, computed by binary
-// powering with RoundDown after every product (all factors are nonnegative,
-// so rounding each one down keeps the result below). The relative error is
-// about 2*log2(e)*2^-prec. It panics for r < 0 or e < 0.
+// PowDown returns a value <= r^e for r >= 0 and e >= 0, a dyadic rational
+// with at most prec bits. It uses binary powering with RoundDown after every
+// product (all factors are nonnegative, so rounding each one down keeps the
+// result below) at prec + bitlen(e) + 2 working bits, which absorbs the
+// amplification of early errors by the exponent (about 2e roundings' worth):
+// the relative error stays below about 2^(2-prec). It panics for r < 0 or
+// e < 0.
 func PowDown(r *big.Rat, e int, prec uint) *big.Rat {
 	return powRounded(r, e, prec, false)
 }
@@ -87,17 +90,18 @@ func powRounded(r *big.Rat, e int, prec uint, up bool) *big.Rat {
 	if r.Sign() < 0 || e < 0 {
 		panic(fmt.Sprintf("interval: directed power needs r >= 0 and e >= 0, got r = %s, e = %d", r.RatString(), e))
 	}
+	work := prec + uint(big.NewInt(int64(e)).BitLen()) + 2
 	result := big.NewRat(1, 1)
-	base := roundDyadic(r, prec, up)
+	base := roundDyadic(r, work, up)
 	for ; e > 0; e >>= 1 {
 		if e&1 == 1 {
-			result = roundDyadic(new(big.Rat).Mul(result, base), prec, up)
+			result = roundDyadic(new(big.Rat).Mul(result, base), work, up)
 		}
 		if e > 1 {
-			base = roundDyadic(new(big.Rat).Mul(base, base), prec, up)
+			base = roundDyadic(new(big.Rat).Mul(base, base), work, up)
 		}
 	}
-	return result
+	return roundDyadic(result, prec, up)
 }
 
 // RootDown returns a value <= r^(1/d) for r >= 0 and d >= 1, with relative
