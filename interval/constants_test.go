@@ -111,7 +111,10 @@ func TestBisect(t *testing.T) {
 		t.Errorf("Bisect result %s wider than asked", got.String(10))
 	}
 	// Decreasing functions work too: the sign at the left end leads.
-	neg := func(x *big.Rat, p uint) Interval { v := square(3)(x, p); return Interval{Lo: v.Hi.Neg(v.Hi), Hi: v.Lo.Neg(v.Lo)} }
+	neg := func(x *big.Rat, p uint) Interval {
+		v := square(3)(x, p)
+		return Interval{Lo: v.Hi.Neg(v.Hi), Hi: v.Lo.Neg(v.Lo)}
+	}
 	got, err = Bisect(neg, big.NewRat(1, 1), big.NewRat(2, 1), 100)
 	three := big.NewRat(3, 1)
 	if err != nil || new(big.Rat).Mul(got.Lo, got.Lo).Cmp(three) >= 0 || new(big.Rat).Mul(got.Hi, got.Hi).Cmp(three) <= 0 {

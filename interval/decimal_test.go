@@ -16,14 +16,29 @@ func rat(s string) *big.Rat {
 	return r
 }
 
+// downUpCase is a hand-worked pair of directed results: down(r, n) and up(r, n).
+type downUpCase struct {
+	r        string
+	n        int
+	down, up string
+}
+
+func checkDownUp(t *testing.T, name string, down, up func(*big.Rat, int) string, cases []downUpCase) {
+	t.Helper()
+	for _, c := range cases {
+		if got := down(rat(c.r), c.n); got != c.down {
+			t.Errorf("%sDown(%s, %d) = %q, want %q", name, c.r, c.n, got, c.down)
+		}
+		if got := up(rat(c.r), c.n); got != c.up {
+			t.Errorf("%sUp(%s, %d) = %q, want %q", name, c.r, c.n, got, c.up)
+		}
+	}
+}
+
 // Hand-worked cases (common practice, no source: each is checked by hand
 // against the definition "largest/smallest d-digit decimal below/above r").
 func TestDecimalDownUpHandCases(t *testing.T) {
-	cases := []struct {
-		r        string
-		digits   int
-		down, up string
-	}{
+	checkDownUp(t, "Decimal", DecimalDown, DecimalUp, []downUpCase{
 		{"1/3", 3, "0.333", "0.334"},
 		{"2/3", 3, "0.666", "0.667"},
 		{"-2/3", 3, "-0.667", "-0.666"},
@@ -43,15 +58,7 @@ func TestDecimalDownUpHandCases(t *testing.T) {
 		{"82699334313/100000000000", 8, "0.82699334", "0.82699335"},
 		{"100", 1, "100", "100"},
 		{"101", 2, "100", "110"},
-	}
-	for _, c := range cases {
-		if got := DecimalDown(rat(c.r), c.digits); got != c.down {
-			t.Errorf("DecimalDown(%s, %d) = %q, want %q", c.r, c.digits, got, c.down)
-		}
-		if got := DecimalUp(rat(c.r), c.digits); got != c.up {
-			t.Errorf("DecimalUp(%s, %d) = %q, want %q", c.r, c.digits, got, c.up)
-		}
-	}
+	})
 }
 
 // significantDigits counts the digits of a printed decimal from its first

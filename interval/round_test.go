@@ -24,25 +24,16 @@ func isDyadicWithin(x *big.Rat, prec uint) bool {
 // Hand cases: 1/3 = 0.010101..._2, so its 4-bit roundings are 0.01010_2 =
 // 5/16 and 0.01011_2 = 11/32 (common practice, no source).
 func TestRoundHandCases(t *testing.T) {
-	cases := []struct {
-		r        string
-		prec     uint
-		down, up string
-	}{
+	ratString := func(f func(*big.Rat, uint) *big.Rat) func(*big.Rat, int) string {
+		return func(r *big.Rat, prec int) string { return f(r, uint(prec)).RatString() }
+	}
+	checkDownUp(t, "Round", ratString(RoundDown), ratString(RoundUp), []downUpCase{
 		{"1/3", 4, "5/16", "11/32"},
 		{"-1/3", 4, "-11/32", "-5/16"},
 		{"3/4", 10, "3/4", "3/4"},
 		{"0", 3, "0", "0"},
 		{"1000", 3, "896", "1024"},
-	}
-	for _, c := range cases {
-		if got := RoundDown(rat(c.r), c.prec); got.Cmp(rat(c.down)) != 0 {
-			t.Errorf("RoundDown(%s, %d) = %s, want %s", c.r, c.prec, got.RatString(), c.down)
-		}
-		if got := RoundUp(rat(c.r), c.prec); got.Cmp(rat(c.up)) != 0 {
-			t.Errorf("RoundUp(%s, %d) = %s, want %s", c.r, c.prec, got.RatString(), c.up)
-		}
-	}
+	})
 }
 
 func TestRoundProperty(t *testing.T) {
