@@ -214,12 +214,14 @@ func scanCell(w, dw *evaluator, u, v *big.Rat, depth int) (a, b *big.Rat, err er
 		return nil, nil, nil
 	}
 	if dw.eval(u, v, scanPrec).Hi.Sign() < 0 {
-		// w is strictly decreasing on [u, v] and w(u) > 0.
-		end := w.eval(v, v, scanPrec)
-		if end.Lo.Sign() > 0 {
+		// w is strictly decreasing on [u, v] and w(u) > 0, so the sign of
+		// w(v) settles the cell; w(v) may be tiny (the root of 12...k is
+		// within about 1/k! of 1), hence the rising precision.
+		point := func(x *big.Rat, p uint) Interval { return w.eval(x, x, p) }
+		switch s, err := certifiedSign(point, v, scanPrec); {
+		case err == nil && s > 0:
 			return nil, nil, nil
-		}
-		if end.Hi.Sign() < 0 {
+		case err == nil && s < 0:
 			return u, v, nil
 		}
 	}
