@@ -230,7 +230,7 @@ func (e *Engine) fill(ix *Indexer, prefix, out *Iterate, sigma, lo, hi int) {
 	ix.Unrank(out.K, lo, a)
 	for r := lo; r < hi; r++ {
 		dst := out.Words(sigma, r)
-		clear(dst)
+		empty := true // dst not yet written: the first term is copied, not added
 		for _, mv := range e.moves[sigma] {
 			aj := a[mv.j]
 			if aj == 0 {
@@ -245,13 +245,22 @@ func (e *Engine) fill(ix *Indexer, prefix, out *Iterate, sigma, lo, hi int) {
 			base := b[mv.u-1]
 			// far end of the line: l = a_j - 1, r = 0
 			b[mv.u-1] += aj - 1
-			addWords(dst, prefix.Words(mv.tau, ix.Rank(b)))
+			if src := prefix.Words(mv.tau, ix.Rank(b)); empty {
+				copy(dst, src)
+				clear(dst[len(src):])
+				empty = false
+			} else {
+				addWords(dst, src)
+			}
 			if base > 0 {
 				// just before the line: l = -1, r = a_j
 				b[mv.u-1] -= aj
 				b[mv.u] += aj
 				subWords(dst, prefix.Words(mv.tau, ix.Rank(b)))
 			}
+		}
+		if empty {
+			clear(dst)
 		}
 		ix.Next(a)
 	}

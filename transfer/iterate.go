@@ -29,9 +29,10 @@ func reuseIterate(old *Iterate, k, m, cells, perCell, limbs int) *Iterate {
 	n := cells * perCell * limbs
 	if old == nil || cap(old.words) < n {
 		// Room for a few more steps: the size grows by a factor of about
-		// (k+m+1)/(k+1) per step.
+		// (k+m+1)/(k+1) per step, and by one word per coefficient now
+		// and then.
 		return &Iterate{K: k, M: m, Cells: cells, PerCell: perCell, Limbs: limbs,
-			words: make([]big.Word, n, n+n/8)}
+			words: make([]big.Word, n, n+n/2)}
 	}
 	return &Iterate{K: k, M: m, Cells: cells, PerCell: perCell, Limbs: limbs, words: old.words[:n]}
 }
