@@ -18,29 +18,16 @@ func mustSet(t testing.TB, args ...string) pattern.Set {
 	return s
 }
 
-// plain converts a set's members for the brute-force reference.
-func plain(s pattern.Set) [][]int {
-	var out [][]int
-	for _, p := range s.Patterns() {
-		out = append(out, p)
-	}
-	return out
-}
-
 // randomSet draws one to six patterns of lengths 2..5.
 func randomSet(rng *rand.Rand) pattern.Set {
-	perms := make([]pattern.Perm, 1+rng.IntN(6))
-	for i := range perms {
-		p := rng.Perm(2 + rng.IntN(4))
-		for j := range p {
-			p[j]++
-		}
-		perms[i] = p
-	}
-	return pattern.NewSet(perms...)
+	return pattern.NewSet(brute.RandomPatterns[pattern.Perm](rng, 6, 2, 5)...)
 }
 
 func TestNewSetIsSortedAndIrredundant(t *testing.T) {
+	given := pattern.NewSet(mustPerm(t, "1234"), mustPerm(t, "123"), mustPerm(t, "1234")).Given()
+	if !slices.Equal(given, []string{"1234", "123", "1234"}) {
+		t.Errorf("NewSet(1234, 123, 1234).Given() = %v, want the arguments in order", given)
+	}
 	rng := rand.New(rand.NewPCG(1, 2))
 	for range 300 {
 		s := randomSet(rng)
@@ -78,7 +65,7 @@ func TestAvoidingPermsMatchBruteForce(t *testing.T) {
 	check := func(s pattern.Set, n int) {
 		t.Helper()
 		table := s.AvoidingPerms(n)
-		ref := plain(s)
+		ref := s.Patterns()
 		for r, ok := range table {
 			if want := brute.Avoids(pattern.Unrank(n, r), ref); ok != want {
 				t.Fatalf("%v: AvoidingPerms(%d)[%v] = %v, brute force says %v", s, n, pattern.Unrank(n, r), ok, want)
@@ -111,7 +98,7 @@ func TestLift(t *testing.T) {
 			}
 		}
 		for n := w; n <= 7; n++ {
-			if a, b := brute.Count(n, plain(s)), brute.Count(n, plain(lift)); a != b {
+			if a, b := brute.Count(n, s.Patterns()), brute.Count(n, lift.Patterns()); a != b {
 				t.Fatalf("%v: %d avoiders of length %d, but %d avoid its lift %v", s, a, n, b, lift)
 			}
 		}

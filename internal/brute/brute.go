@@ -3,9 +3,13 @@
 // transfer packages: it imports neither and shares no code with them, and
 // it is written to be obviously correct rather than fast.
 //
-// Patterns and permutations are plain []int holding 1..len. Functions never
-// modify their arguments.
+// Patterns and permutations hold 1..len in any slice type with underlying
+// type []int (so a caller's own permutation type passes as it is).
+// Functions never modify their arguments. RandomPatterns draws pattern lists for
+// randomised tests.
 package brute
+
+import "math/rand/v2"
 
 // Permutations calls visit with every permutation of 1..n in lexicographic
 // order (once, with the empty slice, for n = 0). The slice is reused
@@ -41,7 +45,7 @@ func Permutations(n int, visit func(p []int)) {
 // Contains reports whether some run of len(pat) adjacent entries of text
 // has the relative order of pat: every pair of positions compares the same
 // way in the run as in pat.
-func Contains(text, pat []int) bool {
+func Contains[P ~[]int](text []int, pat P) bool {
 	for start := 0; start+len(pat) <= len(text); start++ {
 		run := text[start : start+len(pat)]
 		same := true
@@ -61,7 +65,7 @@ func Contains(text, pat []int) bool {
 }
 
 // Avoids reports whether text contains none of the patterns.
-func Avoids(text []int, patterns [][]int) bool {
+func Avoids[P ~[]int](text []int, patterns []P) bool {
 	for _, pat := range patterns {
 		if Contains(text, pat) {
 			return false
@@ -72,7 +76,7 @@ func Avoids(text []int, patterns [][]int) bool {
 
 // Count returns the number of permutations of 1..n that avoid every
 // pattern, checking each permutation window by window.
-func Count(n int, patterns [][]int) int {
+func Count[P ~[]int](n int, patterns []P) int {
 	c := 0
 	Permutations(n, func(p []int) {
 		if Avoids(p, patterns) {
@@ -116,7 +120,7 @@ func (c *content) add(run []int) {
 }
 
 // Census holds, for one n, how many permutations of 1..n have each
-// content. It answers Count for any set of patterns of length at most
+// content. CensusCount answers for any set of patterns of length at most
 // CensusMaxLength without enumerating again, so that many sets can be
 // checked against one enumeration.
 type Census struct {
@@ -142,10 +146,10 @@ func NewCensus(n int) *Census {
 // N returns the permutation length of the census.
 func (cs *Census) N() int { return cs.n }
 
-// Count returns the number of permutations of 1..N() that avoid every
-// pattern. It panics on an empty pattern or one longer than
+// CensusCount returns the number of permutations of 1..cs.N() that avoid
+// every pattern. It panics on an empty pattern or one longer than
 // CensusMaxLength.
-func (cs *Census) Count(patterns [][]int) int {
+func CensusCount[P ~[]int](cs *Census, patterns []P) int {
 	var forbidden content
 	for _, pat := range patterns {
 		if len(pat) < 1 || len(pat) > CensusMaxLength {
@@ -160,4 +164,19 @@ func (cs *Census) Count(patterns [][]int) int {
 		}
 	}
 	return total
+}
+
+// RandomPatterns draws 1 to maxCount patterns (the count uniform), each a
+// uniform permutation of a length uniform in minLen..maxLen. Repeats and
+// patterns inside others are left in: building a set must cope with them.
+func RandomPatterns[P ~[]int](rng *rand.Rand, maxCount, minLen, maxLen int) []P {
+	out := make([]P, 1+rng.IntN(maxCount))
+	for i := range out {
+		p := rng.Perm(minLen + rng.IntN(maxLen-minLen+1))
+		for j := range p {
+			p[j]++
+		}
+		out[i] = p
+	}
+	return out
 }

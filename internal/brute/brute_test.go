@@ -80,15 +80,8 @@ func TestCensusMatchesCount(t *testing.T) {
 			t.Fatalf("N() = %d, want %d", cs.N(), n)
 		}
 		for range 30 {
-			var pats [][]int
-			for range 1 + rng.IntN(4) {
-				p := rng.Perm(1 + rng.IntN(CensusMaxLength))
-				for i := range p {
-					p[i]++
-				}
-				pats = append(pats, p)
-			}
-			if got, want := cs.Count(pats), Count(n, pats); got != want {
+			pats := RandomPatterns[[]int](rng, 4, 1, CensusMaxLength)
+			if got, want := CensusCount(cs, pats), Count(n, pats); got != want {
 				t.Fatalf("n=%d %v: census %d, direct %d", n, pats, got, want)
 			}
 		}

@@ -1,0 +1,52 @@
+package transfer_test
+
+import (
+	"context"
+	"math/big"
+	"math/rand/v2"
+	"testing"
+
+	"avoidcert/internal/brute"
+	"avoidcert/pattern"
+	"avoidcert/transfer"
+)
+
+func mustSet(t testing.TB, args ...string) pattern.Set {
+	t.Helper()
+	s, err := pattern.ParseSet(args)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+// randomSet draws one to six patterns of lengths 2..5.
+func randomSet(rng *rand.Rand) pattern.Set {
+	return pattern.NewSet(brute.RandomPatterns[pattern.Perm](rng, 6, 2, 5)...)
+}
+
+func counts(t testing.TB, s pattern.Set, N int) []*big.Int {
+	t.Helper()
+	c, err := transfer.Counts(context.Background(), s, N, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(c) != N+1 {
+		t.Fatalf("%v: Counts(%d) returned %d values, want %d", s, N, len(c), N+1)
+	}
+	return c
+}
+
+// iterate returns G_k of the set's system, advanced with Next.
+func iterate(t testing.TB, sys transfer.System, k int) *transfer.Iterate {
+	t.Helper()
+	e := transfer.New(sys)
+	g := e.Start()
+	for g.K < k {
+		var err error
+		if g, err = e.Next(context.Background(), g); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return g
+}
