@@ -50,7 +50,7 @@ func Parse(token string) (Perm, error) {
 			}
 		}
 		v, err := strconv.Atoi(e)
-		if err != nil || len(e) > 3 {
+		if err != nil {
 			return fail("entry %q is too large; the longest pattern accepted has length %d", e, MaxLength)
 		}
 		p = append(p, v)
@@ -61,7 +61,8 @@ func Parse(token string) (Perm, error) {
 	seen := make([]int, len(p)+1)
 	for i, v := range p {
 		if v < 1 || v > len(p) {
-			return fail("entry %d is out of range: a pattern of length %d uses each of 1..%d once", v, len(p), len(p))
+			return fail("entry %d is out of range: a pattern of length %d uses each of 1..%d once (missing: %s)",
+				v, len(p), len(p), missing(p))
 		}
 		if seen[v] != 0 {
 			return fail("value %d repeats (positions %d and %d); a pattern uses each of 1..%d once", v, seen[v], i+1, len(p))
@@ -93,4 +94,21 @@ func ParseSet(args []string) (Set, error) {
 	s := NewSet(perms...)
 	s.given = given
 	return s, nil
+}
+
+// missing lists the values of 1..len(p) that p does not use.
+func missing(p Perm) string {
+	used := make([]bool, len(p)+1)
+	for _, v := range p {
+		if v >= 1 && v <= len(p) {
+			used[v] = true
+		}
+	}
+	var out []string
+	for v := 1; v <= len(p); v++ {
+		if !used[v] {
+			out = append(out, strconv.Itoa(v))
+		}
+	}
+	return strings.Join(out, ", ")
 }

@@ -44,7 +44,7 @@ func TestParseRejects(t *testing.T) {
 		{"1.2.3.4.5.6.7.8", []string{"length 8", "limit of 7"}},
 		{"1223", []string{"value 2 repeats", "positions 2 and 3"}},
 		{"3.1.3.2", []string{"value 3 repeats"}},
-		{"124", []string{"entry 4", "1..3"}}, // 3 is missing
+		{"124", []string{"entry 4", "1..3", "missing: 3"}},
 		{"0", []string{"entry 0", "out of range"}},
 		{"12a", []string{"'a'", "not a digit"}},
 		{"-12", []string{"'-'", "not a digit"}},
@@ -52,7 +52,8 @@ func TestParseRejects(t *testing.T) {
 		{"1 2", []string{"' '", "not a digit"}},
 		{"1..2", []string{"empty entry"}},
 		{"1.2.", []string{"empty entry"}},
-		{"1000.1", []string{"too large"}},
+		{"1000.1", []string{"entry 1000", "out of range"}},
+		{"1.99999999999999999999", []string{"too large"}},
 		{"99999999999999999999999.1", []string{"too large"}},
 	}
 	for _, tc := range tests {

@@ -17,7 +17,9 @@
 //
 // Guarantees: all arithmetic is exact (fixed-width multi-word integers
 // sized from (m+k)!, which bounds every coefficient and partial sum); the
-// result does not depend on GOMAXPROCS; an Iterate is never modified after
-// it is returned, so it may be read from several goroutines. Engine methods
-// may be called concurrently.
+// result does not depend on GOMAXPROCS; an Iterate is not modified after it
+// is returned, so it may be read from several goroutines, with one
+// exception: Engine.Advance consumes the iterate it is given (and the one it
+// recycles), for runs that cannot afford to keep both. Engine methods may be
+// called concurrently on different iterates.
 package transfer

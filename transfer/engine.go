@@ -131,7 +131,8 @@ func (e *Engine) Start() *Iterate {
 }
 
 // Footprint estimates the bytes Next needs to produce G_{k+1} from G_k:
-// the input, its prefix sums and the output.
+// the input, its prefix sums and the output. Advance needs two thirds of
+// it or less, since the prefix sums overwrite the input.
 func (e *Engine) Footprint(k int) int64 {
 	m := e.sys.M
 	ix := NewIndexer(m, k+1)

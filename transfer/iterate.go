@@ -7,7 +7,8 @@ import (
 )
 
 // Iterate is G_k: for every cell, the integer Bernstein coefficients of
-// degree k, stored as fixed-width little-endian words. It is immutable.
+// degree k, stored as fixed-width little-endian words. It is immutable
+// unless passed to Engine.Advance, which consumes it.
 type Iterate struct {
 	K       int // the degree k
 	M       int // cell length m
