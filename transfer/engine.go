@@ -17,14 +17,15 @@ import (
 //
 // Writing l and r for the numbers of other values below and above t inside
 // gap j (l + r = a_j - 1), the index of the shorter permutation on tau is
-// b_i = sum of a over from[i], plus l at i = u-1 and r at i = u, where u is
-// t's rank in tau. Summing G_k[tau] along that line is one or two lookups
-// in its prefix sums along direction e_{u-1} - e_u.
+// b_i = a[src[0][i]] + a[src[1][i]] (the sigma gaps merged into tau's gap
+// i; index m+1 stands for none and reads 0), plus l at i = u-1 and r at
+// i = u, where u is t's rank in tau. Summing G_k[tau] along that line is
+// one or two lookups in its prefix sums along direction e_{u-1} - e_u.
 type move struct {
-	j    int
-	tau  int
-	u    int
-	from [][]int // per tau gap: the sigma gaps (other than j) merged into it
+	j   int
+	tau int
+	u   int
+	src [2][]int
 }
 
 // Engine advances iterates of one System. It is read-only after New and safe
@@ -100,8 +101,14 @@ func newMove(win pattern.Perm, j, m int) move {
 		}
 		h = append(h, []int{g[i]})
 	}
-	mv := move{j: j, tau: pattern.Rank(pattern.Standardize(win[:m])), from: make([][]int, m+1)}
+	mv := move{j: j, tau: pattern.Rank(pattern.Standardize(win[:m]))}
+	none := m + 1
+	for t := range mv.src {
+		mv.src[t] = []int{}
+	}
 	for i, srcs := range h {
+		merged := []int{none, none}
+		n := 0
 		for _, s := range srcs {
 			switch s {
 			case pieceL:
@@ -111,9 +118,12 @@ func newMove(win pattern.Perm, j, m int) move {
 					panic("transfer: pieces of the split gap are not adjacent")
 				}
 			default:
-				mv.from[i] = append(mv.from[i], s)
+				merged[n] = s
+				n++
 			}
 		}
+		mv.src[0] = append(mv.src[0], merged[0])
+		mv.src[1] = append(mv.src[1], merged[1])
 	}
 	return mv
 }
@@ -209,9 +219,12 @@ func (e *Engine) prefixSums(ix *Indexer, g, prefix *Iterate, tau int) {
 	u := e.dirU[tau]
 	a := make([]int, m+1)
 	a[m] = k
+	inPlace := prefix == g
 	for r := 0; r < g.PerCell; r++ {
 		dst := prefix.Words(tau, r)
-		copy(dst, g.Words(tau, r))
+		if !inPlace {
+			copy(dst, g.Words(tau, r))
+		}
 		if a[u-1] > 0 {
 			s := 0
 			for i := 0; i < u; i++ {
@@ -223,47 +236,61 @@ func (e *Engine) prefixSums(ix *Indexer, g, prefix *Iterate, tau int) {
 	}
 }
 
-// fill computes output coefficients lo..hi-1 of cell sigma.
+// fill computes output coefficients lo..hi-1 of cell sigma. For each move
+// it forms the partial sums s_i of the far end of the line (l = a_j - 1)
+// and its rank directly; the point just before the line (l = -1) differs
+// only in s_{u-1}, which is lower by a_j.
 func (e *Engine) fill(ix *Indexer, prefix, out *Iterate, sigma, lo, hi int) {
 	m := out.M
-	a := make([]int, m+1)
-	b := make([]int, m+1)
-	ix.Unrank(out.K, lo, a)
+	a := make([]int, m+2) // a[m+1] stays 0: the "no source" slot
+	ix.Unrank(out.K, lo, a[:m+1])
+	binom := ix.binom
 	for r := lo; r < hi; r++ {
 		dst := out.Words(sigma, r)
-		empty := true // dst not yet written: the first term is copied, not added
+		empty := true // dst not yet written: the first term is stored, not added
 		for _, mv := range e.moves[sigma] {
 			aj := a[mv.j]
 			if aj == 0 {
 				continue
 			}
-			for i, srcs := range mv.from {
-				b[i] = 0
-				for _, src := range srcs {
-					b[i] += a[src]
+			src0, src1 := mv.src[0][:m], mv.src[1][:m]
+			s, end, sU, base := 0, 0, 0, 0
+			for i := range m {
+				bi := a[src0[i]] + a[src1[i]]
+				if i == mv.u-1 {
+					base = bi
+					bi += aj - 1
+					s += bi
+					sU = s
+				} else {
+					s += bi
+				}
+				end += binom[s+i][i+1]
+			}
+			x := prefix.Words(mv.tau, end)
+			if base == 0 {
+				if empty {
+					copy(dst, x)
+					clear(dst[len(x):])
+				} else {
+					addWords(dst, x)
+				}
+			} else {
+				u := mv.u
+				before := end - binom[sU+u-1][u] + binom[sU-aj+u-1][u]
+				y := prefix.Words(mv.tau, before)
+				if empty {
+					subInto(dst, x, y)
+				} else {
+					addSubWords(dst, x, y)
 				}
 			}
-			base := b[mv.u-1]
-			// far end of the line: l = a_j - 1, r = 0
-			b[mv.u-1] += aj - 1
-			if src := prefix.Words(mv.tau, ix.Rank(b)); empty {
-				copy(dst, src)
-				clear(dst[len(src):])
-				empty = false
-			} else {
-				addWords(dst, src)
-			}
-			if base > 0 {
-				// just before the line: l = -1, r = a_j
-				b[mv.u-1] -= aj
-				b[mv.u] += aj
-				subWords(dst, prefix.Words(mv.tau, ix.Rank(b)))
-			}
+			empty = false
 		}
 		if empty {
 			clear(dst)
 		}
-		ix.Next(a)
+		ix.Next(a[:m+1])
 	}
 }
 

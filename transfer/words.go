@@ -38,6 +38,35 @@ func subWords(dst, src []big.Word) {
 	}
 }
 
+// addSubWords adds x - y into dst (len(x) = len(y) <= len(dst), x >= y).
+func addSubWords(dst, x, y []big.Word) {
+	var c, b uint
+	i := 0
+	for ; i < len(x); i++ {
+		var s, d uint
+		s, c = bits.Add(uint(dst[i]), uint(x[i]), c)
+		d, b = bits.Sub(s, uint(y[i]), b)
+		dst[i] = big.Word(d)
+	}
+	for ; (c|b) != 0 && i < len(dst); i++ {
+		var s, d uint
+		s, c = bits.Add(uint(dst[i]), 0, c)
+		d, b = bits.Sub(s, 0, b)
+		dst[i] = big.Word(d)
+	}
+}
+
+// subInto sets dst = x - y (len(x) = len(y) <= len(dst), x >= y).
+func subInto(dst, x, y []big.Word) {
+	var b uint
+	for i := range x {
+		var d uint
+		d, b = bits.Sub(uint(x[i]), uint(y[i]), b)
+		dst[i] = big.Word(d)
+	}
+	clear(dst[len(x):])
+}
+
 // limbsFor returns the words per coefficient of G_k for cell length m:
 // enough for 2 (m+k)!, which bounds every coefficient, every prefix sum of
 // G_k and every partial sum while G_{k+1} is accumulated from G_k's
