@@ -1,0 +1,458 @@
+package certify
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math/big"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"avoidcert/pattern"
+)
+
+// The wire form: the JSON members in the order they are written. Numbers
+// that can be large are strings; an absent optional bound means +inf.
+
+type wireFile struct {
+	Content       wireContent `json:"content"`
+	ContentSHA256 string      `json:"content_sha256"`
+	End           string      `json:"end"`
+}
+
+type wireContent struct {
+	Format    string        `json:"format"`
+	Version   int           `json:"version"`
+	Tool      string        `json:"tool"`
+	Statement wireStatement `json:"statement"`
+	Evidence  wireEvidence  `json:"evidence"`
+}
+
+type wireStatement struct {
+	Given     []string  `json:"patterns_given"`
+	Patterns  []string  `json:"patterns"`
+	Canonical []string  `json:"canonical_patterns"`
+	Quantity  string    `json:"quantity"`
+	Lambda    wireRange `json:"lambda"`
+	Radius    wireRange `json:"radius"`
+	AllN      wireAllN  `json:"all_n"`
+}
+
+type wireRange struct {
+	Lo        string `json:"lo"`
+	Hi        string `json:"hi,omitempty"`
+	Digits    int    `json:"digits"`
+	LoDecimal string `json:"lo_decimal"`
+	HiDecimal string `json:"hi_decimal,omitempty"`
+}
+
+type wireAllN struct {
+	N0   int    `json:"n0"`
+	AN0  string `json:"a_n0"`
+	MuLo string `json:"mu_lo"`
+	MuHi string `json:"mu_hi,omitempty"`
+}
+
+type wireEvidence struct {
+	Method        string        `json:"method"`
+	MethodVersion int           `json:"method_version"`
+	CellLength    int           `json:"cell_length"`
+	Brackets      []wireBracket `json:"brackets"`
+}
+
+type wireBracket struct {
+	Cells  []int  `json:"cells"`
+	Step   int    `json:"step"`
+	K      int    `json:"k"`
+	Lo     string `json:"lo"`
+	Hi     string `json:"hi,omitempty"`
+	Upper  bool   `json:"upper"`
+	Digest string `json:"iterate_sha256"`
+}
+
+// fileEnd is how every canonical file ends; a file cut short lacks it.
+const fileEnd = "  \"end\": \"" + EndMarker + "\"\n}\n"
+
+// Marshal returns the canonical file of c. It refuses a certificate that
+// Read could not read back (a missing number, a value out of range, a
+// string with characters outside the allowed set); it does not check the
+// mathematics. Marshal of the same certificate is byte-identical on every
+// machine.
+func Marshal(c *Certificate) ([]byte, error) {
+	w, err := toWire(c)
+	if err == nil {
+		_, err = fromWire(w)
+	}
+	if err != nil {
+		return nil, fmt.Errorf("certificate: %v", err)
+	}
+	return render(w)
+}
+
+// render writes the canonical file of a validated content: the indented
+// JSON of the file object and a final newline.
+func render(w wireContent) ([]byte, error) {
+	sum, err := contentDigest(w)
+	if err != nil {
+		return nil, err
+	}
+	out, err := json.MarshalIndent(wireFile{Content: w, ContentSHA256: hex.EncodeToString(sum[:]), End: EndMarker}, "", "  ")
+	if err != nil {
+		return nil, err
+	}
+	return append(out, '\n'), nil
+}
+
+// contentDigest is the SHA-256 of the compact JSON of the content object.
+func contentDigest(w wireContent) ([32]byte, error) {
+	compact, err := json.Marshal(w)
+	if err != nil {
+		return [32]byte{}, err
+	}
+	return sha256.Sum256(compact), nil
+}
+
+// Read reads one certificate file and checks its form: size, end marker,
+// format and version, strict JSON with only the known members, every field
+// within its limits, the content digest, and the canonical layout (the file
+// must be byte-identical to what Marshal writes). It does not check the
+// mathematics; call Check for that.
+func Read(r io.Reader) (*Certificate, error) {
+	data, err := io.ReadAll(io.LimitReader(r, MaxFileSize+1))
+	if err != nil {
+		return nil, fmt.Errorf("certificate: read: %v", err)
+	}
+	if len(data) > MaxFileSize {
+		return nil, fmt.Errorf("certificate: file is larger than the limit of %d bytes; a version %d certificate is far smaller, so this is not one", MaxFileSize, Version)
+	}
+	var head struct {
+		Content struct {
+			Format  string          `json:"format"`
+			Version json.RawMessage `json:"version"`
+		} `json:"content"`
+	}
+	headErr := json.Unmarshal(data, &head)
+	if headErr == nil && head.Content.Format != Format {
+		return nil, fmt.Errorf("certificate: content.format is %q, not %q: this is not an avoidcert certificate", abbreviate(head.Content.Format), Format)
+	}
+	if !bytes.HasSuffix(data, []byte(fileEnd)) {
+		return nil, fmt.Errorf("certificate: truncated or damaged: the file does not end with the end marker %q", EndMarker)
+	}
+	if headErr != nil {
+		return nil, fmt.Errorf("certificate: not valid JSON: %v", headErr)
+	}
+	switch v := string(head.Content.Version); {
+	case v == "":
+		return nil, errors.New("certificate: content.version is missing")
+	case v != fmt.Sprint(Version):
+		return nil, fmt.Errorf("certificate: format version %s; this checker reads version %d only", abbreviate(v), Version)
+	}
+	var f wireFile
+	dec := json.NewDecoder(bytes.NewReader(data))
+	dec.DisallowUnknownFields()
+	if err := dec.Decode(&f); err != nil {
+		return nil, fmt.Errorf("certificate: %v", err)
+	}
+	if dec.More() {
+		return nil, errors.New("certificate: data after the certificate object")
+	}
+	if f.End != EndMarker {
+		return nil, fmt.Errorf("certificate: end marker is %q, not %q", abbreviate(f.End), EndMarker)
+	}
+	c, err := fromWire(f.Content)
+	if err != nil {
+		return nil, fmt.Errorf("certificate: %v", err)
+	}
+	// The file must be exactly the canonical rendering of what it holds.
+	// When only the digest line differs, the content was changed after
+	// writing; otherwise the layout is not canonical.
+	w, err := toWire(c)
+	if err != nil {
+		return nil, fmt.Errorf("certificate: %v", err)
+	}
+	canonical, err := render(w)
+	if err != nil {
+		return nil, err
+	}
+	if !bytes.Equal(canonical, data) {
+		want, got := bytes.SplitAfter(canonical, []byte("\n")), bytes.SplitAfter(data, []byte("\n"))
+		var differ []int
+		for i := range max(len(want), len(got)) {
+			if i >= len(want) || i >= len(got) || !bytes.Equal(want[i], got[i]) {
+				differ = append(differ, i)
+			}
+		}
+		if len(want) == len(got) && len(differ) == 1 && bytes.HasPrefix(got[differ[0]], []byte(`  "content_sha256": `)) {
+			return nil, errors.New("certificate: content_sha256 does not match the content: the file was changed after it was written")
+		}
+		return nil, fmt.Errorf("certificate: not in canonical form (first difference on line %d); files are compared byte for byte with what the writer produces", differ[0]+1)
+	}
+	return c, nil
+}
+
+// Write writes the canonical file of c to path atomically: into a
+// temporary file in the same directory, flushed to disk, then renamed over
+// path. On any error path is left as it was.
+func Write(path string, c *Certificate) (err error) {
+	data, err := Marshal(c)
+	if err != nil {
+		return err
+	}
+	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*.tmp")
+	if err != nil {
+		return fmt.Errorf("certificate: %v", err)
+	}
+	defer func() {
+		if err != nil {
+			tmp.Close()
+			os.Remove(tmp.Name())
+		}
+	}()
+	if _, err = tmp.Write(data); err != nil {
+		return fmt.Errorf("certificate: %v", err)
+	}
+	if err = tmp.Chmod(0o644); err != nil {
+		return fmt.Errorf("certificate: %v", err)
+	}
+	if err = tmp.Sync(); err != nil {
+		return fmt.Errorf("certificate: %v", err)
+	}
+	if err = tmp.Close(); err != nil {
+		return fmt.Errorf("certificate: %v", err)
+	}
+	if err = os.Rename(tmp.Name(), path); err != nil {
+		return fmt.Errorf("certificate: %v", err)
+	}
+	if dir, derr := os.Open(filepath.Dir(path)); derr == nil {
+		dir.Sync() // make the rename durable where the platform allows
+		dir.Close()
+	}
+	return nil
+}
+
+// toWire formats c. It fails on missing or negative numbers only; limits
+// are fromWire's business.
+func toWire(c *Certificate) (wireContent, error) {
+	if c == nil {
+		return wireContent{}, errors.New("nil certificate")
+	}
+	s := c.Statement
+	w := wireContent{
+		Format:  Format,
+		Version: Version,
+		Tool:    c.Tool,
+		Statement: wireStatement{
+			Given:     s.Given,
+			Patterns:  s.Patterns,
+			Canonical: s.Canonical,
+			Quantity:  Quantity,
+		},
+		Evidence: wireEvidence{Method: Method, MethodVersion: MethodVersion, CellLength: c.Evidence.CellLength},
+	}
+	var err error
+	rat := func(name string, r *big.Rat, optional bool) string {
+		switch {
+		case err != nil:
+			return ""
+		case r == nil && optional:
+			return ""
+		case r == nil:
+			err = fmt.Errorf("%s is missing", name)
+			return ""
+		case r.Sign() < 0:
+			err = fmt.Errorf("%s is negative", name)
+			return ""
+		}
+		return formatRational(r)
+	}
+	rng := func(name string, r Range) wireRange {
+		return wireRange{Lo: rat(name+".lo", r.Lo, false), Hi: rat(name+".hi", r.Hi, true), Digits: r.Digits,
+			LoDecimal: r.LoDecimal, HiDecimal: r.HiDecimal}
+	}
+	w.Statement.Lambda = rng("statement.lambda", s.Lambda)
+	w.Statement.Radius = rng("statement.radius", s.Radius)
+	w.Statement.AllN = wireAllN{N0: s.AllN.N0, MuLo: rat("statement.all_n.mu_lo", s.AllN.MuLo, false),
+		MuHi: rat("statement.all_n.mu_hi", s.AllN.MuHi, true)}
+	if err == nil {
+		switch {
+		case s.AllN.AN0 == nil:
+			err = errors.New("statement.all_n.a_n0 is missing")
+		case s.AllN.AN0.Sign() < 0:
+			err = errors.New("statement.all_n.a_n0 is negative")
+		default:
+			w.Statement.AllN.AN0 = s.AllN.AN0.String()
+		}
+	}
+	for i, b := range c.Evidence.Brackets {
+		name := fmt.Sprintf("evidence.brackets[%d]", i)
+		w.Evidence.Brackets = append(w.Evidence.Brackets, wireBracket{
+			Cells: b.Cells, Step: b.Step, K: b.K,
+			Lo: rat(name+".lo", b.Lo, false), Hi: rat(name+".hi", b.Hi, true),
+			Upper: b.Upper, Digest: hex.EncodeToString(b.IterateDigest[:]),
+		})
+	}
+	return w, err
+}
+
+// fromWire parses and validates a content object: fixed strings, limits,
+// number syntax. The result owns all its values.
+func fromWire(w wireContent) (*Certificate, error) {
+	fail := func(field, format string, args ...any) (*Certificate, error) {
+		return nil, fmt.Errorf("%s: %s", field, fmt.Sprintf(format, args...))
+	}
+	switch {
+	case w.Format != Format:
+		return fail("format", "%q is not %q", abbreviate(w.Format), Format)
+	case w.Version != Version:
+		return fail("version", "%d; this checker reads version %d only", w.Version, Version)
+	case w.Statement.Quantity != Quantity:
+		return fail("statement.quantity", "%q is not %q, the only quantity of version %d", abbreviate(w.Statement.Quantity), Quantity, Version)
+	case w.Evidence.Method != Method:
+		return fail("evidence.method", "%q is not %q", abbreviate(w.Evidence.Method), Method)
+	case w.Evidence.MethodVersion != MethodVersion:
+		return fail("evidence.method_version", "%d is not %d", w.Evidence.MethodVersion, MethodVersion)
+	}
+	if err := checkText(w.Tool); err != nil {
+		return fail("tool", "%v", err)
+	}
+	c := &Certificate{Tool: w.Tool}
+	st := &c.Statement
+	var err error
+	lists := []struct {
+		name string
+		in   []string
+		out  *[]string
+	}{
+		{"statement.patterns_given", w.Statement.Given, &st.Given},
+		{"statement.patterns", w.Statement.Patterns, &st.Patterns},
+		{"statement.canonical_patterns", w.Statement.Canonical, &st.Canonical},
+	}
+	for _, l := range lists {
+		if len(l.in) == 0 || len(l.in) > MaxGiven {
+			return fail(l.name, "%d patterns; give 1 to %d", len(l.in), MaxGiven)
+		}
+		for _, tok := range l.in {
+			if err := checkToken(tok); err != nil {
+				return fail(l.name, "%v", err)
+			}
+		}
+		*l.out = append([]string(nil), l.in...)
+	}
+	if st.Lambda, err = parseRange("statement.lambda", w.Statement.Lambda); err != nil {
+		return nil, err
+	}
+	if st.Radius, err = parseRange("statement.radius", w.Statement.Radius); err != nil {
+		return nil, err
+	}
+	a := w.Statement.AllN
+	if a.N0 < 0 || a.N0 > MaxK+pattern.MaxLength {
+		return fail("statement.all_n.n0", "%d out of range 0..%d", a.N0, MaxK+pattern.MaxLength)
+	}
+	st.AllN.N0 = a.N0
+	if st.AllN.AN0, err = parseInteger(a.AN0); err != nil {
+		return fail("statement.all_n.a_n0", "%v", err)
+	}
+	if st.AllN.MuLo, err = parseRational(a.MuLo); err != nil {
+		return fail("statement.all_n.mu_lo", "%v", err)
+	}
+	if a.MuHi != "" {
+		if st.AllN.MuHi, err = parseRational(a.MuHi); err != nil {
+			return fail("statement.all_n.mu_hi", "%v", err)
+		}
+	}
+	ev := w.Evidence
+	if ev.CellLength < 0 || ev.CellLength >= pattern.MaxLength {
+		return fail("evidence.cell_length", "%d out of range 0..%d", ev.CellLength, pattern.MaxLength-1)
+	}
+	c.Evidence.CellLength = ev.CellLength
+	if len(ev.Brackets) == 0 || len(ev.Brackets) > MaxBrackets {
+		return fail("evidence.brackets", "%d brackets; give 1 to %d", len(ev.Brackets), MaxBrackets)
+	}
+	maxCells := pattern.Factorial(pattern.MaxLength - 1)
+	for i, b := range ev.Brackets {
+		name := fmt.Sprintf("evidence.brackets[%d]", i)
+		if len(b.Cells) == 0 || len(b.Cells) > maxCells {
+			return fail(name+".cells", "%d cells; give 1 to %d", len(b.Cells), maxCells)
+		}
+		if b.Step < 1 || b.Step > MaxStep {
+			return fail(name+".step", "%d out of range 1..%d", b.Step, MaxStep)
+		}
+		if b.K < 0 || b.K > MaxK {
+			return fail(name+".k", "%d out of range 0..%d", b.K, MaxK)
+		}
+		nb := Bracket{Cells: append([]int(nil), b.Cells...), Step: b.Step, K: b.K, Upper: b.Upper}
+		if nb.Lo, err = parseRational(b.Lo); err != nil {
+			return fail(name+".lo", "%v", err)
+		}
+		if b.Hi != "" {
+			if nb.Hi, err = parseRational(b.Hi); err != nil {
+				return fail(name+".hi", "%v", err)
+			}
+		}
+		if len(b.Digest) != 64 || strings.ToLower(b.Digest) != b.Digest {
+			return fail(name+".iterate_sha256", "not 64 lowercase hexadecimal digits")
+		}
+		if _, err := hex.Decode(nb.IterateDigest[:], []byte(b.Digest)); err != nil {
+			return fail(name+".iterate_sha256", "not 64 lowercase hexadecimal digits")
+		}
+		c.Evidence.Brackets = append(c.Evidence.Brackets, nb)
+	}
+	return c, nil
+}
+
+func parseRange(name string, w wireRange) (Range, error) {
+	var r Range
+	var err error
+	if r.Lo, err = parseRational(w.Lo); err != nil {
+		return r, fmt.Errorf("%s.lo: %v", name, err)
+	}
+	if w.Hi != "" {
+		if r.Hi, err = parseRational(w.Hi); err != nil {
+			return r, fmt.Errorf("%s.hi: %v", name, err)
+		}
+	}
+	if w.Digits < 1 || w.Digits > MaxDigits {
+		return r, fmt.Errorf("%s.digits: %d out of range 1..%d", name, w.Digits, MaxDigits)
+	}
+	r.Digits = w.Digits
+	for _, d := range []struct{ field, s string }{{"lo_decimal", w.LoDecimal}, {"hi_decimal", w.HiDecimal}} {
+		if len(d.s) > 2*MaxNumberLength+MaxDigits {
+			return r, fmt.Errorf("%s.%s: %d characters, over the limit", name, d.field, len(d.s))
+		}
+		if strings.Trim(d.s, "0123456789.") != "" {
+			return r, fmt.Errorf("%s.%s: %q is not a decimal", name, d.field, abbreviate(d.s))
+		}
+	}
+	r.LoDecimal, r.HiDecimal = w.LoDecimal, w.HiDecimal
+	return r, nil
+}
+
+// checkText accepts the tool string: 1 to MaxToolLength printable ASCII
+// characters other than the ones JSON or HTML would escape.
+func checkText(s string) error {
+	if s == "" || len(s) > MaxToolLength {
+		return fmt.Errorf("%d characters; give 1 to %d", len(s), MaxToolLength)
+	}
+	for _, c := range s {
+		if c < 0x20 || c > 0x7e || strings.ContainsRune(`"\<>&`, c) {
+			return fmt.Errorf("character %q is not allowed (printable ASCII other than \" \\ < > &)", c)
+		}
+	}
+	return nil
+}
+
+// checkToken accepts a pattern token: digits and dots only.
+func checkToken(s string) error {
+	if s == "" || len(s) > MaxTokenLength {
+		return fmt.Errorf("pattern token of %d characters; give 1 to %d", len(s), MaxTokenLength)
+	}
+	if strings.Trim(s, "0123456789.") != "" {
+		return fmt.Errorf("pattern token %q has characters other than digits and dots", abbreviate(s))
+	}
+	return nil
+}

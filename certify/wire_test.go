@@ -1,0 +1,409 @@
+package certify_test
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"flag"
+	"fmt"
+	"math"
+	"math/big"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+
+	"avoidcert/certify"
+	"avoidcert/pattern"
+)
+
+var update = flag.Bool("update", false, "rewrite the golden files in testdata")
+
+const goldenPath = "testdata/cert-123-k6.json"
+
+// goldenCert is the small certificate of the golden file: {123}, whole
+// system, k = 6.
+func goldenCert(t testing.TB) *certify.Certificate { return wholeCert(t, "123", 6) }
+
+func TestGoldenFile(t *testing.T) {
+	data, err := certify.Marshal(goldenCert(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if *update {
+		if err := os.WriteFile(goldenPath, data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	want, err := os.ReadFile(goldenPath)
+	if err != nil {
+		t.Fatalf("%v (run go test ./certify/ -run Golden -update to create it)", err)
+	}
+	if !bytes.Equal(data, want) {
+		t.Fatalf("Marshal differs from %s (run with -update if the change is intended):\n%s", goldenPath, data)
+	}
+	c, err := certify.Read(bytes.NewReader(want))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := certify.Check(c, certify.CheckOptions{}); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func TestMarshalDeterministic(t *testing.T) {
+	// two independent builds (fresh engine runs) and two marshals of each
+	a, b := cert123(t), cert123(t)
+	var outs [][]byte
+	for _, c := range []*certify.Certificate{a, a, b} {
+		data, err := certify.Marshal(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		outs = append(outs, data)
+	}
+	if !bytes.Equal(outs[0], outs[1]) || !bytes.Equal(outs[0], outs[2]) {
+		t.Fatal("Marshal is not byte-identical across calls and builds")
+	}
+	back, err := certify.Read(bytes.NewReader(outs[0]))
+	if err != nil {
+		t.Fatal(err)
+	}
+	again, err := certify.Marshal(back)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(again, outs[0]) {
+		t.Fatal("Marshal(Read(file)) differs from the file")
+	}
+}
+
+// TestContentDigestAsDocumented recomputes content_sha256 by the rule of
+// docs/certificate.md: SHA-256 of the compact JSON of the content member.
+func TestContentDigestAsDocumented(t *testing.T) {
+	data, err := certify.Marshal(cert123(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var f struct {
+		Content json.RawMessage `json:"content"`
+		Digest  string          `json:"content_sha256"`
+	}
+	if err := json.Unmarshal(data, &f); err != nil {
+		t.Fatal(err)
+	}
+	if got := compactDigest(t, f.Content); got != f.Digest {
+		t.Fatalf("content_sha256 %s, documented rule gives %s", f.Digest, got)
+	}
+}
+
+func compactDigest(t testing.TB, content []byte) string {
+	var buf bytes.Buffer
+	if err := json.Compact(&buf, content); err != nil {
+		t.Fatal(err)
+	}
+	sum := sha256.Sum256(buf.Bytes())
+	return hex.EncodeToString(sum[:])
+}
+
+var digestLine = regexp.MustCompile(`(?m)^  "content_sha256": "[^"\n]*",$`)
+
+// redigest recomputes content_sha256 of a (tampered) file as an attacker
+// would; it returns nil when the file no longer parses.
+func redigest(data []byte) []byte {
+	var f struct {
+		Content json.RawMessage `json:"content"`
+	}
+	if json.Unmarshal(data, &f) != nil || f.Content == nil {
+		return nil
+	}
+	var buf bytes.Buffer
+	if json.Compact(&buf, f.Content) != nil {
+		return nil
+	}
+	sum := sha256.Sum256(buf.Bytes())
+	return digestLine.ReplaceAll(data, []byte(`  "content_sha256": "`+hex.EncodeToString(sum[:])+`",`))
+}
+
+func TestReadRefusesDamagedFiles(t *testing.T) {
+	good, err := certify.Marshal(cert123(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name   string
+		data   []byte
+		reason string
+	}{
+		{"empty", nil, "truncated"},
+		{"cut", good[:len(good)/2], "truncated"},
+		{"cut before the last brace", good[:len(good)-2], "truncated"},
+		{"other JSON", []byte(`{"content": {"format": "something else"}}`), "not an avoidcert certificate"},
+		{"not JSON", []byte("hello\n"), "truncated"},
+		{"newer version", redigest(bytes.Replace(good, []byte(`"version": 1,`), []byte(`"version": 2,`), 1)), "format version 2"},
+		{"extra whitespace", bytes.Replace(good, []byte(`"k": `), []byte(`"k":  `), 1), "canonical form"},
+		{"escaped character", redigest(bytes.Replace(good, []byte(`"patterns": [
+        "123"`), []byte(`"patterns": [
+        "\u0031\u0032\u0033"`), 1)), "canonical form"},
+		{"unknown member", redigest(bytes.Replace(good, []byte(`"k": `), []byte(`"kk": 1, "k": `), 1)), "unknown field"},
+		{"key case", redigest(bytes.Replace(good, []byte(`"k": `), []byte(`"K": `), 1)), "canonical form"},
+		{"digest not redone", bytes.Replace(good, []byte(`"tool": "avoidcert`), []byte(`"tool": "Avoidcert`), 1), "content_sha256 does not match"},
+		{"data after", append(bytes.Clone(good), good...), "not valid JSON"},
+		{"too large", append(bytes.Repeat([]byte(" "), certify.MaxFileSize), good...), "larger than the limit"},
+		{"long number", redigest(bytes.Replace(good, []byte(`"mu_lo": "`), []byte(`"mu_lo": "`+strings.Repeat("1", 5000)), 1)), "over the limit"},
+		{"huge k", redigest(bytes.Replace(good, []byte(`"k": 8`), []byte(`"k": 80000`), 1)), "out of range"},
+		{"k not an integer", redigest(bytes.Replace(good, []byte(`"k": 8`), []byte(`"k": 8.5`), 1)), "cannot unmarshal"},
+		{"infinite lo", redigest(bytes.Replace(good, []byte(`"mu_lo": "`), []byte(`"mu_lo": "", "x": "`), 1)), "unknown field"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			if tc.data == nil && tc.name != "empty" {
+				t.Fatal("test input did not build")
+			}
+			_, err := certify.Read(bytes.NewReader(tc.data))
+			if err == nil {
+				t.Fatal("accepted")
+			}
+			if !strings.Contains(err.Error(), tc.reason) {
+				t.Fatalf("refused for %q, want a reason containing %q", err, tc.reason)
+			}
+		})
+	}
+}
+
+func TestTruncationDetected(t *testing.T) {
+	good, err := certify.Marshal(cert123(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for n := 0; n < len(good); n++ {
+		if _, err := certify.Read(bytes.NewReader(good[:n])); err == nil {
+			t.Fatalf("file cut to %d of %d bytes accepted", n, len(good))
+		}
+	}
+}
+
+// tamperCert has brackets of both steps, so that tampers reach every kind
+// of field.
+func tamperCert(t testing.TB) *certify.Certificate {
+	s, _ := pattern.ParseSet([]string{"123"})
+	return assemble(t, []string{"123"}, []engineBracket{
+		bracketFromEngine(t, s, nil, 6, 1, true),
+		bracketFromEngine(t, s, nil, 5, 2, false),
+	})
+}
+
+// freeKeys are the members a producer may choose (within the inequalities);
+// a changed value there may still be a true, proved certificate.
+var freeKeys = map[string]bool{"tool": true, "lo": true, "hi": true, "mu_lo": true, "mu_hi": true}
+
+var memberLine = regexp.MustCompile(`^(\s*)"([a-z_0-9]+)": (.*?)(,?)$`)
+
+// tamper changes one character (or token) of one field of the file, or
+// cuts it, and returns the new file and the member it changed.
+func tamper(rng *rand.Rand, data []byte) ([]byte, string) {
+	lines := strings.SplitAfter(string(data), "\n")
+	if rng.IntN(20) == 0 {
+		return data[:rng.IntN(len(data))], "truncation"
+	}
+	for {
+		i := rng.IntN(len(lines))
+		line := strings.TrimSuffix(lines[i], "\n")
+		key, value, start := "", strings.TrimSuffix(strings.TrimSpace(line), ","), strings.Index(line, strings.TrimSpace(line))
+		if m := memberLine.FindStringSubmatch(line); m != nil {
+			key, value = m[2], m[3]
+			start = len(m[1]) + len(key) + 4
+			if rng.IntN(10) == 0 { // change the member name itself
+				j := len(m[1]) + 1 + rng.IntN(len(key))
+				lines[i] = line[:j] + string(otherChar(rng, line[j])) + line[j+1:] + "\n"
+				return []byte(strings.Join(lines, "")), "name of " + key
+			}
+		} else {
+			key = arrayKey(lines, i)
+		}
+		if value == "" || value == "{" || value == "[" || value == "}" || value == "]" || key == "content_sha256" {
+			continue
+		}
+		var changed string
+		switch value {
+		case "true":
+			changed = "false"
+		case "false":
+			changed = "true"
+		default:
+			j := rng.IntN(len(value))
+			if value[j] == '"' {
+				continue
+			}
+			changed = value[:j] + string(otherChar(rng, value[j])) + value[j+1:]
+		}
+		lines[i] = line[:start] + changed + line[start+len(value):] + "\n"
+		return []byte(strings.Join(lines, "")), key
+	}
+}
+
+// arrayKey returns the name of the array holding line i.
+func arrayKey(lines []string, i int) string {
+	for j := i - 1; j >= 0; j-- {
+		if m := memberLine.FindStringSubmatch(strings.TrimSuffix(lines[j], "\n")); m != nil && m[3] == "[" {
+			return m[2]
+		}
+	}
+	return ""
+}
+
+// otherChar returns a different character of the same kind.
+func otherChar(rng *rand.Rand, c byte) byte {
+	var kind string
+	switch {
+	case c >= '0' && c <= '9':
+		kind = "0123456789"
+	case c >= 'a' && c <= 'f':
+		kind = "0123456789abcdef"
+	case c >= 'a' && c <= 'z':
+		kind = "abcdefghijklmnopqrstuvwxyz"
+	default:
+		kind = "/.-, ()!^"
+	}
+	for {
+		if d := kind[rng.IntN(len(kind))]; d != c {
+			return d
+		}
+	}
+}
+
+// TestRandomTampersRejected changes one field at random, thousands of
+// times. Left as they are, every tampered file is refused. With the
+// content digest recomputed, a tamper of a derived field or of the
+// evidence is refused, and a tamper of a free bound is refused unless what
+// it states is still true (checked against the published lambda(123) and
+// the counts of OEIS A049774).
+func TestRandomTampersRejected(t *testing.T) {
+	good, err := certify.Marshal(tamperCert(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, _ := pattern.ParseSet([]string{"123"})
+	opts := certify.CheckOptions{Expect: s}
+	verify := func(data []byte) (*certify.Certificate, error) {
+		c, err := certify.Read(bytes.NewReader(data))
+		if err != nil {
+			return nil, err
+		}
+		return c, certify.Check(c, opts)
+	}
+	rng := rand.New(rand.NewPCG(2003, 123))
+	const n = 1500
+	rejectedRaw, rejectedResealed, acceptedFree := 0, 0, 0
+	for range n {
+		bad, key := tamper(rng, good)
+		if bytes.Equal(bad, good) {
+			continue
+		}
+		if _, err := verify(bad); err == nil {
+			t.Fatalf("tamper of %s accepted without a recomputed digest:\n%s", key, bad)
+		}
+		rejectedRaw++
+		resealed := redigest(bad)
+		if resealed == nil {
+			rejectedResealed++
+			continue
+		}
+		c, err := verify(resealed)
+		if err != nil {
+			rejectedResealed++
+			continue
+		}
+		if !freeKeys[key] {
+			t.Fatalf("tamper of %s accepted with a recomputed digest:\n%s", key, resealed)
+		}
+		if why := unsound(t, c, lambda123, "A049774"); why != "" {
+			t.Fatalf("tamper of %s accepted although %s:\n%s", key, why, resealed)
+		}
+		acceptedFree++
+	}
+	t.Logf("%d tampers: %d refused as written; with the digest recomputed %d refused, %d accepted (free bounds, still true)", n, rejectedRaw, rejectedResealed, acceptedFree)
+	if rejectedRaw < 1000 || rejectedResealed < 1000 {
+		t.Fatalf("only %d and %d tampers refused; want at least 1000 each", rejectedRaw, rejectedResealed)
+	}
+}
+
+// unsound returns what is false in an accepted certificate, or "" when its
+// claims agree with the published growth rate and the counts of an OEIS
+// table.
+func unsound(t *testing.T, c *certify.Certificate, lambda float64, oeis string) string {
+	st := c.Statement
+	if !contains(st.Lambda, lambda) {
+		return fmt.Sprintf("lambda [%s, %s] misses the published value", st.Lambda.LoDecimal, st.Lambda.HiDecimal)
+	}
+	rlo, _ := st.Radius.Lo.Float64()
+	rhi := math.Inf(1)
+	if st.Radius.Hi != nil {
+		rhi, _ = st.Radius.Hi.Float64()
+	}
+	if r := 1 / lambda; rlo > r*(1+1e-14) || rhi < r*(1-1e-14) {
+		return "the radius interval misses 1/lambda"
+	}
+	for _, b := range c.Evidence.Brackets {
+		lo, _ := b.Lo.Float64()
+		if p := math.Pow(lambda, float64(b.Step)); lo > p*(1+1e-13) {
+			return "a bracket's lo exceeds lambda^d"
+		}
+		if b.Hi != nil {
+			if hi, _ := b.Hi.Float64(); hi < math.Pow(lambda, float64(b.Step))*(1-1e-13) {
+				return "a bracket's hi is below lambda^d"
+			}
+		}
+	}
+	terms := oeisTerms(t, oeis)
+	A := new(big.Rat).SetFrac(st.AllN.AN0, new(big.Int).MulRange(1, int64(st.AllN.N0)))
+	lo, hi := new(big.Rat).Set(A), new(big.Rat).Set(A)
+	for n := st.AllN.N0; n < len(terms); n++ {
+		x := new(big.Rat).SetFrac(terms[n], new(big.Int).MulRange(1, int64(n)))
+		if x.Cmp(lo) < 0 || (st.AllN.MuHi != nil && x.Cmp(hi) > 0) {
+			return fmt.Sprintf("the all-n bounds fail at n = %d", n)
+		}
+		lo.Mul(lo, st.AllN.MuLo)
+		if st.AllN.MuHi != nil {
+			hi.Mul(hi, st.AllN.MuHi)
+		}
+	}
+	return ""
+}
+
+func TestWriteAtomic(t *testing.T) {
+	dir := t.TempDir()
+	path := filepath.Join(dir, "claim.json")
+	if err := os.WriteFile(path, []byte("old"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	c := cert123(t)
+	if err := certify.Write(path, c); err != nil {
+		t.Fatal(err)
+	}
+	got, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, _ := certify.Marshal(c)
+	if !bytes.Equal(got, want) {
+		t.Fatal("written file differs from Marshal")
+	}
+	// an invalid certificate writes nothing and leaves the old file
+	c.Statement.Lambda.Lo = nil
+	if err := certify.Write(path, c); err == nil {
+		t.Fatal("Write of an invalid certificate succeeded")
+	}
+	if again, _ := os.ReadFile(path); !bytes.Equal(again, want) {
+		t.Fatal("failed Write changed the file")
+	}
+	if err := certify.Write(filepath.Join(dir, "missing", "x.json"), cert123(t)); err == nil {
+		t.Fatal("Write into a missing directory succeeded")
+	}
+	entries, _ := os.ReadDir(dir)
+	if len(entries) != 1 {
+		t.Fatalf("directory holds %d entries, want only the certificate (no temporary files left)", len(entries))
+	}
+}
