@@ -53,7 +53,8 @@ type Options struct {
 	// for a cyclic avoider where the exact decision does not apply
 	// (m > 5); default 2m+2.
 	CyclicMaxLength int
-	// CyclicBudget caps the nodes of that bounded search (default 4e6).
+	// CyclicBudget caps the nodes of that bounded search, over all its
+	// lengths (default 4e6).
 	CyclicBudget int64
 }
 
@@ -287,8 +288,7 @@ func runJoint(ctx context.Context, sys transfer.System, opts Options) (*jointRun
 // Simple case for any m: if every cyclic component of the window digraph
 // is one cell, its only loops are monotone windows, so the closed walk of
 // a cyclic avoider would be one monotone window repeated L times, and
-// p_1 < p_2 < ... < p_L < p_1 is impossible: there is none. (Here a direct
-// count also works: an avoider is a chain of at most m!+1 monotone runs.)
+// p_1 < p_2 < ... < p_L < p_1 is impossible: there is none.
 func decideLambda(ctx context.Context, rep *Report, sys transfer.System, run *jointRun, opts Options) error {
 	m := sys.M
 	if run != nil {
@@ -329,15 +329,20 @@ func decideLambda(ctx context.Context, rep *Report, sys transfer.System, run *jo
 		rep.CyclicAvoider = p
 	}
 	if rep.CyclicAvoider != nil {
-		if !closesCyclically(sys, rep.CyclicAvoider, factorials(m+1)) {
+		if !closesCyclically(sys, rep.CyclicAvoider) {
 			return fmt.Errorf("structure: internal error: cyclic witness %v does not close", rep.CyclicAvoider)
 		}
 		rep.Lambda = LambdaPositive
 		rep.say("lambda > 0 proved: %v is a cyclic avoider of length %d (least length)", rep.CyclicAvoider, len(rep.CyclicAvoider))
 		return nil
 	}
-	rep.say("lambda > 0 undecided: no cyclic avoider found (lengths %d..%d, at most %d search nodes) and no proof of lambda = 0 applies",
-		m+1, opts.CyclicMaxLength, opts.CyclicBudget)
+	if run != nil {
+		rep.say("lambda > 0 undecided: no cyclic avoider of length %d..%d, and R_k did not repeat within the step limit, so longer ones are not excluded",
+			m+1, m+run.js.m+len(run.history)-1)
+	} else {
+		rep.say("lambda > 0 undecided: no cyclic avoider found (lengths %d..%d, at most %d search nodes in all) and no proof of lambda = 0 applies",
+			m+1, opts.CyclicMaxLength, opts.CyclicBudget)
+	}
 	return nil
 }
 
@@ -394,8 +399,8 @@ func classify(rep *Report, run *jointRun) {
 	if from, to, ok := d.Unreachable(); ok {
 		rep.Class = Reducible
 		rep.Unreached = &CellPair{From: cellPerm(rep.M, from), To: cellPerm(rep.M, to)}
-		rep.say("reducible: no walk of the window digraph leads from cell %v to cell %v, so no avoiding permutation starts in %v and ends in %v; T leaves the functions on the cells reached from %v invariant (proved)",
-			rep.Unreached.From, rep.Unreached.To, rep.Unreached.From, rep.Unreached.To, rep.Unreached.From)
+		rep.say("reducible: no walk of the window digraph leads from cell %v to cell %v, so no avoiding permutation of length > %d starts with pattern %v and ends with %v; T maps the functions on the cells reached from %v (on %v itself if none is) into themselves, a proper invariant subspace (proved)",
+			rep.Unreached.From, rep.Unreached.To, rep.M, rep.Unreached.From, rep.Unreached.To, rep.Unreached.From, rep.Unreached.From)
 		rep.say("lambda is the largest over the blocks of the window digraph (bracket each with transfer.System.Restrict); whether a_n/n! ~ c lambda^n holds depends on the dominant blocks and is not proved here")
 		return
 	}
@@ -403,10 +408,13 @@ func classify(rep *Report, run *jointRun) {
 		if union, disjoint := run.cycleUnion(); union.equal(run.js.domain) && disjoint {
 			rep.Class = Periodic
 			rep.Period = run.cycleLength
-			rep.say("periodic: from k = %d on each joint pattern lies in exactly one of the %d sets of the cycle, and every one lies in some: T is irreducible with period %d (proved); a_n/n! ~ c lambda^n with one constant c is not proved (the bracket should use T^%d)",
-				run.cycleStart, run.cycleLength, run.cycleLength, run.cycleLength)
-			if p := startPeriod(d); p != rep.Period {
-				rep.say("note: the window digraph's period is %d", p)
+			rep.say("periodic: from k = %d on each joint pattern lies in exactly one of the %d sets R_k of the cycle, and every one lies in some: T is irreducible, the positivity of the kernel of T^k repeats with period %d, and no power of T is primitive (proved)",
+				run.cycleStart, run.cycleLength, run.cycleLength)
+			if run.cellBlocks() {
+				rep.say("each R_k of the cycle is a union of whole cell pairs, so the cells split into %d classes cyclically permuted by T and T^%d has an a.e.-positive kernel on each class: by Jentzsch's theorem there, a_n/n! = lambda^n (c_(n mod %d) + O(theta^n)) with c_r >= 0, theta < 1 (proved); one constant c for all n is not (bracket with T^%d)",
+					run.cycleLength, run.cycleLength, run.cycleLength, run.cycleLength)
+			} else {
+				rep.say("some R_k of the cycle splits a pair of cells: the asymptotic form is not proved")
 			}
 			return
 		}
@@ -431,6 +439,48 @@ func startPeriod(d *Digraph) int {
 		}
 	}
 	return 0
+}
+
+// cellBlocks reports whether every R_k of the cycle is a union of whole
+// cell pairs: with the halves (sigma, tau) of one of its joint patterns it
+// holds all C(2m, m) joint patterns with those halves (one per choice of
+// the values that go to the first half).
+//
+// Why that gives p classes. Let c(sigma, tau) be the residue mod p of the
+// k >= cycleStart whose R_k holds the pair. Two avoiding permutations, one
+// ending and one starting with the pattern tau, glue along those m entries
+// (linear orders amalgamate), and every window of the result lies in one
+// of them; so c is additive, c(sigma, tau) = f(tau) - f(sigma), and a
+// window sigma -> tau has f(tau) = f(sigma) + 1. The classes f = i are
+// then nonempty (the digraph is strongly connected), T maps class i to
+// i+1, and R_k for k = 0 mod p holds every pair inside a class: T^p has an
+// a.e.-positive kernel on each class. Every cycle of the digraph has a
+// length divisible by p, and a larger digraph period d would keep R_k and
+// R_{k+p} apart, so p is the digraph's period.
+func (run *jointRun) cellBlocks() bool {
+	js, m := run.js, run.js.m
+	cells := pattern.Factorial(m)
+	whole := 1 // C(2m, m)
+	for i := 1; i <= m; i++ {
+		whole = whole * (m + i) / i
+	}
+	c := js.newCursor()
+	for k := run.cycleStart; k < run.cycleStart+run.cycleLength; k++ {
+		tally := make([]int, cells*cells)
+		set := run.history[k-m]
+		for r := range js.size {
+			if set.has(r) {
+				c.seek(r)
+				tally[pattern.Rank(c.q[:m])*cells+pattern.Rank(c.q[m:])]++
+			}
+		}
+		for _, n := range tally {
+			if n != 0 && n != whole {
+				return false
+			}
+		}
+	}
+	return true
 }
 
 // cycleUnion returns the union of the R_k of the detected cycle and

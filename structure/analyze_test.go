@@ -179,6 +179,9 @@ func checkBrute(t *testing.T, s pattern.Set, rep *Report, maxN int) {
 		if n != rep.Domain {
 			fail("%d witnesses, domain %d", n, rep.Domain)
 		}
+		if L := m + rep.Exponent; L <= maxN && len(bruteJoint(s, m, L)) != rep.Domain {
+			fail("enumeration at length %d does not realise all %d joint patterns", L, rep.Domain)
+		}
 		if L := m + rep.Exponent - 1; rep.Exponent > m && L <= maxN && len(bruteJoint(s, m, L)) >= rep.Domain {
 			fail("exponent %d is not least: length %d already realises every joint pattern", rep.Exponent, L)
 		}
@@ -197,6 +200,9 @@ func checkBrute(t *testing.T, s pattern.Set, rep *Report, maxN int) {
 			}
 		}
 	case Periodic:
+		if p := startPeriod(rep.Digraph); p != rep.Period {
+			fail("period %d, the window digraph's is %d", rep.Period, p)
+		}
 		for L := m + 1; L <= maxN; L++ {
 			if L%rep.Period != 0 && bruteCyclic(s, L) != 0 {
 				fail("cyclic avoiders of length %d, not a multiple of the period %d", L, rep.Period)

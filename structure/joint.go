@@ -41,6 +41,11 @@ import (
 // holds every joint pattern whose two halves are start cells (the domain;
 // it is all of S_2m when every pattern has the longest length).
 
+// Ranks. pattern.Rank counts, for each entry, the later entries below it,
+// so it gives the rank of the pattern of any distinct values without
+// standardising them; the code below relies on that
+// (TestRankHelpersMatchPattern checks it).
+
 // jointSpace holds the tables of the joint-pattern test of one system.
 type jointSpace struct {
 	m, n   int   // n = 2m
@@ -58,12 +63,7 @@ const maxExactM = 5
 
 func newJointSpace(sys transfer.System) *jointSpace {
 	m := sys.M
-	js := &jointSpace{m: m, n: 2 * m, sys: sys}
-	js.fact = make([]int, js.n+1)
-	js.fact[0] = 1
-	for i := 1; i <= js.n; i++ {
-		js.fact[i] = js.fact[i-1] * i
-	}
+	js := &jointSpace{m: m, n: 2 * m, sys: sys, fact: factorials(2 * m)}
 	js.size = js.fact[js.n]
 	js.extend = make([]bool, sys.Cells()*(m+1))
 	w := make([]int, m+1)
@@ -77,7 +77,7 @@ func newJointSpace(sys transfer.System) *jointSpace {
 				}
 			}
 			w[m] = j + 1
-			js.extend[cell*(m+1)+j] = sys.Allowed[lehmer(w, js.fact)]
+			js.extend[cell*(m+1)+j] = sys.Allowed[pattern.Rank(w)]
 		}
 	}
 	js.domain = newBitset(js.size)
@@ -90,27 +90,11 @@ func newJointSpace(sys transfer.System) *jointSpace {
 	c := js.newCursor()
 	for r := range js.size {
 		c.seek(r)
-		if sys.Start[lehmer(c.q[:m], js.fact)] && sys.Start[lehmer(c.q[m:], js.fact)] {
+		if sys.Start[pattern.Rank(c.q[:m])] && sys.Start[pattern.Rank(c.q[m:])] {
 			js.domain.set(r)
 		}
 	}
 	return js
-}
-
-// lehmer returns pattern.Rank(pattern.Standardize(v)) for distinct values
-// v, len(v) < len(fact), without allocating.
-func lehmer(v []int, fact []int) int {
-	r := 0
-	for i, a := range v {
-		smaller := 0
-		for _, b := range v[i+1:] {
-			if b < a {
-				smaller++
-			}
-		}
-		r += smaller * fact[len(v)-1-i]
-	}
-	return r
 }
 
 // unrank writes into q (len n) the permutation of 1..n of rank r and into
@@ -189,7 +173,7 @@ func (js *jointSpace) initial(ctx context.Context) (bitset, error) {
 	r := newBitset(js.size)
 	w := newWalker(ctx, js.sys, 0)
 	_, err := w.run(js.n, func(seq []int) bool {
-		r.set(lehmer(seq, js.fact))
+		r.set(pattern.Rank(seq))
 		return true
 	})
 	return r, err
@@ -273,7 +257,7 @@ func (js *jointSpace) closable(q []int, buf []int) bool {
 	for i := 0; i < m; i++ {
 		buf = append(buf[:0], q[m+i:]...)
 		buf = append(buf, q[:i+1]...)
-		if !js.sys.Allowed[lehmer(buf, js.fact)] {
+		if !js.sys.Allowed[pattern.Rank(buf)] {
 			return false
 		}
 	}
@@ -319,10 +303,10 @@ func (js *jointSpace) predecessor(r int, prev bitset) (src, gap int, ok bool) {
 		}
 		copy(win, seq[m:])
 		win[m] = z
-		if !js.sys.Allowed[lehmer(win, js.fact)] {
+		if !js.sys.Allowed[pattern.Rank(win)] {
 			continue
 		}
-		src = lehmer(seq, js.fact)
+		src = pattern.Rank(seq)
 		if !prev.has(src) {
 			continue
 		}

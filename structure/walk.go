@@ -20,7 +20,6 @@ var errBudget = errors.New("structure: search budget exhausted")
 type walker struct {
 	ctx    context.Context
 	sys    transfer.System
-	fact   []int
 	seq    []int
 	nodes  int64
 	budget int64 // 0: unlimited
@@ -29,12 +28,7 @@ type walker struct {
 }
 
 func newWalker(ctx context.Context, sys transfer.System, budget int64) *walker {
-	fact := make([]int, sys.M+2)
-	fact[0] = 1
-	for i := 1; i < len(fact); i++ {
-		fact[i] = fact[i-1] * i
-	}
-	return &walker{ctx: ctx, sys: sys, fact: fact, budget: budget}
+	return &walker{ctx: ctx, sys: sys, budget: budget}
 }
 
 // run calls visit for every allowed permutation of length L in
@@ -73,9 +67,9 @@ func (w *walker) grow() (bool, error) {
 		ok := true
 		switch {
 		case n+1 == m:
-			ok = w.sys.Start[lehmer(w.seq, w.fact)]
+			ok = w.sys.Start[pattern.Rank(w.seq)]
 		case n+1 > m:
-			ok = w.sys.Allowed[lehmer(w.seq[n-m:], w.fact)]
+			ok = w.sys.Allowed[pattern.Rank(w.seq[n-m:])]
 		}
 		if ok {
 			stopped, err := w.grow()
@@ -96,14 +90,14 @@ func (w *walker) grow() (bool, error) {
 // closesCyclically reports whether the allowed sequence seq (length
 // L >= m+1) is a cyclic avoider: the m windows that wrap around the end
 // are allowed too.
-func closesCyclically(sys transfer.System, seq []int, fact []int) bool {
+func closesCyclically(sys transfer.System, seq []int) bool {
 	m, L := sys.M, len(seq)
 	win := make([]int, m+1)
 	for s := L - m; s < L; s++ {
 		for t := range win {
 			win[t] = seq[(s+t)%L]
 		}
-		if !sys.Allowed[lehmer(win, fact)] {
+		if !sys.Allowed[pattern.Rank(win)] {
 			return false
 		}
 	}
@@ -123,7 +117,7 @@ func CyclicAvoiders(ctx context.Context, s pattern.Set, L int) (int64, error) {
 	w := newWalker(ctx, sys, 0)
 	var count int64
 	_, err := w.run(L, func(seq []int) bool {
-		if closesCyclically(sys, seq, w.fact) {
+		if closesCyclically(sys, seq) {
 			count++
 		}
 		return true
@@ -139,7 +133,7 @@ func findCyclic(ctx context.Context, sys transfer.System, lo, hi int, budget int
 	for L := lo; L <= hi; L++ {
 		var found pattern.Perm
 		_, err := w.run(L, func(seq []int) bool {
-			if closesCyclically(sys, seq, w.fact) {
+			if closesCyclically(sys, seq) {
 				found = append(pattern.Perm(nil), seq...)
 				return false
 			}
