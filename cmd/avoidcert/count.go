@@ -3,11 +3,9 @@ package main
 import (
 	"context"
 	"encoding/csv"
-	"encoding/json"
-	"fmt"
+		"fmt"
 	"math/big"
 	"strconv"
-	"strings"
 	"text/tabwriter"
 
 	"avoidcert/pattern"
@@ -151,6 +149,5 @@ func writeCountsJSON(e *env, s pattern.Set, rows []countRow) {
 	for _, r := range rows {
 		out.Counts = append(out.Counts, entry{N: r.n, Count: r.count.String(), Probability: r.prob.RatString()})
 	}
-	b, _ := json.Marshal(out)
-	fmt.Fprintln(e.stdout, strings.TrimSpace(string(b)))
+	writeJSON(e, out)
 }

@@ -4,13 +4,13 @@ package main
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
 	"os"
 	"os/signal"
 	"sort"
-	"strings"
 )
 
 // Exit codes, documented in the README.
@@ -131,7 +131,12 @@ func usagef(format string, args ...any) error {
 	return usageError{msg: fmt.Sprintf(format, args...)}
 }
 
-// indent prefixes each line of s.
-func indent(s, prefix string) string {
-	return prefix + strings.ReplaceAll(strings.TrimRight(s, "\n"), "\n", "\n"+prefix) + "\n"
+// writeJSON prints v as one line of JSON, without HTML escaping ("<" stays
+// "<": the explanations compare numbers).
+func writeJSON(e *env, v any) {
+	enc := json.NewEncoder(e.stdout)
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(v); err != nil {
+		panic(err) // only plain data is encoded here
+	}
 }
