@@ -81,7 +81,7 @@ func Check(c *Certificate, opts CheckOptions) error {
 type checker struct {
 	c     *Certificate
 	opts  CheckOptions
-	set   pattern.Set
+	win   windows
 	m     int
 	cells int // m!
 	allN  int // index of the bracket the all-n bounds come from
@@ -120,8 +120,8 @@ func (ck *checker) statement() error {
 	if len(ck.opts.Expect.Patterns()) > 0 && !ck.opts.Expect.Equal(set) {
 		return fmt.Errorf("the certificate is for the set %s, not for the expected set %s", set, ck.opts.Expect)
 	}
-	ck.set = set
-	ck.m = set.Window() - 1
+	ck.win = windowsOf(set)
+	ck.m = ck.win.m
 	ck.cells = pattern.Factorial(ck.m)
 	if ck.c.Evidence.CellLength != ck.m {
 		return fmt.Errorf("evidence.cell_length: %d, but the longest pattern has length %d, so m = %d", ck.c.Evidence.CellLength, ck.m+1, ck.m)
@@ -186,10 +186,11 @@ func (ck *checker) claims() error {
 	}
 
 	// lower end: any bracket, on any cell set (monotonicity)
+	loPow, hiPow := newPowers(lam.Lo), newPowers(lam.Hi)
 	if lam.Lo.Sign() > 0 {
 		found := false
 		for _, b := range brackets {
-			if ratPow(lam.Lo, b.Step).Cmp(b.Lo) <= 0 {
+			if loPow.cmp(b.Step, b.Lo) <= 0 {
 				found = true
 				break
 			}
@@ -213,7 +214,7 @@ func (ck *checker) claims() error {
 		if b.Hi == nil {
 			return fmt.Errorf("%s: carries the upper bound but its hi is infinite", ck.describe(i))
 		}
-		if ratPow(lam.Hi, b.Step).Cmp(b.Hi) < 0 {
+		if hiPow.cmp(b.Step, b.Hi) < 0 {
 			return fmt.Errorf("statement.lambda.hi: lambda.hi^%d is below the hi of %s", b.Step, ck.describe(i))
 		}
 		for _, cell := range b.Cells {
@@ -264,10 +265,9 @@ func (ck *checker) claims() error {
 // cells lie in different blocks) has no cycle. Then T is block-triangular
 // and its spectral radius is the largest over the blocks.
 func (ck *checker) acyclic(block, upper []int) error {
-	allowed := ck.set.AvoidingPerms(ck.m + 1)
 	out := map[int]map[int]bool{}
 	indegree := map[int]int{}
-	for w, ok := range allowed {
+	for w, ok := range ck.win.allowed {
 		if !ok {
 			continue
 		}
@@ -362,7 +362,12 @@ func (ck *checker) limits() error {
 			for j := 1; j <= b.Step; j++ {
 				work += size * count(b.K+j) * (m + 1)
 			}
-			work += float64(ck.cells) * (count(b.K) + 2*count(b.K+b.Step))
+			// the comparisons multiply by lo and hi: long numbers cost more
+			digits := len(formatRational(b.Lo))
+			if b.Hi != nil {
+				digits += len(formatRational(b.Hi))
+			}
+			work += float64(ck.cells) * (count(b.K) + 2*count(b.K+b.Step)*(1+float64(digits)/64))
 			held++ // its pending elevation
 		}
 		memory = max(memory, held*float64(ck.cells)*count(g.degree)*perCoef)
@@ -381,7 +386,7 @@ func (ck *checker) limits() error {
 func (ck *checker) recompute() error {
 	brackets := ck.c.Evidence.Brackets
 	for _, gr := range ck.groups() {
-		sys := newSystem(ck.set, gr.cells, gr.degree)
+		sys := newSystem(ck.win, gr.cells, gr.degree)
 		pending := map[int]*iterate{} // bracket -> elevated G_k, waiting for G_{k+d}
 		g := sys.first()
 		for D := 0; D <= gr.degree; D++ {
@@ -455,11 +460,25 @@ func (ck *checker) compare(i int, sys *system, h, n *iterate) error {
 	return nil
 }
 
-// ratPow returns r^d for d >= 1.
-func ratPow(r *big.Rat, d int) *big.Rat {
-	p := new(big.Rat).Set(r)
-	for range d - 1 {
-		p.Mul(p, r)
+// powers compares powers of one rational p/q with other rationals, in
+// integers (no reduction of the large powers), caching p^d and q^d.
+type powers struct {
+	r    *big.Rat
+	p, q map[int]*big.Int
+}
+
+func newPowers(r *big.Rat) *powers {
+	return &powers{r: r, p: map[int]*big.Int{}, q: map[int]*big.Int{}}
+}
+
+// cmp compares r^d with x: -1, 0 or +1.
+func (pw *powers) cmp(d int, x *big.Rat) int {
+	if pw.p[d] == nil {
+		e := big.NewInt(int64(d))
+		pw.p[d] = new(big.Int).Exp(pw.r.Num(), e, nil)
+		pw.q[d] = new(big.Int).Exp(pw.r.Denom(), e, nil)
 	}
-	return p
+	// p^d/q^d <=> x.num/x.den:  p^d * x.den <=> x.num * q^d
+	left := new(big.Int).Mul(pw.p[d], x.Denom())
+	return left.Cmp(new(big.Int).Mul(x.Num(), pw.q[d]))
 }

@@ -9,7 +9,7 @@ import (
 // IterateDigest recomputes G_k of the system of s on cells (nil: the whole
 // system) with the checker's own code, for the conformance tests.
 func IterateDigest(s pattern.Set, cells []int, k int) (digest [32]byte, sum *big.Int) {
-	sys := newSystem(s, cells, k)
+	sys := newSystem(windowsOf(s), cells, k)
 	g := sys.first()
 	for range k {
 		g = sys.next(g)

@@ -45,19 +45,31 @@ type gap struct {
 	drop    int  // the value of x_m within the window, in 1..m+1
 }
 
-// newSystem builds the system of set s on the given cells (nil: the whole
-// system, all cells, with the unrestricted start vector). maxDegree bounds
-// the degrees that will be indexed.
-func newSystem(s pattern.Set, cells []int, maxDegree int) *system {
+// windows holds what a pattern set allows: allowed windows of length m+1
+// and good cells (length-m patterns that avoid the shorter members), both
+// by pattern.Rank.
+type windows struct {
+	m             int
+	allowed, good []bool
+}
+
+func windowsOf(s pattern.Set) windows {
 	m := s.Window() - 1
+	return windows{m: m, allowed: s.AvoidingPerms(m + 1), good: s.AvoidingPerms(m)}
+}
+
+// newSystem builds the system on the given cells (nil: the whole system,
+// all cells, with the unrestricted start vector). maxDegree bounds the
+// degrees that will be indexed.
+func newSystem(win windows, cells []int, maxDegree int) *system {
+	m := win.m
 	n := pattern.Factorial(m)
-	allowed := s.AvoidingPerms(m + 1)
 	sys := &system{m: m, cells: n, in: make([]bool, n), moves: make([][]gap, n), comb: newCompositions(m+1, maxDegree)}
 	if cells == nil {
 		for c := range sys.in {
 			sys.in[c] = true
 		}
-		sys.start = s.AvoidingPerms(m) // cells whose pattern avoids the shorter members
+		sys.start = win.good
 	} else {
 		for _, c := range cells {
 			sys.in[c] = true
@@ -68,19 +80,19 @@ func newSystem(s pattern.Set, cells []int, maxDegree int) *system {
 		x := pattern.Unrank(m, sigma)
 		sys.moves[sigma] = make([]gap, m+1)
 		for j := 0; j <= m; j++ {
-			win := make(pattern.Perm, m+1) // (t, x_1..x_m) with t above exactly j of the x's
-			win[0] = j + 1
+			w := make(pattern.Perm, m+1) // (t, x_1..x_m) with t above exactly j of the x's
+			w[0] = j + 1
 			for i, v := range x {
-				win[i+1] = v
+				w[i+1] = v
 				if v > j {
-					win[i+1] = v + 1
+					w[i+1] = v + 1
 				}
 			}
-			tau := pattern.Rank(pattern.Standardize(win[:m]))
+			tau := pattern.Rank(pattern.Standardize(w[:m]))
 			sys.moves[sigma][j] = gap{
-				allowed: allowed[pattern.Rank(win)] && sys.in[sigma] && sys.in[tau],
+				allowed: win.allowed[pattern.Rank(w)] && sys.in[sigma] && sys.in[tau],
 				tau:     tau,
-				drop:    win[m],
+				drop:    w[m],
 			}
 		}
 	}

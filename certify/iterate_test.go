@@ -108,7 +108,7 @@ func TestIterateMatchesEnumeration(t *testing.T) {
 			}
 		}
 		for k := 0; m+k <= 8; k++ {
-			sys := newSystem(s, cells, k)
+			sys := newSystem(windowsOf(s), cells, k)
 			g := sys.first()
 			for range k {
 				g = sys.next(g)

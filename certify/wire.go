@@ -91,7 +91,11 @@ func Marshal(c *Certificate) ([]byte, error) {
 	if err != nil {
 		return nil, fmt.Errorf("certificate: %v", err)
 	}
-	return render(w)
+	data, err := render(w)
+	if err == nil && len(data) > MaxFileSize {
+		err = fmt.Errorf("certificate: the file would have %d bytes, over the limit of %d that Read accepts; use fewer brackets or shorter bounds", len(data), MaxFileSize)
+	}
+	return data, err
 }
 
 // render writes the canonical file of a validated content: the indented
