@@ -430,34 +430,35 @@ func (ck *checker) recompute() error {
 // k+d, where H is the elevated G_k and N = G_{k+d}.
 func (ck *checker) compare(i int, sys *system, h, n *iterate) error {
 	b := ck.c.Evidence.Brackets[i]
-	a := make([]int, sys.m+1)
 	var left, right big.Int
-	perCell := sys.comb.count(n.degree)
-	for cell := range sys.cells {
-		sys.comb.firstOf(n.degree, a)
-		for r := 0; r < perCell; r++ {
-			den, num := sys.at(h, cell, r), sys.at(n, cell, r)
-			// lo <= num/den:  lo.num * den <= lo.den * num
-			left.Mul(b.Lo.Num(), den)
-			right.Mul(b.Lo.Denom(), num)
-			if left.Cmp(&right) > 0 {
-				return fmt.Errorf("%s: lo is above the ratio G_%d/elevated G_%d = %s/%s at cell %d, index %v", ck.describe(i), n.degree, b.K, abbreviate(num.String()), abbreviate(den.String()), cell, a)
-			}
-			// num/den <= hi:  num * hi.den <= hi.num * den
-			if b.Hi != nil {
-				left.Mul(num, b.Hi.Denom())
-				right.Mul(b.Hi.Num(), den)
-				if left.Cmp(&right) > 0 {
-					if den.Sign() == 0 {
-						return fmt.Errorf("%s: G_%d is positive where the elevated G_%d is 0 (cell %d, index %v), so hi must be infinite", ck.describe(i), n.degree, b.K, cell, a)
-					}
-					return fmt.Errorf("%s: hi is below the ratio G_%d/elevated G_%d = %s/%s at cell %d, index %v", ck.describe(i), n.degree, b.K, abbreviate(num.String()), abbreviate(den.String()), cell, a)
-				}
-			}
-			sys.comb.next(a)
+	var err error
+	sys.each(n.degree, true, func(cell, r int, a []int) {
+		if err != nil {
+			return
 		}
-	}
-	return nil
+		den, num := sys.at(h, cell, r), sys.at(n, cell, r)
+		// lo <= num/den:  lo.num * den <= lo.den * num
+		left.Mul(b.Lo.Num(), den)
+		right.Mul(b.Lo.Denom(), num)
+		if left.Cmp(&right) > 0 {
+			err = fmt.Errorf("%s: lo is above the ratio G_%d/elevated G_%d = %s/%s at cell %d, index %v", ck.describe(i), n.degree, b.K, abbreviate(num.String()), abbreviate(den.String()), cell, a)
+			return
+		}
+		// num/den <= hi:  num * hi.den <= hi.num * den
+		if b.Hi == nil {
+			return
+		}
+		left.Mul(num, b.Hi.Denom())
+		right.Mul(b.Hi.Num(), den)
+		switch {
+		case left.Cmp(&right) <= 0:
+		case den.Sign() == 0:
+			err = fmt.Errorf("%s: G_%d is positive where the elevated G_%d is 0 (cell %d, index %v), so hi must be infinite", ck.describe(i), n.degree, b.K, cell, a)
+		default:
+			err = fmt.Errorf("%s: hi is below the ratio G_%d/elevated G_%d = %s/%s at cell %d, index %v", ck.describe(i), n.degree, b.K, abbreviate(num.String()), abbreviate(den.String()), cell, a)
+		}
+	})
+	return err
 }
 
 // powers compares powers of one rational p/q with other rationals, in

@@ -171,6 +171,17 @@ func resealed(t *testing.T, change func(c *certify.Certificate)) *certify.Certif
 	return back
 }
 
+// claimHi sets every upper bound of a one-bracket certificate to hi,
+// consistently, as a forger would.
+func claimHi(hi *big.Rat) func(c *certify.Certificate) {
+	return func(c *certify.Certificate) {
+		c.Statement.Lambda.Hi = hi
+		c.Evidence.Brackets[0].Hi = hi
+		c.Statement.AllN.MuHi = hi
+		c.Statement.Radius.Lo = new(big.Rat).Inv(hi)
+	}
+}
+
 func TestFalseBoundsRejected(t *testing.T) {
 	// lambda(123) = 3 sqrt(3)/(2 pi) (Elizalde-Noy 2003); 1e-6 below it and
 	// above it, as exact rationals.
@@ -183,24 +194,9 @@ func TestFalseBoundsRejected(t *testing.T) {
 		change func(c *certify.Certificate)
 		reason string
 	}{
-		{"hi below the published value", func(c *certify.Certificate) {
-			c.Statement.Lambda.Hi = below
-			c.Evidence.Brackets[0].Hi = below
-			c.Statement.AllN.MuHi = below
-			c.Statement.Radius.Lo = new(big.Rat).Inv(below)
-		}, "hi is below the ratio"},
-		{"hi = the min ratio", func(c *certify.Certificate) {
-			c.Statement.Lambda.Hi = minRatio
-			c.Evidence.Brackets[0].Hi = minRatio
-			c.Statement.AllN.MuHi = minRatio
-			c.Statement.Radius.Lo = new(big.Rat).Inv(minRatio)
-		}, "hi is below the ratio"},
-		{"hi true but not proved at this k", func(c *certify.Certificate) {
-			c.Statement.Lambda.Hi = above
-			c.Evidence.Brackets[0].Hi = above
-			c.Statement.AllN.MuHi = above
-			c.Statement.Radius.Lo = new(big.Rat).Inv(above)
-		}, "hi is below the ratio"},
+		{"hi below the published value", claimHi(below), "hi is below the ratio"},
+		{"hi = the min ratio", claimHi(minRatio), "hi is below the ratio"},
+		{"hi true but not proved at this k", claimHi(above), "hi is below the ratio"},
 		{"lambda.hi below the bracket", func(c *certify.Certificate) {
 			c.Statement.Lambda.Hi = below
 			c.Statement.Radius.Lo = new(big.Rat).Inv(below)

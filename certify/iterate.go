@@ -156,32 +156,40 @@ func (sys *system) first() *iterate {
 	return g
 }
 
-// next returns G_{k+1} from g = G_k by the recurrence above.
-func (sys *system) next(g *iterate) *iterate {
-	D := g.degree + 1
-	out := sys.newIterate(D)
+// each calls fn for every index of degree D on the cells of the system (or
+// on all cells), in storage order: cell, rank r, composition a. fn must not
+// keep or modify a.
+func (sys *system) each(D int, all bool, fn func(cell, r int, a []int)) {
 	a := make([]int, sys.m+1)
-	b := make([]int, sys.m+1)
-	c := make([]int, sys.m+2)
-	for sigma := range sys.cells {
-		if !sys.in[sigma] {
+	for cell := range sys.cells {
+		if !all && !sys.in[cell] {
 			continue
 		}
 		sys.comb.firstOf(D, a)
-		for r := 0; r < sys.comb.count(D); r++ {
-			acc := sys.at(out, sigma, r)
-			for j, mv := range sys.moves[sigma] {
-				if !mv.allowed {
-					continue
-				}
-				for l := 0; l < a[j]; l++ {
-					sys.shorter(a, j, l, mv.drop, c, b)
-					acc.Add(acc, sys.at(g, mv.tau, sys.comb.rank(b)))
-				}
-			}
+		for r := range sys.comb.count(D) {
+			fn(cell, r, a)
 			sys.comb.next(a)
 		}
 	}
+}
+
+// next returns G_{k+1} from g = G_k by the recurrence above.
+func (sys *system) next(g *iterate) *iterate {
+	out := sys.newIterate(g.degree + 1)
+	b := make([]int, sys.m+1)
+	c := make([]int, sys.m+2)
+	sys.each(out.degree, false, func(sigma, r int, a []int) {
+		acc := sys.at(out, sigma, r)
+		for j, mv := range sys.moves[sigma] {
+			if !mv.allowed {
+				continue
+			}
+			for l := 0; l < a[j]; l++ {
+				sys.shorter(a, j, l, mv.drop, c, b)
+				acc.Add(acc, sys.at(g, mv.tau, sys.comb.rank(b)))
+			}
+		}
+	})
 	return out
 }
 
@@ -190,30 +198,22 @@ func (sys *system) next(g *iterate) *iterate {
 // to G_k it gives (k+d)!/k! times the Bernstein coefficients of g_k = G_k/k!
 // written in degree k+d.
 func (sys *system) elevate(h *iterate) *iterate {
-	D := h.degree + 1
-	out := sys.newIterate(D)
-	a := make([]int, sys.m+1)
+	out := sys.newIterate(h.degree + 1)
+	e := make([]int, sys.m+1)
 	var term big.Int
-	for cell := range sys.cells {
-		if !sys.in[cell] {
-			continue
-		}
-		sys.comb.firstOf(D, a)
-		for r := 0; r < sys.comb.count(D); r++ {
-			acc := sys.at(out, cell, r)
-			for t := range a {
-				if a[t] == 0 {
-					continue
-				}
-				a[t]--
-				term.SetInt64(int64(a[t] + 1))
-				term.Mul(&term, sys.at(h, cell, sys.comb.rank(a)))
-				a[t]++
-				acc.Add(acc, &term)
+	sys.each(out.degree, false, func(cell, r int, a []int) {
+		acc := sys.at(out, cell, r)
+		for t := range a {
+			if a[t] == 0 {
+				continue
 			}
-			sys.comb.next(a)
+			copy(e, a)
+			e[t]--
+			term.SetInt64(int64(a[t]))
+			term.Mul(&term, sys.at(h, cell, sys.comb.rank(e)))
+			acc.Add(acc, &term)
 		}
-	}
+	})
 	return out
 }
 

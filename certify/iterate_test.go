@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"avoidcert/internal/brute"
+	"avoidcert/interval"
 	"avoidcert/pattern"
 )
 
@@ -158,21 +159,24 @@ func TestDecimalOutward(t *testing.T) {
 			t.Errorf("up(%s, %d) = %s, want %s", tc.r, tc.digits, got, tc.up)
 		}
 	}
-	// properties on random rationals: outward, and tight to one unit in
-	// the last significant place
+	// outward, and the same digits as the interval package's independent
+	// implementation (whose format agrees for values in 1e-6..1e21)
 	rng := rand.New(rand.NewPCG(5, 9))
-	for range 2000 {
+	for range 3000 {
 		r := big.NewRat(rng.Int64N(1e12)+1, rng.Int64N(1e12)+1)
-		digits := 1 + rng.IntN(20)
-		e := decimalExponent(r)
-		ulp := pow10(e - digits + 1)
-		down, _ := new(big.Rat).SetString(decimalOutward(r, digits, false))
-		up, _ := new(big.Rat).SetString(decimalOutward(r, digits, true))
-		if down.Cmp(r) > 0 || up.Cmp(r) < 0 {
-			t.Fatalf("%s at %d digits: %s and %s are not outward", r, digits, down.FloatString(30), up.FloatString(30))
+		digits := 1 + rng.IntN(25)
+		down, up := decimalOutward(r, digits, false), decimalOutward(r, digits, true)
+		if d, _ := new(big.Rat).SetString(down); d.Cmp(r) > 0 {
+			t.Fatalf("%s at %d digits: %s is above", r, digits, down)
 		}
-		if new(big.Rat).Add(down, ulp).Cmp(r) <= 0 || new(big.Rat).Sub(up, ulp).Cmp(r) >= 0 {
-			t.Fatalf("%s at %d digits: %s and %s are not the nearest", r, digits, down.FloatString(30), up.FloatString(30))
+		if u, _ := new(big.Rat).SetString(up); u.Cmp(r) < 0 {
+			t.Fatalf("%s at %d digits: %s is below", r, digits, up)
+		}
+		if want := interval.DecimalDown(r, digits); down != want {
+			t.Fatalf("%s at %d digits: down %s, interval.DecimalDown %s", r, digits, down, want)
+		}
+		if want := interval.DecimalUp(r, digits); up != want {
+			t.Fatalf("%s at %d digits: up %s, interval.DecimalUp %s", r, digits, up, want)
 		}
 	}
 }

@@ -78,52 +78,49 @@ func decimalOutward(r *big.Rat, digits int, up bool) string {
 	if r.Sign() == 0 {
 		return "0"
 	}
-	e := decimalExponent(r)
-	// scale r by 10^shift so that it has exactly digits digits before the point
-	shift := digits - 1 - e
-	v := new(big.Rat).Mul(r, pow10(shift))
-	q, rem := new(big.Int).QuoRem(v.Num(), v.Denom(), new(big.Int))
+	// Find the shift s for which q = floor(r 10^s) has exactly digits
+	// digits; the digit counts of r's numerator and denominator give a
+	// first guess, and the count of q moves by at most one per step.
+	s := digits - (len(r.Num().String()) - len(r.Denom().String()))
+	var q, rem *big.Int
+	for {
+		q, rem = scaled(r, s)
+		if n := len(q.String()); q.Sign() == 0 || n < digits {
+			s++
+		} else if n > digits {
+			s--
+		} else {
+			break
+		}
+	}
 	if up && rem.Sign() != 0 {
 		q.Add(q, big.NewInt(1))
 	}
-	s := q.String()
-	if shift <= 0 {
-		return s + strings.Repeat("0", -shift)
+	// q 10^-s in positional notation
+	text := q.String()
+	if s <= 0 {
+		return text + strings.Repeat("0", -s)
 	}
-	if len(s) <= shift {
-		s = strings.Repeat("0", shift-len(s)+1) + s
+	if len(text) <= s {
+		text = strings.Repeat("0", s-len(text)+1) + text
 	}
-	whole, frac := s[:len(s)-shift], strings.TrimRight(s[len(s)-shift:], "0")
+	whole, frac := text[:len(text)-s], strings.TrimRight(text[len(text)-s:], "0")
 	if frac == "" {
 		return whole
 	}
 	return whole + "." + frac
 }
 
-// decimalExponent returns the E with 10^E <= r < 10^(E+1), for r > 0.
-func decimalExponent(r *big.Rat) int {
-	// the digit counts give E to within one; exact comparisons settle it
-	e := len(r.Num().String()) - len(r.Denom().String())
-	for r.Cmp(pow10(e)) < 0 {
-		e--
+// scaled returns the quotient and remainder of r 10^s, for any integer s.
+func scaled(r *big.Rat, s int) (q, rem *big.Int) {
+	num, den := new(big.Int).Set(r.Num()), new(big.Int).Set(r.Denom())
+	ten := big.NewInt(10)
+	if s >= 0 {
+		num.Mul(num, new(big.Int).Exp(ten, big.NewInt(int64(s)), nil))
+	} else {
+		den.Mul(den, new(big.Int).Exp(ten, big.NewInt(int64(-s)), nil))
 	}
-	for r.Cmp(pow10(e+1)) >= 0 {
-		e++
-	}
-	return e
-}
-
-// pow10 returns 10^e exactly, for any integer e.
-func pow10(e int) *big.Rat {
-	n := int64(e)
-	if n < 0 {
-		n = -n
-	}
-	p := new(big.Int).Exp(big.NewInt(10), big.NewInt(n), nil)
-	if e < 0 {
-		return new(big.Rat).SetFrac(big.NewInt(1), p)
-	}
-	return new(big.Rat).SetInt(p)
+	return num.QuoRem(num, den, new(big.Int))
 }
 
 // abbreviate shortens a long string for an error message.
