@@ -1,0 +1,385 @@
+package bounds
+
+import (
+	"context"
+	"math"
+	"math/big"
+	"runtime"
+	"sync"
+	"sync/atomic"
+
+	"avoidcert/transfer"
+)
+
+// The bracket at one k compares two polynomials on every cell, both written
+// in the Bernstein basis of degree k+d:
+//
+//   - T^d g_k, where g_k = G_k/k!. Each step of T maps a basis polynomial of
+//     degree D to basis polynomials of degree D+1 with weight 1/(D+1)
+//     (method note, section 3), so the coefficients of T^d g_k are
+//     G_{k+d}/(k+d)!.
+//   - E^d g_k, the same polynomial g_k raised to degree k+d. Multiplying
+//     B_b (degree D) by 1 = L_0 + ... + L_m gives
+//     B_b = sum_t (b_t+1)/(D+1) B_{b+e_t}, so the coefficient at a of the
+//     raised polynomial is sum_t a_t/(D+1) c_{a-e_t}. Starting from
+//     H_0 = G_k (the coefficients of g_k times k!), H_{i+1}[a] =
+//     sum_t a_t H_i[a-e_t] gives the coefficients of E^i g_k times (k+i)!.
+//
+// The factorials cancel: R_a = G_{k+d}[a] / H_d[a] is the ratio of the
+// Bernstein coefficients of T^d g_k and g_k at a. The tests check both
+// identities by evaluating the polynomials at rational points.
+
+// source is a read-only view of the integer Bernstein coefficients of one
+// degree, by cell and storage rank; *transfer.Iterate is one.
+type source interface {
+	Words(cell, r int) []big.Word
+}
+
+// table holds coefficients this package computes (the raised H_i).
+type table struct {
+	perCell, limbs int
+	words          []big.Word
+}
+
+func newTable(cells, perCell, limbs int) *table {
+	return &table{perCell: perCell, limbs: limbs, words: make([]big.Word, cells*perCell*limbs)}
+}
+
+// Words returns the words of coefficient r of a cell (aliasing the table).
+func (t *table) Words(cell, r int) []big.Word {
+	off := (cell*t.perCell + r) * t.limbs
+	return t.words[off : off+t.limbs : off+t.limbs]
+}
+
+// ratioProblem is one bracket evaluation: num = G_{k+d} and base = G_k,
+// whose coefficients fit in baseLimbs words.
+type ratioProblem struct {
+	m, k, d   int
+	cells     []int // the cells to scan; the others must be zero in base
+	num, base source
+	baseLimbs int
+}
+
+// ratioExtremes is the outcome of one evaluation.
+type ratioExtremes struct {
+	lo, hi    *big.Rat // min and max of R_a over D_a > 0; hi is nil when unbounded
+	positive  int      // indices with D_a > 0
+	exact     int      // comparisons the floating-point screen left to exact arithmetic
+	hintShift uint     // bits of the screening centre
+}
+
+// chunk is the number of indices one task scans.
+const chunk = 4096
+
+// extremes computes the exact min and max of R_a.
+//
+// Every comparison of two ratios N/D and N'/D' is first screened in
+// floating point and decided exactly (N*D' against N'*D) only when the
+// screen cannot call it. Near convergence all ratios agree to far more than
+// float64 precision, so the screen works on the offsets from a centre
+// mu = p/2^s close to all of them: it compares x = (N*2^s - p*D)/D =
+// 2^s (R - mu), whose float64 approximation has a relative error below
+// 2^-49 however close R is to mu. The centre is the weighted mean of all
+// ratios (the ratio of the coefficient sums), with s chosen from the spread
+// seen on a sample; a poor centre only sends more comparisons to exact
+// arithmetic.
+func extremes(ctx context.Context, p ratioProblem) (ratioExtremes, error) {
+	ix := transfer.NewIndexer(p.m, p.k+p.d)
+	den, denLimbs := p.base, p.baseLimbs
+	for i := 1; i < p.d; i++ {
+		t, err := elevate(ctx, ix, p, p.k+i, den, denLimbs)
+		if err != nil {
+			return ratioExtremes{}, err
+		}
+		den, denLimbs = t, denLimbs+1
+	}
+	deg := p.k + p.d
+	mu, shift := screenCentre(ix, p, den, denLimbs)
+	perCell := ix.Count(deg)
+	perCellTasks := (perCell + chunk - 1) / chunk
+	tallies := make([]tally, len(p.cells)*perCellTasks)
+	err := parallel(ctx, len(tallies), func() func(int) {
+		s := newScratch(p.m, denLimbs, mu, shift)
+		return func(task int) {
+			cell := p.cells[task/perCellTasks]
+			lo := (task % perCellTasks) * chunk
+			hi := min(lo+chunk, perCell)
+			t := &tallies[task]
+			ix.Unrank(deg, lo, s.a)
+			for r := lo; r < hi; r++ {
+				s.raise(ix, cell, den, s.d)
+				s.visit(t, p.num.Words(cell, r), s.d)
+				ix.Next(s.a)
+			}
+		}
+	})
+	if err != nil {
+		return ratioExtremes{}, err
+	}
+	s := newScratch(p.m, denLimbs, mu, shift)
+	var all tally
+	for i := range tallies {
+		s.merge(&all, &tallies[i])
+	}
+	out := ratioExtremes{positive: all.positive, exact: all.exact, hintShift: shift}
+	switch {
+	case all.positive == 0:
+		// No positive denominator: G_k vanishes on the scanned cells.
+		out.lo = new(big.Rat)
+		if !all.unbounded {
+			out.hi = new(big.Rat)
+		}
+	default:
+		out.lo = all.min.ratio()
+		if !all.unbounded {
+			out.hi = all.max.ratio()
+		}
+	}
+	return out, nil
+}
+
+// screenCentre returns p and s with p/2^s close to the ratios: p/2^s is the
+// sum ratio rounded down to s bits after the point, s about 20 bits beyond
+// the spread of the ratios on a sample of indices.
+func screenCentre(ix *transfer.Indexer, p ratioProblem, den source, denLimbs int) (*big.Int, uint) {
+	deg := p.k + p.d
+	var sumN, sumD big.Int
+	var x big.Int
+	s := newScratch(p.m, denLimbs, nil, 0)
+	for _, cell := range p.cells {
+		for r := range ix.Count(deg) {
+			sumN.Add(&sumN, x.SetBits(p.num.Words(cell, r)))
+		}
+		for r := range ix.Count(deg - 1) {
+			sumD.Add(&sumD, x.SetBits(den.Words(cell, r)))
+		}
+	}
+	if sumD.Sign() == 0 || sumN.Sign() == 0 {
+		return nil, 0
+	}
+	// Raising multiplies the coefficient sum by deg+m: every b of degree
+	// deg-1 feeds its neighbours b+e_t with weights b_t+1.
+	sumD.Mul(&sumD, big.NewInt(int64(deg+p.m)))
+	centre := new(big.Rat).SetFrac(&sumN, &sumD)
+
+	const samplesPerCell = 8
+	spread := new(big.Rat)
+	perCell := ix.Count(deg)
+	for _, cell := range p.cells {
+		for j := range samplesPerCell {
+			r := j * perCell / samplesPerCell
+			ix.Unrank(deg, r, s.a)
+			s.raise(ix, cell, den, s.d)
+			if isZero(s.d) {
+				continue
+			}
+			q := new(big.Rat).SetFrac(new(big.Int).SetBits(append([]big.Word(nil), p.num.Words(cell, r)...)),
+				new(big.Int).SetBits(append([]big.Word(nil), s.d...)))
+			q.Sub(q, centre).Abs(q)
+			if q.Cmp(spread) > 0 {
+				spread = q
+			}
+		}
+	}
+	bitsWanted := 64
+	if spread.Sign() > 0 {
+		bitsWanted = int(math.Ceil(-log2Rat(spread))) + 20
+	}
+	shift := uint(min(max(bitsWanted, 64), 1<<16))
+	num := new(big.Int).Lsh(centre.Num(), shift)
+	return num.Quo(num, centre.Denom()), shift
+}
+
+// elevate returns the coefficients of degree deg raised from src (degree
+// deg-1, srcLimbs words each) on the scanned cells.
+func elevate(ctx context.Context, ix *transfer.Indexer, p ratioProblem, deg int, src source, srcLimbs int) (*table, error) {
+	cells := 0
+	for _, c := range p.cells {
+		cells = max(cells, c+1)
+	}
+	perCell := ix.Count(deg)
+	dst := newTable(cells, perCell, srcLimbs+1)
+	perCellTasks := (perCell + chunk - 1) / chunk
+	err := parallel(ctx, len(p.cells)*perCellTasks, func() func(int) {
+		s := newScratch(p.m, srcLimbs, nil, 0)
+		return func(task int) {
+			cell := p.cells[task/perCellTasks]
+			lo := (task % perCellTasks) * chunk
+			ix.Unrank(deg, lo, s.a)
+			for r := lo; r < min(lo+chunk, perCell); r++ {
+				s.raise(ix, cell, src, dst.Words(cell, r))
+				ix.Next(s.a)
+			}
+		}
+	})
+	return dst, err
+}
+
+// extreme is the current minimum or maximum: its numerator (aliasing a
+// read-only source), a copy of its denominator, and its screen value.
+type extreme struct {
+	n, d []big.Word
+	x    approx
+}
+
+func (e *extreme) set(n, d []big.Word, x approx) {
+	e.n, e.d, e.x = n, append(e.d[:0], d...), x
+}
+
+func (e *extreme) ratio() *big.Rat {
+	return new(big.Rat).SetFrac(new(big.Int).SetBits(append([]big.Word(nil), e.n...)),
+		new(big.Int).SetBits(append([]big.Word(nil), e.d...)))
+}
+
+// tally is the state of the tournament over some indices.
+type tally struct {
+	min, max  extreme
+	positive  int  // indices with D_a > 0 seen
+	unbounded bool // some index has D_a = 0 < N_a
+	exact     int
+}
+
+// scratch is one worker's reusable state.
+type scratch struct {
+	a                      []int
+	d                      []big.Word // the raised denominator of the current index
+	mu                     *big.Int   // screening centre p (nil: screen R itself)
+	shift                  uint       // s
+	n, dd, e, t            big.Int
+	x1, y1, x2, y2, p1, p2 big.Int
+}
+
+func newScratch(m, denLimbs int, mu *big.Int, shift uint) *scratch {
+	return &scratch{a: make([]int, m+1), d: make([]big.Word, denLimbs+1), mu: mu, shift: shift}
+}
+
+// raise writes into dst the coefficient at s.a of src raised by one degree:
+// sum_t a_t src[a - e_t].
+func (s *scratch) raise(ix *transfer.Indexer, cell int, src source, dst []big.Word) {
+	clear(dst)
+	for t, at := range s.a {
+		if at == 0 {
+			continue
+		}
+		s.a[t]--
+		mulAddWords(dst, src.Words(cell, ix.Rank(s.a)), uint(at))
+		s.a[t]++
+	}
+}
+
+// screen returns the approx of 2^s (N/D - mu).
+func (s *scratch) screen(n, d []big.Word) approx {
+	if s.mu == nil {
+		return approxQuo(n, false, d)
+	}
+	s.n.SetBits(n)
+	s.dd.SetBits(d)
+	s.e.Lsh(&s.n, s.shift)
+	s.t.Mul(s.mu, &s.dd)
+	s.e.Sub(&s.e, &s.t)
+	return approxQuo(s.e.Bits(), s.e.Sign() < 0, d)
+}
+
+// compareExact returns the sign of n1/d1 - n2/d2 (d1, d2 > 0) by
+// cross-multiplication. The operands are only read.
+func (s *scratch) compareExact(n1, d1, n2, d2 []big.Word) int {
+	s.x1.SetBits(n1)
+	s.y1.SetBits(d1)
+	s.x2.SetBits(n2)
+	s.y2.SetBits(d2)
+	s.p1.Mul(&s.x1, &s.y2)
+	s.p2.Mul(&s.x2, &s.y1)
+	return s.p1.Cmp(&s.p2)
+}
+
+// compare returns the sign of n/d - e's ratio.
+func (s *scratch) compare(t *tally, x approx, n, d []big.Word, e *extreme) int {
+	if c, ok := compareApprox(x, e.x); ok {
+		return c
+	}
+	// Equal ratios are common (iterates are often constant along some
+	// directions); equal words settle them without multiplying.
+	if equalWords(n, e.n) && equalWords(d, e.d) {
+		return 0
+	}
+	t.exact++
+	return s.compareExact(n, d, e.n, e.d)
+}
+
+// visit enters one index into the tournament. An index that is below the
+// minimum cannot be above the maximum, so most indices cost one comparison.
+func (s *scratch) visit(t *tally, n, d []big.Word) {
+	if isZero(d) {
+		if !isZero(n) {
+			t.unbounded = true
+		}
+		return
+	}
+	x := s.screen(n, d)
+	t.positive++
+	if t.positive == 1 {
+		t.min.set(n, d, x)
+		t.max.set(n, d, x)
+		return
+	}
+	if s.compare(t, x, n, d, &t.min) < 0 {
+		t.min.set(n, d, x)
+		return
+	}
+	if s.compare(t, x, n, d, &t.max) > 0 {
+		t.max.set(n, d, x)
+	}
+}
+
+// merge folds tally u into t.
+func (s *scratch) merge(t, u *tally) {
+	t.unbounded = t.unbounded || u.unbounded
+	t.exact += u.exact
+	if u.positive == 0 {
+		return
+	}
+	if t.positive == 0 {
+		t.min.set(u.min.n, u.min.d, u.min.x)
+		t.max.set(u.max.n, u.max.d, u.max.x)
+	} else {
+		if s.compare(t, u.min.x, u.min.n, u.min.d, &t.min) < 0 {
+			t.min.set(u.min.n, u.min.d, u.min.x)
+		}
+		if s.compare(t, u.max.x, u.max.n, u.max.d, &t.max) > 0 {
+			t.max.set(u.max.n, u.max.d, u.max.x)
+		}
+	}
+	t.positive += u.positive
+}
+
+// parallel runs tasks 0..n-1 on GOMAXPROCS workers, each with its own
+// function from newWorker (holding its scratch space), and stops handing
+// out tasks once ctx is done.
+func parallel(ctx context.Context, n int, newWorker func() func(int)) error {
+	workers := min(runtime.GOMAXPROCS(0), n)
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			fn := newWorker()
+			for ctx.Err() == nil {
+				t := int(next.Add(1) - 1)
+				if t >= n {
+					return
+				}
+				fn(t)
+			}
+		}()
+	}
+	wg.Wait()
+	return ctx.Err()
+}
+
+// log2Rat returns an approximation of log2(r) for r > 0.
+func log2Rat(r *big.Rat) float64 {
+	tn, en := topFloat(r.Num().Bits())
+	td, ed := topFloat(r.Denom().Bits())
+	return math.Log2(tn) - math.Log2(td) + float64(en-ed)
+}
