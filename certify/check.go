@@ -112,13 +112,13 @@ func (ck *checker) statement() error {
 		return errors.New("statement.patterns_given: write one pattern per entry, without spaces or commas")
 	}
 	if !slices.Equal(set.Strings(), st.Patterns) {
-		return fmt.Errorf("statement.patterns: %s is not the irredundant set %s of the patterns given", strings.Join(st.Patterns, ","), set)
+		return fmt.Errorf("statement.patterns: %s is not the irredundant set %s of the patterns given", abbreviate(strings.Join(st.Patterns, ",")), abbreviate(set.String()))
 	}
 	if canon := set.Canonical(); !slices.Equal(canon.Strings(), st.Canonical) {
-		return fmt.Errorf("statement.canonical_patterns: %s is not the symmetry representative %s", strings.Join(st.Canonical, ","), canon)
+		return fmt.Errorf("statement.canonical_patterns: %s is not the symmetry representative %s", abbreviate(strings.Join(st.Canonical, ",")), abbreviate(canon.String()))
 	}
 	if len(ck.opts.Expect.Patterns()) > 0 && !ck.opts.Expect.Equal(set) {
-		return fmt.Errorf("the certificate is for the set %s, not for the expected set %s", set, ck.opts.Expect)
+		return fmt.Errorf("the certificate is for the set %s, not for the expected set %s", abbreviate(set.String()), abbreviate(ck.opts.Expect.String()))
 	}
 	ck.win = windowsOf(set)
 	ck.m = ck.win.m
@@ -254,7 +254,10 @@ func (ck *checker) claims() error {
 	if a.MuLo.Cmp(b.Lo) > 0 {
 		return fmt.Errorf("statement.all_n.mu_lo: above the lo of %s", ck.describe(ck.allN))
 	}
-	if a.MuHi != nil && (b.Hi == nil || a.MuHi.Cmp(b.Hi) < 0) {
+	switch {
+	case a.MuHi != nil && b.Hi == nil:
+		return fmt.Errorf("statement.all_n.mu_hi: must be absent, since the hi of %s is infinite", ck.describe(ck.allN))
+	case a.MuHi != nil && a.MuHi.Cmp(b.Hi) < 0:
 		return fmt.Errorf("statement.all_n.mu_hi: below the hi of %s", ck.describe(ck.allN))
 	}
 	return nil

@@ -76,6 +76,7 @@ func validCases() []validCase {
 		{"restricted lower bracket", []string{"1342"}, func(t testing.TB, s pattern.Set) []engineBracket {
 			return []engineBracket{bracketFromEngine(t, s, nil, 6, 1, true), bracketFromEngine(t, s, []int{0, 1, 2, 4}, 6, 1, false)}
 		}, 0, "A117156"},
+		{"the pattern 1 (m = 0, a_n = 0)", []string{"1"}, whole(3, 1, true), 0, ""},
 		{"acyclic blocks", []string{"213", "312"}, func(t testing.TB, s pattern.Set) []engineBracket {
 			return []engineBracket{bracketFromEngine(t, s, nil, 6, 1, false),
 				bracketFromEngine(t, s, []int{0}, 8, 1, true), bracketFromEngine(t, s, []int{1}, 6, 1, true)}

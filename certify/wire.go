@@ -144,6 +144,9 @@ func Read(r io.Reader) (*Certificate, error) {
 	if headErr == nil && head.Content.Format != Format {
 		return nil, fmt.Errorf("certificate: content.format is %q, not %q: this is not an avoidcert certificate", abbreviate(head.Content.Format), Format)
 	}
+	if bytes.Contains(data, []byte("\r\n")) {
+		return nil, errors.New("certificate: the file has CRLF line endings (changed by a text-mode copy or a line-ending conversion?); certificates use LF only, restore the original file")
+	}
 	if !bytes.HasSuffix(data, []byte(fileEnd)) {
 		return nil, fmt.Errorf("certificate: truncated or damaged: the file does not end with the end marker %q", EndMarker)
 	}

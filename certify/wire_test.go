@@ -144,6 +144,7 @@ func TestReadRefusesDamagedFiles(t *testing.T) {
 		{"other JSON", []byte(`{"content": {"format": "something else"}}`), "not an avoidcert certificate"},
 		{"not JSON", []byte("hello\n"), "truncated"},
 		{"newer version", redigest(bytes.Replace(good, []byte(`"version": 1,`), []byte(`"version": 2,`), 1)), "format version 2"},
+		{"CRLF line endings", bytes.ReplaceAll(good, []byte("\n"), []byte("\r\n")), "CRLF"},
 		{"extra whitespace", bytes.Replace(good, []byte(`"k": `), []byte(`"k":  `), 1), "canonical form"},
 		{"escaped character", redigest(bytes.Replace(good, []byte(`"patterns": [
         "123"`), []byte(`"patterns": [
