@@ -29,7 +29,7 @@ func Ratios(ctx context.Context, gk, gkd *transfer.Iterate, cells []int) (lo, hi
 			return nil, nil, fmt.Errorf("bounds: cell %d outside 0..%d", c, gk.Cells-1)
 		}
 	}
-	res, err := extremes(ctx, ratioProblem{m: gk.M, k: gk.K, d: gkd.K - gk.K, cells: cells, num: gkd, base: gk, baseLimbs: gk.Limbs})
+	res, err := extremes(ctx, ratioProblem{m: gk.M, k: gk.K, d: gkd.K - gk.K, cells: cells, num: gkd, base: gk, numLimbs: gkd.Limbs, baseLimbs: gk.Limbs})
 	if err != nil {
 		return nil, nil, err
 	}

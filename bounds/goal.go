@@ -26,6 +26,11 @@ type Options struct {
 	// MaxMemory bounds the bytes held: iterates (transfer.Engine.Footprint
 	// for the next step) plus this package's workspace.
 	MaxMemory int64
+	// Digests asks for Bracket.Digest (transfer's digest of G_k, for
+	// certificates) on the brackets of the result. Digesting a large
+	// iterate costs about as much as a counting step, so it is off unless
+	// asked for.
+	Digests bool
 }
 
 func (o Options) step() int { return max(o.Step, 1) }

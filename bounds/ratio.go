@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"math/big"
+	"math/bits"
 	"runtime"
 	"sync"
 	"sync/atomic"
@@ -57,15 +58,15 @@ type ratioProblem struct {
 	m, k, d   int
 	cells     []int // the cells to scan; the others must be zero in base
 	num, base source
-	baseLimbs int
+	numLimbs  int // words per coefficient of num
+	baseLimbs int // words per coefficient of base
 }
 
 // ratioExtremes is the outcome of one evaluation.
 type ratioExtremes struct {
-	lo, hi    *big.Rat // min and max of R_a over D_a > 0; hi is nil when unbounded
-	positive  int      // indices with D_a > 0
-	exact     int      // comparisons the floating-point screen left to exact arithmetic
-	hintShift uint     // bits of the screening centre
+	lo, hi   *big.Rat // min and max of R_a over D_a > 0; hi is nil when unbounded
+	positive int      // indices with D_a > 0
+	exact    int      // comparisons the floating-point screen left to exact arithmetic
 }
 
 // chunk is the number of indices one task scans.
@@ -94,12 +95,12 @@ func extremes(ctx context.Context, p ratioProblem) (ratioExtremes, error) {
 		den, denLimbs = t, denLimbs+1
 	}
 	deg := p.k + p.d
-	mu, shift := screenCentre(ix, p, den, denLimbs)
+	centre := screenCentre(ix, p, den, denLimbs)
 	perCell := ix.Count(deg)
 	perCellTasks := (perCell + chunk - 1) / chunk
 	tallies := make([]tally, len(p.cells)*perCellTasks)
 	err := parallel(ctx, len(tallies), func() func(int) {
-		s := newScratch(p.m, denLimbs, mu, shift)
+		s := newScratch(p.m, denLimbs, p.numLimbs, centre)
 		return func(task int) {
 			cell := p.cells[task/perCellTasks]
 			lo := (task % perCellTasks) * chunk
@@ -116,12 +117,12 @@ func extremes(ctx context.Context, p ratioProblem) (ratioExtremes, error) {
 	if err != nil {
 		return ratioExtremes{}, err
 	}
-	s := newScratch(p.m, denLimbs, mu, shift)
+	s := newScratch(p.m, denLimbs, p.numLimbs, centre)
 	var all tally
 	for i := range tallies {
 		s.merge(&all, &tallies[i])
 	}
-	out := ratioExtremes{positive: all.positive, exact: all.exact, hintShift: shift}
+	out := ratioExtremes{positive: all.positive, exact: all.exact}
 	switch {
 	case all.positive == 0:
 		// No positive denominator: G_k vanishes on the scanned cells.
@@ -138,14 +139,21 @@ func extremes(ctx context.Context, p ratioProblem) (ratioExtremes, error) {
 	return out, nil
 }
 
-// screenCentre returns p and s with p/2^s close to the ratios: p/2^s is the
-// sum ratio rounded down to s bits after the point, s about 20 bits beyond
-// the spread of the ratios on a sample of indices.
-func screenCentre(ix *transfer.Indexer, p ratioProblem, den source, denLimbs int) (*big.Int, uint) {
+// centre is the screening centre mu = p/2^s with s = words*W (W the word
+// size); p nil means no centre (the screen then uses R itself).
+type centre struct {
+	p     []big.Word
+	words int
+}
+
+// screenCentre returns a centre close to the ratios: the sum ratio (a
+// weighted mean of the R_a) rounded down to s bits after the point, s about
+// 20 bits beyond the spread of the ratios on a sample of indices.
+func screenCentre(ix *transfer.Indexer, p ratioProblem, den source, denLimbs int) centre {
 	deg := p.k + p.d
 	var sumN, sumD big.Int
 	var x big.Int
-	s := newScratch(p.m, denLimbs, nil, 0)
+	s := newScratch(p.m, denLimbs, p.numLimbs, centre{})
 	for _, cell := range p.cells {
 		for r := range ix.Count(deg) {
 			sumN.Add(&sumN, x.SetBits(p.num.Words(cell, r)))
@@ -155,12 +163,12 @@ func screenCentre(ix *transfer.Indexer, p ratioProblem, den source, denLimbs int
 		}
 	}
 	if sumD.Sign() == 0 || sumN.Sign() == 0 {
-		return nil, 0
+		return centre{}
 	}
 	// Raising multiplies the coefficient sum by deg+m: every b of degree
 	// deg-1 feeds its neighbours b+e_t with weights b_t+1.
 	sumD.Mul(&sumD, big.NewInt(int64(deg+p.m)))
-	centre := new(big.Rat).SetFrac(&sumN, &sumD)
+	mean := new(big.Rat).SetFrac(&sumN, &sumD)
 
 	const samplesPerCell = 8
 	spread := new(big.Rat)
@@ -175,7 +183,7 @@ func screenCentre(ix *transfer.Indexer, p ratioProblem, den source, denLimbs int
 			}
 			q := new(big.Rat).SetFrac(new(big.Int).SetBits(append([]big.Word(nil), p.num.Words(cell, r)...)),
 				new(big.Int).SetBits(append([]big.Word(nil), s.d...)))
-			q.Sub(q, centre).Abs(q)
+			q.Sub(q, mean).Abs(q)
 			if q.Cmp(spread) > 0 {
 				spread = q
 			}
@@ -185,9 +193,9 @@ func screenCentre(ix *transfer.Indexer, p ratioProblem, den source, denLimbs int
 	if spread.Sign() > 0 {
 		bitsWanted = int(math.Ceil(-log2Rat(spread))) + 20
 	}
-	shift := uint(min(max(bitsWanted, 64), 1<<16))
-	num := new(big.Int).Lsh(centre.Num(), shift)
-	return num.Quo(num, centre.Denom()), shift
+	words := (min(max(bitsWanted, 64), 1<<16) + bits.UintSize - 1) / bits.UintSize
+	num := new(big.Int).Lsh(mean.Num(), uint(words*bits.UintSize))
+	return centre{p: num.Quo(num, mean.Denom()).Bits(), words: words}
 }
 
 // elevate returns the coefficients of degree deg raised from src (degree
@@ -201,7 +209,7 @@ func elevate(ctx context.Context, ix *transfer.Indexer, p ratioProblem, deg int,
 	dst := newTable(cells, perCell, srcLimbs+1)
 	perCellTasks := (perCell + chunk - 1) / chunk
 	err := parallel(ctx, len(p.cells)*perCellTasks, func() func(int) {
-		s := newScratch(p.m, srcLimbs, nil, 0)
+		s := newScratch(p.m, srcLimbs, 0, centre{})
 		return func(task int) {
 			cell := p.cells[task/perCellTasks]
 			lo := (task % perCellTasks) * chunk
@@ -241,16 +249,18 @@ type tally struct {
 
 // scratch is one worker's reusable state.
 type scratch struct {
-	a                      []int
-	d                      []big.Word // the raised denominator of the current index
-	mu                     *big.Int   // screening centre p (nil: screen R itself)
-	shift                  uint       // s
-	n, dd, e, t            big.Int
-	x1, y1, x2, y2, p1, p2 big.Int
+	a      []int
+	d      []big.Word // the raised denominator of the current index
+	centre centre
+	// shifted, product and offset hold N*2^s, p*D and their difference.
+	shifted, product, offset []big.Word
+	x1, y1, x2, y2, p1, p2   big.Int
 }
 
-func newScratch(m, denLimbs int, mu *big.Int, shift uint) *scratch {
-	return &scratch{a: make([]int, m+1), d: make([]big.Word, denLimbs+1), mu: mu, shift: shift}
+func newScratch(m, denLimbs, numLimbs int, c centre) *scratch {
+	n := max(numLimbs+c.words, len(c.p)+denLimbs+1) + 1
+	return &scratch{a: make([]int, m+1), d: make([]big.Word, denLimbs+1), centre: c,
+		shifted: make([]big.Word, n), product: make([]big.Word, n), offset: make([]big.Word, n)}
 }
 
 // raise writes into dst the coefficient at s.a of src raised by one degree:
@@ -267,17 +277,25 @@ func (s *scratch) raise(ix *transfer.Indexer, cell int, src source, dst []big.Wo
 	}
 }
 
-// screen returns the approx of 2^s (N/D - mu).
+// screen returns the approx of 2^s (N/D - mu) = (N*2^s - p*D)/D.
 func (s *scratch) screen(n, d []big.Word) approx {
-	if s.mu == nil {
+	c := s.centre
+	if c.p == nil {
 		return approxQuo(n, false, d)
 	}
-	s.n.SetBits(n)
-	s.dd.SetBits(d)
-	s.e.Lsh(&s.n, s.shift)
-	s.t.Mul(s.mu, &s.dd)
-	s.e.Sub(&s.e, &s.t)
-	return approxQuo(s.e.Bits(), s.e.Sign() < 0, d)
+	clear(s.shifted)
+	copy(s.shifted[c.words:], n)
+	clear(s.product)
+	for j, w := range c.p {
+		mulAddWords(s.product[j:], d, uint(w))
+	}
+	negative := compareWords(s.shifted, s.product) < 0
+	if negative {
+		subWordsInto(s.offset, s.product, s.shifted)
+	} else {
+		subWordsInto(s.offset, s.shifted, s.product)
+	}
+	return approxQuo(s.offset, negative, d)
 }
 
 // compareExact returns the sign of n1/d1 - n2/d2 (d1, d2 > 0) by

@@ -131,7 +131,7 @@ func TestExtremesAgreeWithNaive(t *testing.T) {
 		for c := range allCells {
 			allCells[c] = c
 		}
-		got, err := extremes(context.Background(), ratioProblem{m: m, k: k, d: d, cells: allCells, num: num, base: base, baseLimbs: baseLimbs})
+		got, err := extremes(context.Background(), ratioProblem{m: m, k: k, d: d, cells: allCells, num: num, base: base, numLimbs: numLimbs, baseLimbs: baseLimbs})
 		if err != nil {
 			t.Fatal(err)
 		}

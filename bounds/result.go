@@ -85,7 +85,8 @@ type Bracket struct {
 	Lambda Enclosure
 	// Sum is the sum of the coefficients of G_k: a_{m+k} for the whole set.
 	Sum *big.Int
-	// Digest is transfer's digest of G_k.
+	// Digest is transfer's digest of G_k (zero unless Options.Digests, or
+	// from BracketAt).
 	Digest [32]byte
 }
 

@@ -230,9 +230,9 @@ func drive(ctx context.Context, runners []*runner, opts Options, g goal, progres
 		if stop, detail, err = active.advance(ctx, e); err != nil {
 			return nil, err
 		}
-		dropDominated(runners)
+		dropDominated(runners, opts.Digests)
 	}
-	return finish(runners, g, stop, detail, start)
+	return finish(runners, e, stop, detail, start)
 }
 
 // checkFirstMemory refuses a memory budget that cannot hold the first
@@ -299,7 +299,7 @@ func higher(r, s *runner) bool {
 // block's lower end (they cannot change the enclosure) and frees the
 // iterates of every finished block. Two blocks can only dominate each other
 // when both brackets are the same single point.
-func dropDominated(runners []*runner) {
+func dropDominated(runners []*runner, digests bool) {
 	for _, r := range runners {
 		if r.cur == nil || r.best == nil || r.best.Lambda.Hi == nil {
 			continue
@@ -310,16 +310,16 @@ func dropDominated(runners []*runner) {
 			}
 		}
 		if r.finished {
-			r.release()
+			r.release(digests)
 		}
 	}
 }
 
 // finish assembles the result.
-func finish(runners []*runner, g goal, stop StopReason, detail string, start time.Time) (*Result, error) {
+func finish(runners []*runner, e *env, stop StopReason, detail string, start time.Time) (*Result, error) {
 	res := &Result{Stop: stop, Detail: detail}
 	for _, r := range runners {
-		r.digest()
+		r.digest(e.opts.Digests)
 		if r.best != nil {
 			res.Brackets = append(res.Brackets, *r.best)
 		}
@@ -328,7 +328,7 @@ func finish(runners []*runner, g goal, stop StopReason, detail string, start tim
 		return nil, fmt.Errorf("bounds: stopped (%s) before the first bracket: %s", stop, detail)
 	}
 	res.Lambda = combined(runners)
-	res.Prec = g.prec(res.Lambda.Hi)
+	res.Prec = e.goal.prec(res.Lambda.Hi)
 	res.Radius = res.Lambda.reciprocal(res.Prec)
 	if res.Lambda.Finite() {
 		res.Digits = interval.CommonDigits(res.Lambda.Lo, res.Lambda.Hi)

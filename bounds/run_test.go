@@ -399,3 +399,27 @@ func TestContextErrorsAreStops(t *testing.T) {
 		t.Error("a plain error became a stop")
 	}
 }
+
+// TestZeroGrowth covers sets with lambda = 0: the pattern 1 (no avoiders
+// of length >= 1: the bracket is exactly [0, 0] and the radius infinite)
+// and {123, 231, 312, 321}, whose upper end only creeps down (method note,
+// section 5b: hi = 0.12 at k = 30 seen in a prototype).
+func TestZeroGrowth(t *testing.T) {
+	_, sys := system(t, "1")
+	res, err := Run(context.Background(), sys, Options{Digits: 5}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Stop != StopExact || res.Lambda.Lo.Sign() != 0 || res.Lambda.Hi.Sign() != 0 || res.Radius.Lo != nil {
+		t.Errorf("pattern 1: stop %s, lambda %s, radius %s", res.Stop, res.Lambda.String(5), res.Radius.String(5))
+	}
+	_, sys = system(t, "123,231,312,321")
+	res, err = Run(context.Background(), sys, Options{Digits: 5, MaxK: 30}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	hi, _ := res.Lambda.Hi.Float64()
+	if res.Stop != StopMaxK || res.Lambda.Lo.Sign() != 0 || hi < 0.1 || hi > 0.14 || res.Radius.Hi != nil {
+		t.Errorf("{123,231,312,321}: stop %s, lambda %s, radius %s", res.Stop, res.Lambda.String(5), res.Radius.String(5))
+	}
+}

@@ -270,7 +270,7 @@ func (r *runner) evalEstimate(K int) time.Duration {
 func (r *runner) evaluate(ctx context.Context, e *env) error {
 	cur, gk := r.cur, r.base
 	t0 := time.Now()
-	res, err := extremes(ctx, ratioProblem{m: r.sys.M, k: gk.K, d: r.d, cells: r.cells, num: cur, base: gk, baseLimbs: gk.Limbs})
+	res, err := extremes(ctx, ratioProblem{m: r.sys.M, k: gk.K, d: r.d, cells: r.cells, num: cur, base: gk, numLimbs: cur.Limbs, baseLimbs: gk.Limbs})
 	if err != nil {
 		return err
 	}
@@ -282,7 +282,10 @@ func (r *runner) evaluate(ctx context.Context, e *env) error {
 		r.widths = append(r.widths, widthPoint{k: gk.K, log2: log2Rat(w)})
 	}
 	if better(&b, r.best) {
-		r.best, r.pinned = &b, gk
+		r.best = &b
+		if e.opts.Digests {
+			r.pinned = gk
+		}
 	}
 	r.base = nil
 	if r.pinned != gk && bytesOf(gk) > bytesOf(r.spare) {
@@ -364,17 +367,18 @@ func (r *runner) rate() float64 {
 	return math.Exp2((q.log2 - p.log2) / float64(q.k-p.k))
 }
 
-// digest fills in the digest of the best bracket's G_k and releases it.
-func (r *runner) digest() {
-	if r.best != nil && r.pinned != nil {
+// digest fills in the digest of the best bracket's G_k, if wanted, and
+// releases it.
+func (r *runner) digest(wanted bool) {
+	if wanted && r.best != nil && r.pinned != nil {
 		r.best.Digest = r.pinned.Digest()
 	}
 	r.pinned = nil
 }
 
 // release drops all iterates of a runner that will not step again.
-func (r *runner) release() {
-	r.digest()
+func (r *runner) release(digests bool) {
+	r.digest(digests)
 	r.cur, r.base, r.spare = nil, nil, nil
 }
 

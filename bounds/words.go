@@ -27,6 +27,29 @@ func mulAddWords(z, x []big.Word, y uint) {
 	}
 }
 
+// compareWords returns the sign of x - y for magnitudes of equal length.
+func compareWords(x, y []big.Word) int {
+	for i := len(x) - 1; i >= 0; i-- {
+		switch {
+		case x[i] > y[i]:
+			return 1
+		case x[i] < y[i]:
+			return -1
+		}
+	}
+	return 0
+}
+
+// subWordsInto writes x - y into z (all of equal length, x >= y).
+func subWordsInto(z, x, y []big.Word) {
+	var borrow uint
+	for i := range z {
+		var d uint
+		d, borrow = bits.Sub(uint(x[i]), uint(y[i]), borrow)
+		z[i] = big.Word(d)
+	}
+}
+
 // isZero reports whether all words are zero.
 func isZero(w []big.Word) bool {
 	for _, x := range w {
@@ -65,6 +88,9 @@ type approx struct {
 	e int
 }
 
+// wordBase is 2^W as a float64, W the word size.
+const wordBase = float64(1 << bits.UintSize)
+
 // topFloat returns t and e with |w| ~ t*2^e for a non-zero magnitude w,
 // taking the highest words until more than 64 bits are covered. Each
 // float64 rounding (at most five, three on 64-bit machines) and the
@@ -79,7 +105,7 @@ func topFloat(w []big.Word) (float64, int) {
 	j := i
 	for covered := bits.UintSize; covered < 64+bits.UintSize && j > 0; covered += bits.UintSize {
 		j--
-		t = t*math.Exp2(bits.UintSize) + float64(w[j])
+		t = t*wordBase + float64(w[j])
 	}
 	return t, j * bits.UintSize
 }
