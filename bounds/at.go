@@ -73,5 +73,5 @@ func BracketAt(ctx context.Context, sys transfer.System, k, d int, prec uint) (*
 		cells[c] = c
 	}
 	return &Bracket{Cells: cells, M: sys.M, K: k, Step: d, Lo: lo, Hi: hi,
-		Lambda: lambdaOf(lo, hi, d, prec), Sum: gk.Sum(), Digest: gk.Digest()}, nil
+		Lambda: lambdaOf(lo, hi, d, prec), Prec: prec, Sum: gk.Sum(), Digest: gk.Digest()}, nil
 }

@@ -81,8 +81,9 @@ type Bracket struct {
 	// D_a = 0 < G_{k+d}[a]: no upper bound at this k.
 	Lo, Hi *big.Rat
 	// Lambda is the enclosure of lambda drawn from [Lo, Hi]: d-th roots,
-	// rounded outward to dyadic rationals.
+	// rounded outward to dyadic rationals of Prec significant bits.
 	Lambda Enclosure
+	Prec   uint
 	// Sum is the sum of the coefficients of G_k: a_{m+k} for the whole set.
 	Sum *big.Int
 	// Digest is transfer's digest of G_k (zero unless Options.Digests, or
@@ -112,8 +113,9 @@ const (
 // Result is the outcome of Run, RunBlocks or Judge.
 type Result struct {
 	// Lambda is the certified enclosure of the growth rate
-	// lambda = lim (a_n/n!)^(1/n), rounded outward to dyadic rationals of
-	// Prec significant bits.
+	// lambda = lim (a_n/n!)^(1/n), with the ends of the brackets' Lambda
+	// (dyadic rationals). Prec is the largest of their precisions, also
+	// used to round Radius outward.
 	Lambda Enclosure
 	// Radius is the certified enclosure of 1/lambda, the radius of
 	// convergence of sum a_n z^n/n! (Hi nil when Lambda.Lo = 0).

@@ -328,7 +328,9 @@ func finish(runners []*runner, e *env, stop StopReason, detail string, start tim
 		return nil, fmt.Errorf("bounds: stopped (%s) before the first bracket: %s", stop, detail)
 	}
 	res.Lambda = combined(runners)
-	res.Prec = e.goal.prec(res.Lambda.Hi)
+	for _, b := range res.Brackets {
+		res.Prec = max(res.Prec, b.Prec)
+	}
 	res.Radius = res.Lambda.reciprocal(res.Prec)
 	if res.Lambda.Finite() {
 		res.Digits = interval.CommonDigits(res.Lambda.Lo, res.Lambda.Hi)

@@ -276,7 +276,8 @@ func (r *runner) evaluate(ctx context.Context, e *env) error {
 	}
 	r.evalDur, r.evalBytes = time.Since(t0), cur.Bytes()
 	b := Bracket{Cells: r.cells, M: r.sys.M, K: gk.K, Step: r.d, Lo: res.lo, Hi: res.hi, Sum: gk.Sum()}
-	b.Lambda = lambdaOf(res.lo, res.hi, r.d, e.goal.prec(res.hi))
+	b.Prec = e.goal.prec(res.hi)
+	b.Lambda = lambdaOf(res.lo, res.hi, r.d, b.Prec)
 	r.evaluated = gk.K
 	if w := b.Lambda.Width(); w != nil && w.Sign() > 0 {
 		r.widths = append(r.widths, widthPoint{k: gk.K, log2: log2Rat(w)})
