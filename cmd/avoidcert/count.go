@@ -3,7 +3,7 @@ package main
 import (
 	"context"
 	"encoding/csv"
-		"fmt"
+	"fmt"
 	"math/big"
 	"strconv"
 	"text/tabwriter"
