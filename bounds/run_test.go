@@ -423,3 +423,32 @@ func TestZeroGrowth(t *testing.T) {
 		t.Errorf("{123,231,312,321}: stop %s, lambda %s, radius %s", res.Stop, res.Lambda.String(5), res.Radius.String(5))
 	}
 }
+
+// TestPeriodicMaxK stops a Step 2 run of {123, 321} at k = 10 and checks
+// the bracket still holds 2/pi (Andre 1879).
+func TestPeriodicMaxK(t *testing.T) {
+	_, sys := system(t, "123,321")
+	res, err := Run(context.Background(), sys, Options{Digits: 30, Step: 2, MaxK: 10}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b := res.Brackets[0]; res.Stop != StopMaxK || b.K != 10 || b.Step != 2 || res.Explicit != nil {
+		t.Fatalf("stop %s at k = %d, step %d, explicit %v", res.Stop, b.K, b.Step, res.Explicit)
+	}
+	checkContains(t, "123,321", res, interval.LambdaAlternating(200))
+}
+
+func TestEnclosureString(t *testing.T) {
+	for _, c := range []struct {
+		e    Enclosure
+		want string
+	}{
+		{Enclosure{Lo: big.NewRat(1, 3), Hi: big.NewRat(2, 3)}, "[0.333, 0.667]"},
+		{Enclosure{Lo: new(big.Rat)}, "[0, inf]"},
+		{Enclosure{}, "[inf, inf]"},
+	} {
+		if got := c.e.String(3); got != c.want {
+			t.Errorf("String = %q, want %q", got, c.want)
+		}
+	}
+}
