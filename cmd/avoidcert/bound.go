@@ -233,7 +233,7 @@ func writeBoundText(e *env, set pattern.Set, p *plan, res *bounds.Result, path s
 	for _, br := range res.Brackets {
 		fmt.Fprintf(w, "bracket: k = %d, step %d, on %d of %d cells\n", br.K, br.Step, len(br.Cells), p.sys.Cells())
 	}
-	if x := res.Explicit; x != nil {
+	if x := res.Explicit; x != nil && x.AN0.Sign() > 0 {
 		writeExplicit(w, x, digits)
 	}
 	if est := res.Estimates; est.Rate > 0 && p.rep.Class != structure.Subexponential {
@@ -261,7 +261,7 @@ func writeExplicit(w io.Writer, x *bounds.AllN, digits int) {
 	if x.MuLo.Sign() > 0 {
 		lower = fmt.Sprintf("A*%s^(n-%d) <= ", interval.DecimalDown(x.MuLo, digits), x.N0)
 	}
-	if x.MuHi != nil {
+	if x.MuHi != nil && x.MuHi.Sign() > 0 {
 		upper = fmt.Sprintf(" <= A*%s^(n-%d)", interval.DecimalUp(x.MuHi, digits), x.N0)
 	}
 	if lower == "" && upper == "" {
@@ -272,7 +272,7 @@ func writeExplicit(w io.Writer, x *bounds.AllN, digits int) {
 }
 
 func digitWords(res *bounds.Result) string {
-	if res.Digits > 1000 {
+	if x := res.Lambda; x.Lo != nil && x.Hi != nil && x.Lo.Cmp(x.Hi) == 0 {
 		return "exact"
 	}
 	return fmt.Sprintf("%d significant digits certified", res.Digits)
