@@ -8,11 +8,17 @@ import (
 	"avoidcert/pattern"
 )
 
-// Version is the certificate format version this package writes and checks.
-const Version = 1
+// Format versions. Version 2 is version 1 with a structure section; Marshal
+// writes version 2 for a certificate with a Structure and version 1
+// (exactly the version 1 format) for one without, and Read and Check
+// accept both.
+const (
+	Version  = 2
+	Version1 = 1
+)
 
-// Fixed strings of format version 1. A file whose strings differ is not a
-// version 1 certificate.
+// Fixed strings of format versions 1 and 2. A file whose strings differ is
+// not a certificate.
 const (
 	Format        = "avoidcert certificate"
 	EndMarker     = "avoidcert certificate end"
@@ -30,18 +36,23 @@ const (
 	MaxK            = 1000    // degree k of a bracket
 	MaxStep         = 64      // step d of a bracket
 	MaxBrackets     = 1024
-	MaxGiven        = 10000 // patterns as given
-	MaxTokenLength  = 32    // characters of one given pattern
-	MaxToolLength   = 200   // characters of the tool string
+	MaxGiven        = 10000   // patterns as given
+	MaxTokenLength  = 32      // characters of one given pattern
+	MaxToolLength   = 200     // characters of the tool string
+	MaxWitnesses    = 3628800 // witnesses of a structure section: (2m)! at m = 5
 )
 
-// Certificate is a growth-rate certificate of format Version. Read returns
-// fresh values; Marshal, Write and Check never modify a certificate or the
-// numbers it points to. Derive fills the fields that follow from the others.
+// Certificate is a growth-rate certificate. Read returns fresh values;
+// Marshal, Write and Check never modify a certificate or the numbers and
+// permutations it points to. Derive fills the fields that follow from the
+// others.
 type Certificate struct {
 	Tool      string // the producing tool and its version; free text, printable ASCII
 	Statement Statement
 	Evidence  Evidence
+	// Structure is the structure section: a class and a lambda status
+	// with their evidence. nil makes a format version 1 certificate.
+	Structure *Structure
 }
 
 // Statement is what the certificate claims.
@@ -78,10 +89,8 @@ type AllN struct {
 	MuLo, MuHi *big.Rat
 }
 
-// Evidence is what the checker recomputes.
-//
-// Extension point: later evidence kinds (structural witnesses) are added as
-// further fields here, each checked by its own function called from Check.
+// Evidence is what the checker recomputes for the bounds. The evidence of
+// the structure section is in Certificate.Structure.
 type Evidence struct {
 	CellLength int // m = longest pattern length - 1 (derived)
 	Brackets   []Bracket
@@ -112,7 +121,8 @@ type Bracket struct {
 // Derive fills the derived fields of c from its free fields: Patterns and
 // Canonical from Given, CellLength, the decimals from the rationals, and the
 // canonical order of the brackets. AN0 and the iterate digests need the
-// iterates and are left to the producer. Derive reports an error when Given
+// iterates and are left to the producer, and so is the structure section
+// (its derived fields come from the structure pass). Derive reports an error when Given
 // does not parse; it does not check the mathematics (Check does).
 func Derive(c *Certificate) error {
 	set, err := pattern.ParseSet(c.Statement.Given)

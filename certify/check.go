@@ -47,7 +47,10 @@ type CheckOptions struct {
 // verifies its digest, a_{n0}, and every bracket inequality exactly; then
 // that the statement follows from the brackets, that every derived field
 // equals its derivation, and that the set is opts.Expect when that is set.
-// It refuses, before doing the work, a certificate whose estimated work or
+// With a structure section (format version 2) it proves the stated class
+// and lambda status with its own code: the window digraph, the witnesses
+// or a recomputation of the joint-pattern sets R_k, and the cyclic
+// avoider (see Structure). It refuses, before doing the work, a certificate whose estimated work or
 // memory is over the limits. Check does not modify c.
 func Check(c *Certificate, opts CheckOptions) error {
 	// a private, validated copy: nothing the caller holds can change under us
@@ -72,6 +75,9 @@ func Check(c *Certificate, opts CheckOptions) error {
 	if err := ck.limits(); err != nil {
 		return fmt.Errorf("certificate refused: %w", err)
 	}
+	if err := ck.verifyStructure(); err != nil {
+		return fmt.Errorf("certificate rejected: %v", err)
+	}
 	if err := ck.recompute(); err != nil {
 		return fmt.Errorf("certificate rejected: %v", err)
 	}
@@ -81,10 +87,14 @@ func Check(c *Certificate, opts CheckOptions) error {
 type checker struct {
 	c     *Certificate
 	opts  CheckOptions
+	set   pattern.Set
 	win   windows
 	m     int
 	cells int // m!
 	allN  int // index of the bracket the all-n bounds come from
+	// zeroByJoints reports that the structure section claims lambda = 0
+	// where it must be decided on the joint patterns
+	zeroByJoints bool
 }
 
 // describe names a bracket in messages.
@@ -120,6 +130,7 @@ func (ck *checker) statement() error {
 	if len(ck.opts.Expect.Patterns()) > 0 && !ck.opts.Expect.Equal(set) {
 		return fmt.Errorf("the certificate is for the set %s, not for the expected set %s", abbreviate(set.String()), abbreviate(ck.opts.Expect.String()))
 	}
+	ck.set = set
 	ck.win = windowsOf(set)
 	ck.m = ck.win.m
 	ck.cells = pattern.Factorial(ck.m)
@@ -157,7 +168,10 @@ func (ck *checker) statement() error {
 			return fmt.Errorf("evidence.brackets[%d]: brackets must be distinct and in canonical order (more cells first, then cells, step, k)", i)
 		}
 	}
-	return ck.claims()
+	if err := ck.claims(); err != nil {
+		return err
+	}
+	return ck.structureClaims()
 }
 
 // claims checks that the statement follows from the brackets' own claims
@@ -375,11 +389,15 @@ func (ck *checker) limits() error {
 		}
 		memory = max(memory, held*float64(ck.cells)*count(g.degree)*perCoef)
 	}
+	// the structure section is verified first, on its own memory
+	sw, sm := ck.structureWork()
+	work += sw
+	memory = max(memory, sm)
 	if work > float64(ck.opts.MaxWork) {
-		return fmt.Errorf("%w: recomputing the iterates needs about %.3g coefficient operations, above the limit of %.3g; raise the work limit if you expect a certificate this large", ErrLimit, work, float64(ck.opts.MaxWork))
+		return fmt.Errorf("%w: recomputing the evidence needs about %.3g coefficient operations, above the limit of %.3g; raise the work limit if you expect a certificate this large", ErrLimit, work, float64(ck.opts.MaxWork))
 	}
 	if memory > float64(ck.opts.MaxMemory) {
-		return fmt.Errorf("%w: recomputing the iterates needs about %.3g bytes of memory, above the limit of %.3g; raise the memory limit if you expect a certificate this large", ErrLimit, memory, float64(ck.opts.MaxMemory))
+		return fmt.Errorf("%w: recomputing the evidence needs about %.3g bytes of memory, above the limit of %.3g; raise the memory limit if you expect a certificate this large", ErrLimit, memory, float64(ck.opts.MaxMemory))
 	}
 	return nil
 }

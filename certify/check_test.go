@@ -233,17 +233,22 @@ func TestFalseBoundsRejected(t *testing.T) {
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			s, _ := pattern.ParseSet([]string{"123"})
-			err := certify.Check(resealed(t, tc.change), certify.CheckOptions{Expect: s})
-			if err == nil {
-				t.Fatal("accepted")
-			}
-			if !strings.Contains(err.Error(), tc.reason) {
-				t.Fatalf("rejected for %q, want a reason containing %q", err, tc.reason)
-			}
-			if strings.Contains(err.Error(), "\n") {
-				t.Fatalf("message is not one line: %q", err)
-			}
+			wantRefusal(t, certify.Check(resealed(t, tc.change), certify.CheckOptions{Expect: s}), tc.reason)
 		})
+	}
+}
+
+// wantRefusal fails unless err is a one-line refusal naming the reason.
+func wantRefusal(t *testing.T, err error, reason string) {
+	t.Helper()
+	if err == nil {
+		t.Fatal("accepted")
+	}
+	if !strings.Contains(err.Error(), reason) {
+		t.Fatalf("rejected for %q, want a reason containing %q", err, reason)
+	}
+	if strings.Contains(err.Error(), "\n") {
+		t.Fatalf("message is not one line: %q", err)
 	}
 }
 
@@ -333,6 +338,16 @@ func TestHostileValuesNoPanic(t *testing.T) {
 		}},
 		{"decimal not derived", func(c *certify.Certificate) { c.Statement.Lambda.LoDecimal = "0.5" }},
 		{"canonical not derived", func(c *certify.Certificate) { c.Statement.Canonical = []string{"321"} }},
+		{"nil witness", func(c *certify.Certificate) { c.Structure.Witnesses[3] = nil }},
+		{"empty witness list", func(c *certify.Certificate) { c.Structure.Witnesses = []pattern.Perm{} }},
+		{"negative entry", func(c *certify.Certificate) { c.Structure.Witnesses[0] = pattern.Perm{-1, 2, 3, 4, 5, 6} }},
+		{"long witness", func(c *certify.Certificate) { c.Structure.Witnesses[0] = make(pattern.Perm, certify.MaxPermLength+1) }},
+		{"nil cell pair", func(c *certify.Certificate) { c.Structure.Unreached = &certify.CellPair{} }},
+		{"negative exponent", func(c *certify.Certificate) { c.Structure.Exponent = -4 }},
+		{"huge exponent", func(c *certify.Certificate) { c.Structure.Exponent = 1 << 40 }},
+		{"cycle start without length", func(c *certify.Certificate) { c.Structure.CycleStart = 3 }},
+		{"empty class", func(c *certify.Certificate) { c.Structure.Class = "" }},
+		{"empty lambda status", func(c *certify.Certificate) { c.Structure.Lambda = "" }},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			c := cert123(t)

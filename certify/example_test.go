@@ -9,6 +9,7 @@ import (
 
 	"avoidcert/certify"
 	"avoidcert/pattern"
+	"avoidcert/structure"
 	"avoidcert/transfer"
 )
 
@@ -35,10 +36,13 @@ func Example() {
 	fmt.Printf("lambda in [%s, %s]\n", st.Lambda.LoDecimal, st.Lambda.HiDecimal)
 	fmt.Printf("1/lambda in [%s, %s]\n", st.Radius.LoDecimal, st.Radius.HiDecimal)
 	fmt.Printf("for n >= %d: a_n/n! <= (%s/%d!) (%s)^(n-%d)\n", st.AllN.N0, st.AllN.AN0, st.AllN.N0, st.AllN.MuHi.RatString(), st.AllN.N0)
+	sc := c.Structure
+	fmt.Printf("%s with exponent %d (%d witnesses); lambda %s (cyclic avoider %s)\n", sc.Class, sc.Exponent, len(sc.Witnesses), sc.Lambda, sc.CyclicAvoider)
 	// Output:
 	// lambda in [0.807692307692, 0.836734693878]
 	// 1/lambda in [1.19512195121, 1.2380952381]
 	// for n >= 8: a_n/n! <= (13358/8!) (41/49)^(n-8)
+	// primitive with exponent 4 (24 witnesses); lambda positive (cyclic avoider 321)
 }
 
 // The same certificate presented for another set is refused.
@@ -57,9 +61,12 @@ func ExampleCheck_otherSet() {
 }
 
 // A producer fills the free fields, takes a_n0 and the iterate digest from
-// the engine, lets Derive fill the rest, checks and writes. The set {21}
-// keeps only increasing permutations, so G_k is 1 at the single index
-// (k, 0) and the bracket at k = 3 is [0, 1/4].
+// the engine and the structure section from the structure pass, lets
+// Derive fill the rest, checks and writes. The set {21} keeps only
+// increasing permutations, so G_k is 1 at the single index (k, 0) and the
+// bracket at k = 3 is [0, 1/4]; its only cycle is the loop of the window
+// 12, so lambda = 0 needs no further evidence (docs/certificate.md lists
+// the members each class needs).
 func ExampleWrite() {
 	set, _ := pattern.ParseSet([]string{"21"})
 	eng := transfer.New(transfer.FromSet(set))
@@ -80,6 +87,12 @@ func ExampleWrite() {
 			{Cells: []int{0}, Step: 1, K: 3, Lo: new(big.Rat), Hi: hi, Upper: true, IterateDigest: g.Digest()},
 		}},
 	}
+	rep, err := structure.Analyze(context.Background(), set, structure.Options{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	c.Structure = &certify.Structure{Class: certify.StructureClass(rep.Class), Lambda: certify.LambdaStatus(rep.Lambda)}
 	if err := certify.Derive(c); err != nil {
 		fmt.Println(err)
 		return
@@ -98,7 +111,7 @@ func ExampleWrite() {
 	f, _ := os.Open(path)
 	defer f.Close()
 	back, err := certify.Read(f)
-	fmt.Println(err, back.Statement.Lambda.HiDecimal, back.Statement.AllN.AN0)
+	fmt.Println(err, back.Statement.Lambda.HiDecimal, back.Statement.AllN.AN0, back.Structure.Class, back.Structure.Lambda)
 	// Output:
-	// <nil> 0.25 1
+	// <nil> 0.25 1 subexponential zero
 }

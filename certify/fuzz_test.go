@@ -13,14 +13,20 @@ import (
 // written and with its content digest recomputed (so that mutations get
 // past the digest into the checker). Nothing may panic, and a file is
 // accepted only if it is canonical and every claim is true: for {123} and
-// {132} against the published growth rates and OEIS counts; no other set
-// can be verified here, so accepting one fails the test.
+// {132} against the published growth rates, OEIS counts and their
+// structure (format versions 1 and 2); no other set can be verified here,
+// so accepting one fails the test.
 func FuzzCheck(f *testing.F) {
 	good, err := os.ReadFile(goldenPath)
 	if err != nil {
 		f.Fatal(err)
 	}
 	f.Add(good)
+	v1, err := os.ReadFile("testdata/cert-123-k6-v1.json")
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add(v1)
 	other, err := certify.Marshal(wholeCert(f, "132", 5))
 	if err != nil {
 		f.Fatal(err)
@@ -55,9 +61,9 @@ func FuzzCheck(f *testing.F) {
 			var why string
 			switch set := c.Statement.Patterns; {
 			case len(set) == 1 && set[0] == "123":
-				why = unsound(t, c, lambda123, "A049774") // OEIS A049774
+				why = unsound(t, c, lambda123, "A049774", 4) // OEIS A049774; exponent: structure/testdata/exponents.golden
 			case len(set) == 1 && set[0] == "132":
-				why = unsound(t, c, lambda132, "A111004") // OEIS A111004
+				why = unsound(t, c, lambda132, "A111004", 3) // OEIS A111004; exponent: the same golden file
 			default:
 				why = "it is for a set this test cannot verify"
 			}

@@ -8,6 +8,7 @@ import (
 
 	"avoidcert/certify"
 	"avoidcert/pattern"
+	"avoidcert/structure"
 	"avoidcert/transfer"
 )
 
@@ -115,8 +116,20 @@ func bracketFromEngine(t testing.TB, s pattern.Set, cells []int, k, d int, upper
 
 // assemble builds a certificate from brackets: lambda.lo from the best
 // lower bracket, lambda.hi from the brackets marked upper, the all-n bounds
-// from the first whole-system step-1 bracket, 12 significant digits.
+// from the first whole-system step-1 bracket, 12 significant digits, and
+// the structure section from the structure pass (format version 2).
 func assemble(t testing.TB, given []string, brackets []engineBracket) *certify.Certificate {
+	t.Helper()
+	s, err := pattern.ParseSet(given)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return assembleWith(t, given, brackets, structureOf(t, s))
+}
+
+// assembleWith is assemble with the given structure section (nil: a
+// format version 1 certificate).
+func assembleWith(t testing.TB, given []string, brackets []engineBracket, st *certify.Structure) *certify.Certificate {
 	t.Helper()
 	s, err := pattern.ParseSet(given)
 	if err != nil {
@@ -149,10 +162,60 @@ func assemble(t testing.TB, given []string, brackets []engineBracket) *certify.C
 	if lamLo.Sign() > 0 {
 		c.Statement.Radius.Hi = new(big.Rat).Inv(lamLo)
 	}
+	c.Structure = st
 	if err := certify.Derive(c); err != nil {
 		t.Fatal(err)
 	}
 	return c
+}
+
+// analyze runs the structure pass, with witnesses where a certificate
+// keeps them (m <= 4).
+func analyze(t testing.TB, s pattern.Set) *structure.Report {
+	t.Helper()
+	rep, err := structure.Analyze(context.Background(), s, structure.Options{Witnesses: s.Window() <= 5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rep
+}
+
+func structureOf(t testing.TB, s pattern.Set) *certify.Structure {
+	t.Helper()
+	return structureFromReport(analyze(t, s))
+}
+
+// structureFromReport fills a structure section from a report, as the
+// command line does: witnesses for m <= 4 (they fit a file), the
+// recomputation for m = 5; the joint cycle where the class or the proof of
+// lambda = 0 needs it.
+func structureFromReport(rep *structure.Report) *certify.Structure {
+	st := &certify.Structure{Class: certify.StructureClass(rep.Class), Lambda: certify.LambdaStatus(rep.Lambda)}
+	switch rep.Class {
+	case structure.Primitive:
+		st.Exponent = rep.Exponent
+		st.Mode = certify.ModeRecompute
+		if rep.Witnesses != nil && rep.M <= 4 {
+			st.Mode = certify.ModeWitnesses
+			rep.Witnesses.Each(func(_ int, w pattern.Perm) bool {
+				st.Witnesses = append(st.Witnesses, w)
+				return true
+			})
+		}
+	case structure.Periodic:
+		st.Period = rep.Period
+	case structure.Finite:
+		st.N1 = rep.N1
+	case structure.Reducible:
+		st.Unreached = &certify.CellPair{From: rep.Unreached.From, To: rep.Unreached.To}
+	}
+	if rep.Class == structure.Periodic || (rep.Lambda == structure.LambdaZero && !rep.Digraph.SimpleCycles()) {
+		st.CycleStart, st.CycleLength = rep.CycleStart, rep.CycleLength
+	}
+	if rep.Lambda == structure.LambdaPositive {
+		st.CyclicAvoider = rep.CyclicAvoider
+	}
+	return st
 }
 
 // root returns a rational r with r^d <= x (up false) or r^d >= x (up

@@ -41,6 +41,22 @@ type wireStatement struct {
 	Lambda    wireRange `json:"lambda"`
 	Radius    wireRange `json:"radius"`
 	AllN      wireAllN  `json:"all_n"`
+	// version 2 only
+	Structure *wireStructureClaim `json:"structure,omitempty"`
+}
+
+type wireStructureClaim struct {
+	Class        string        `json:"class"`
+	Exponent     int           `json:"exponent,omitempty"`
+	Period       int           `json:"period,omitempty"`
+	FiniteFrom   int           `json:"finite_from,omitempty"`
+	Unreached    *wireCellPair `json:"unreached,omitempty"`
+	LambdaStatus string        `json:"lambda_status"`
+}
+
+type wireCellPair struct {
+	From string `json:"from"`
+	To   string `json:"to"`
 }
 
 type wireRange struct {
@@ -63,6 +79,22 @@ type wireEvidence struct {
 	MethodVersion int           `json:"method_version"`
 	CellLength    int           `json:"cell_length"`
 	Brackets      []wireBracket `json:"brackets"`
+	// version 2 only
+	Structure *wireStructureEvidence `json:"structure,omitempty"`
+}
+
+type wireStructureEvidence struct {
+	Method        string          `json:"method"`
+	MethodVersion int             `json:"method_version"`
+	Mode          string          `json:"mode,omitempty"`
+	JointCycle    *wireJointCycle `json:"joint_cycle,omitempty"`
+	CyclicAvoider string          `json:"cyclic_avoider,omitempty"`
+	Witnesses     []string        `json:"witnesses,omitempty"`
+}
+
+type wireJointCycle struct {
+	Start  int `json:"start"`
+	Length int `json:"length"`
 }
 
 type wireBracket struct {
@@ -132,7 +164,7 @@ func Read(r io.Reader) (*Certificate, error) {
 		return nil, fmt.Errorf("certificate: read: %v", err)
 	}
 	if len(data) > MaxFileSize {
-		return nil, fmt.Errorf("certificate: file is larger than the limit of %d bytes; a version %d certificate is far smaller, so this is not one", MaxFileSize, Version)
+		return nil, fmt.Errorf("certificate: file is larger than the limit of %d bytes; no certificate this checker writes is that large, so this is not one", MaxFileSize)
 	}
 	var head struct {
 		Content struct {
@@ -156,8 +188,8 @@ func Read(r io.Reader) (*Certificate, error) {
 	switch v := string(head.Content.Version); {
 	case v == "":
 		return nil, errors.New("certificate: content.version is missing")
-	case v != fmt.Sprint(Version):
-		return nil, fmt.Errorf("certificate: format version %s; this checker reads version %d only", abbreviate(v), Version)
+	case v != fmt.Sprint(Version1) && v != fmt.Sprint(Version):
+		return nil, fmt.Errorf("certificate: format version %s; this checker reads versions %d and %d only", abbreviate(v), Version1, Version)
 	}
 	var f wireFile
 	dec := json.NewDecoder(bytes.NewReader(data))
@@ -249,9 +281,13 @@ func toWire(c *Certificate) (wireContent, error) {
 		return wireContent{}, errors.New("nil certificate")
 	}
 	s := c.Statement
+	version := Version1
+	if c.Structure != nil {
+		version = Version
+	}
 	w := wireContent{
 		Format:  Format,
-		Version: Version,
+		Version: version,
 		Tool:    c.Tool,
 		Statement: wireStatement{
 			Given:     s.Given,
@@ -303,7 +339,112 @@ func toWire(c *Certificate) (wireContent, error) {
 			Upper: b.Upper, Digest: hex.EncodeToString(b.IterateDigest[:]),
 		})
 	}
+	if st := c.Structure; st != nil {
+		w.Statement.Structure, w.Evidence.Structure = structureToWire(st)
+	}
 	return w, err
+}
+
+// structureToWire formats a structure section; validation is
+// structureFromWire's business.
+func structureToWire(st *Structure) (*wireStructureClaim, *wireStructureEvidence) {
+	claim := &wireStructureClaim{Class: string(st.Class), Exponent: st.Exponent, Period: st.Period,
+		FiniteFrom: st.N1, LambdaStatus: string(st.Lambda)}
+	if st.Unreached != nil {
+		claim.Unreached = &wireCellPair{From: formatPerm(st.Unreached.From), To: formatPerm(st.Unreached.To)}
+	}
+	ev := &wireStructureEvidence{Method: StructureMethod, MethodVersion: StructureMethodVersion, Mode: string(st.Mode)}
+	if st.CycleStart != 0 || st.CycleLength != 0 {
+		ev.JointCycle = &wireJointCycle{Start: st.CycleStart, Length: st.CycleLength}
+	}
+	if st.CyclicAvoider != nil {
+		ev.CyclicAvoider = formatPerm(st.CyclicAvoider)
+	}
+	if st.Witnesses != nil {
+		ev.Witnesses = make([]string, len(st.Witnesses))
+		for i, p := range st.Witnesses {
+			ev.Witnesses[i] = formatPerm(p)
+		}
+	}
+	return claim, ev
+}
+
+// structureFromWire parses and validates a structure section: fixed
+// strings, known names, ranges, permutations in their one spelling.
+func structureFromWire(claim *wireStructureClaim, ev *wireStructureEvidence) (*Structure, error) {
+	fail := func(field, format string, args ...any) (*Structure, error) {
+		return nil, fmt.Errorf("%s: %s", field, fmt.Sprintf(format, args...))
+	}
+	st := &Structure{Class: StructureClass(claim.Class), Lambda: LambdaStatus(claim.LambdaStatus), Mode: EvidenceMode(ev.Mode),
+		Exponent: claim.Exponent, Period: claim.Period, N1: claim.FiniteFrom}
+	switch {
+	case ev.Method != StructureMethod:
+		return fail("evidence.structure.method", "%q is not %q", abbreviate(ev.Method), StructureMethod)
+	case ev.MethodVersion != StructureMethodVersion:
+		return fail("evidence.structure.method_version", "%d is not %d", ev.MethodVersion, StructureMethodVersion)
+	}
+	switch st.Class {
+	case ClassPrimitive, ClassPeriodic, ClassReducible, ClassFinite, ClassSubexponential, ClassUndecided:
+	default:
+		return fail("statement.structure.class", "%q is not one of primitive, periodic, reducible, finite, subexponential, undecided", abbreviate(claim.Class))
+	}
+	switch st.Lambda {
+	case LambdaPositive, LambdaZero, LambdaUndecided:
+	default:
+		return fail("statement.structure.lambda_status", "%q is not one of positive, zero, undecided", abbreviate(claim.LambdaStatus))
+	}
+	switch st.Mode {
+	case "", ModeWitnesses, ModeRecompute:
+	default:
+		return fail("evidence.structure.mode", "%q is not witnesses or recompute", abbreviate(ev.Mode))
+	}
+	const most = MaxJointSteps + pattern.MaxLength
+	for _, n := range []struct {
+		field string
+		v     int
+	}{{"statement.structure.exponent", st.Exponent}, {"statement.structure.period", st.Period}, {"statement.structure.finite_from", st.N1}} {
+		if n.v < 0 || n.v > most {
+			return fail(n.field, "%d out of range 0..%d", n.v, most)
+		}
+	}
+	if u := claim.Unreached; u != nil {
+		from, err := parsePerm(u.From)
+		if err != nil {
+			return fail("statement.structure.unreached.from", "%v", err)
+		}
+		to, err := parsePerm(u.To)
+		if err != nil {
+			return fail("statement.structure.unreached.to", "%v", err)
+		}
+		st.Unreached = &CellPair{From: from, To: to}
+	}
+	if jc := ev.JointCycle; jc != nil {
+		if jc.Start < 0 || jc.Start > most || jc.Length < 1 || jc.Length > most {
+			return fail("evidence.structure.joint_cycle", "start %d and length %d out of range (0..%d and 1..%d)", jc.Start, jc.Length, most, most)
+		}
+		st.CycleStart, st.CycleLength = jc.Start, jc.Length
+	}
+	if ev.CyclicAvoider != "" {
+		p, err := parsePerm(ev.CyclicAvoider)
+		if err != nil {
+			return fail("evidence.structure.cyclic_avoider", "%v", err)
+		}
+		st.CyclicAvoider = p
+	}
+	if n := len(ev.Witnesses); n > MaxWitnesses {
+		return fail("evidence.structure.witnesses", "%d witnesses, over the limit of %d", n, MaxWitnesses)
+	}
+	if len(ev.Witnesses) > 0 {
+		st.Witnesses = make([]pattern.Perm, len(ev.Witnesses))
+	}
+	for i, s := range ev.Witnesses {
+		p, err := parsePerm(s)
+		if err != nil {
+			return fail(fmt.Sprintf("evidence.structure.witnesses[%d]", i), "%v", err)
+		}
+		st.Witnesses[i] = p
+	}
+	return st, nil
 }
 
 // fromWire parses and validates a content object: fixed strings, limits,
@@ -315,10 +456,14 @@ func fromWire(w wireContent) (*Certificate, error) {
 	switch {
 	case w.Format != Format:
 		return fail("format", "%q is not %q", abbreviate(w.Format), Format)
-	case w.Version != Version:
-		return fail("version", "%d; this checker reads version %d only", w.Version, Version)
+	case w.Version != Version1 && w.Version != Version:
+		return fail("version", "%d; this checker reads versions %d and %d only", w.Version, Version1, Version)
+	case w.Version == Version1 && (w.Statement.Structure != nil || w.Evidence.Structure != nil):
+		return fail("version", "%d has no structure section; a certificate with one is version %d", Version1, Version)
+	case w.Version == Version && (w.Statement.Structure == nil || w.Evidence.Structure == nil):
+		return fail("version", "%d needs statement.structure and evidence.structure; a certificate without them is version %d", Version, Version1)
 	case w.Statement.Quantity != Quantity:
-		return fail("statement.quantity", "%q is not %q, the only quantity of version %d", abbreviate(w.Statement.Quantity), Quantity, Version)
+		return fail("statement.quantity", "%q is not %q, the only quantity of versions %d and %d", abbreviate(w.Statement.Quantity), Quantity, Version1, Version)
 	case w.Evidence.Method != Method:
 		return fail("evidence.method", "%q is not %q", abbreviate(w.Evidence.Method), Method)
 	case w.Evidence.MethodVersion != MethodVersion:
@@ -408,6 +553,11 @@ func fromWire(w wireContent) (*Certificate, error) {
 			return fail(name+".iterate_sha256", "not 64 lowercase hexadecimal digits")
 		}
 		c.Evidence.Brackets = append(c.Evidence.Brackets, nb)
+	}
+	if w.Version == Version {
+		if c.Structure, err = structureFromWire(w.Statement.Structure, w.Evidence.Structure); err != nil {
+			return nil, err
+		}
 	}
 	return c, nil
 }

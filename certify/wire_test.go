@@ -17,6 +17,7 @@ import (
 	"testing"
 
 	"avoidcert/certify"
+	"avoidcert/internal/brute"
 	"avoidcert/pattern"
 )
 
@@ -143,7 +144,8 @@ func TestReadRefusesDamagedFiles(t *testing.T) {
 		{"cut before the last brace", good[:len(good)-2], "truncated"},
 		{"other JSON", []byte(`{"content": {"format": "something else"}}`), "not an avoidcert certificate"},
 		{"not JSON", []byte("hello\n"), "truncated"},
-		{"newer version", redigest(bytes.Replace(good, []byte(`"version": 1,`), []byte(`"version": 2,`), 1)), "format version 2"},
+		{"newer version", redigest(bytes.Replace(good, []byte(`"version": 2,`), []byte(`"version": 3,`), 1)), "format version 3"},
+		{"version 1 with a structure section", redigest(bytes.Replace(good, []byte(`"version": 2,`), []byte(`"version": 1,`), 1)), "has no structure section"},
 		{"CRLF line endings", bytes.ReplaceAll(good, []byte("\n"), []byte("\r\n")), "CRLF"},
 		{"extra whitespace", bytes.Replace(good, []byte(`"k": `), []byte(`"k":  `), 1), "canonical form"},
 		{"escaped character", redigest(bytes.Replace(good, []byte(`"patterns": [
@@ -198,7 +200,8 @@ func tamperCert(t testing.TB) *certify.Certificate {
 
 // freeKeys are the members a producer may choose (within the inequalities);
 // a changed value there may still be a true, proved certificate.
-var freeKeys = map[string]bool{"tool": true, "lo": true, "hi": true, "mu_lo": true, "mu_hi": true}
+var freeKeys = map[string]bool{"tool": true, "lo": true, "hi": true, "mu_lo": true, "mu_hi": true,
+	"class": true, "lambda_status": true, "mode": true, "cyclic_avoider": true}
 
 var memberLine = regexp.MustCompile(`^(\s*)"([a-z_0-9]+)": (.*?)(,?)$`)
 
@@ -279,8 +282,8 @@ func otherChar(rng *rand.Rand, c byte) byte {
 // times. Left as they are, every tampered file is refused. With the
 // content digest recomputed, a tamper of a derived field or of the
 // evidence is refused, and a tamper of a free bound is refused unless what
-// it states is still true (checked against the published lambda(123) and
-// the counts of OEIS A049774).
+// it states is still true (checked against the published lambda(123), the
+// counts of OEIS A049774 and the structure of {123}).
 func TestRandomTampersRejected(t *testing.T) {
 	good, err := certify.Marshal(tamperCert(t))
 	if err != nil {
@@ -320,7 +323,7 @@ func TestRandomTampersRejected(t *testing.T) {
 		if !freeKeys[key] {
 			t.Fatalf("tamper of %s accepted with a recomputed digest:\n%s", key, resealed)
 		}
-		if why := unsound(t, c, lambda123, "A049774"); why != "" {
+		if why := unsound(t, c, lambda123, "A049774", 4); why != "" {
 			t.Fatalf("tamper of %s accepted although %s:\n%s", key, why, resealed)
 		}
 		acceptedFree++
@@ -332,9 +335,14 @@ func TestRandomTampersRejected(t *testing.T) {
 }
 
 // unsound returns what is false in an accepted certificate, or "" when its
-// claims agree with the published growth rate and the counts of an OEIS
-// table.
-func unsound(t *testing.T, c *certify.Certificate, lambda float64, oeis string) string {
+// claims agree with the published growth rate, the counts of an OEIS table
+// and the structure of a primitive set with the given exponent (from the
+// structure package's golden file), its witnesses and cyclic avoider
+// checked by brute force.
+func unsound(t *testing.T, c *certify.Certificate, lambda float64, oeis string, exponent int) string {
+	if why := unsoundStructure(c, exponent); why != "" {
+		return why
+	}
 	st := c.Statement
 	if !contains(st.Lambda, lambda) {
 		return fmt.Sprintf("lambda [%s, %s] misses the published value", st.Lambda.LoDecimal, st.Lambda.HiDecimal)
@@ -370,6 +378,58 @@ func unsound(t *testing.T, c *certify.Certificate, lambda float64, oeis string) 
 		if st.AllN.MuHi != nil {
 			hi.Mul(hi, st.AllN.MuHi)
 		}
+	}
+	return ""
+}
+
+func unsoundStructure(c *certify.Certificate, exponent int) string {
+	st := c.Structure
+	if st == nil {
+		return ""
+	}
+	set, err := pattern.ParseSet(c.Statement.Given)
+	if err != nil {
+		return err.Error()
+	}
+	var pats [][]int
+	for _, p := range set.Patterns() {
+		pats = append(pats, p)
+	}
+	m := set.Window() - 1
+	switch st.Class {
+	case certify.ClassUndecided:
+	case certify.ClassPrimitive:
+		if st.Exponent != exponent {
+			return fmt.Sprintf("the exponent is %d, not %d", exponent, st.Exponent)
+		}
+		joints := map[string]bool{}
+		for _, w := range st.Witnesses {
+			if len(w) != m+exponent || !brute.Avoids(w, pats) {
+				return fmt.Sprintf("witness %v does not avoid or has the wrong length", w)
+			}
+			joints[pattern.Standardize(append(append([]int(nil), w[:m]...), w[len(w)-m:]...)).String()] = true
+		}
+		if st.Mode == certify.ModeWitnesses && len(joints) != pattern.Factorial(2*m) {
+			return fmt.Sprintf("the witnesses have %d joint patterns, not all %d", len(joints), pattern.Factorial(2*m))
+		}
+	default:
+		return fmt.Sprintf("class %s, but the set is primitive", st.Class)
+	}
+	switch st.Lambda {
+	case certify.LambdaUndecided:
+	case certify.LambdaPositive:
+		p := st.CyclicAvoider
+		for i := range p {
+			window := make([]int, m+1)
+			for j := range window {
+				window[j] = p[(i+j)%len(p)]
+			}
+			if len(p) < m+1 || !brute.Avoids(window, pats) {
+				return fmt.Sprintf("%v is not a cyclic avoider", p)
+			}
+		}
+	default:
+		return "lambda_status zero, but lambda > 0"
 	}
 	return ""
 }
