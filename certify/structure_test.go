@@ -3,6 +3,7 @@ package certify_test
 import (
 	"bufio"
 	"bytes"
+	"errors"
 	"math/big"
 	"math/rand/v2"
 	"os"
@@ -342,6 +343,13 @@ func TestRecomputeMode(t *testing.T) {
 		c := assemble(t, s.Given(), []engineBracket{upperBracket(t, s)})
 		st := c.Structure
 		st.Mode, st.Witnesses = certify.ModeRecompute, nil
+		if set == "123456" { // refused before the work under small limits
+			for _, opts := range []certify.CheckOptions{{MaxWork: 1e6}, {MaxMemory: 1 << 20}} {
+				if err := certify.Check(c, opts); !errors.Is(err, certify.ErrLimit) {
+					t.Fatalf("%s under %+v: %v, want a limit refusal", set, opts, err)
+				}
+			}
+		}
 		if err := certify.Check(c, certify.CheckOptions{Expect: s}); err != nil {
 			t.Fatalf("%s: %v", set, err)
 		}
