@@ -140,15 +140,29 @@ func (e *Engine) Start() *Iterate {
 	return g
 }
 
+// IterateBytes returns the bytes of the coefficients of G_k.
+func (e *Engine) IterateBytes(k int) int64 {
+	m := e.sys.M
+	return 8 * int64(e.cells) * int64(NewIndexer(m, k).Count(k)) * int64(limbsFor(m, k))
+}
+
 // Footprint estimates the bytes Next needs to produce G_{k+1} from G_k:
 // the input, its prefix sums and the output. Advance needs two thirds of
 // it or less, since the prefix sums overwrite the input.
 func (e *Engine) Footprint(k int) int64 {
-	m := e.sys.M
-	ix := NewIndexer(m, k+1)
-	in := int64(e.cells) * int64(ix.Count(k)) * int64(limbsFor(m, k))
-	out := int64(e.cells) * int64(ix.Count(k+1)) * int64(limbsFor(m, k+1))
-	return 8 * (2*in + out)
+	return 2*e.IterateBytes(k) + e.IterateBytes(k+1)
+}
+
+// CountsFootprint estimates the peak bytes of Counts(ctx, s, n): the last
+// two iterates, with the spare capacity that recycled storage keeps.
+func CountsFootprint(s pattern.Set, n int) int64 {
+	sys := FromSet(s)
+	if n <= sys.M {
+		return 0
+	}
+	e := New(sys)
+	k := n - sys.M
+	return (e.IterateBytes(k-1) + e.IterateBytes(k)) * (headroomDiv + 1) / headroomDiv
 }
 
 // chunk is the number of output coefficients one task computes.

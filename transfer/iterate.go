@@ -23,17 +23,20 @@ func newIterate(k, m, cells, perCell, limbs int) *Iterate {
 		words: make([]big.Word, cells*perCell*limbs)}
 }
 
+// headroomDiv sets the spare capacity of new storage, 1/headroomDiv of its
+// size: the size grows by a factor of about (k+m+1)/(k+1) per step, and by
+// one word per coefficient now and then, so the spare room lets storage be
+// recycled for a step or two while costing little memory at the peak.
+const headroomDiv = 8
+
 // reuseIterate returns an iterate of the given shape, in the storage of old
 // when it is large enough. The words are not cleared: step writes every
 // coefficient.
 func reuseIterate(old *Iterate, k, m, cells, perCell, limbs int) *Iterate {
 	n := cells * perCell * limbs
 	if old == nil || cap(old.words) < n {
-		// Room for a few more steps: the size grows by a factor of about
-		// (k+m+1)/(k+1) per step, and by one word per coefficient now
-		// and then.
 		return &Iterate{K: k, M: m, Cells: cells, PerCell: perCell, Limbs: limbs,
-			words: make([]big.Word, n, n+n/2)}
+			words: make([]big.Word, n, n+n/headroomDiv)}
 	}
 	return &Iterate{K: k, M: m, Cells: cells, PerCell: perCell, Limbs: limbs, words: old.words[:n]}
 }

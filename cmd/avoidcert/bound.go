@@ -157,6 +157,7 @@ func runBound(ctx context.Context, e *env, args []string) int {
 		path = "avoidcert-" + strings.ReplaceAll(set.String(), ",", "_") + ".json"
 	}
 
+	limitMemory(int64(b.maxMemory))
 	ctx, cancel := b.context(ctx)
 	defer cancel()
 	p, err := planFor(ctx, set)

@@ -63,6 +63,7 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
+	limitMemory(int64(b.maxMemory))
 	ctx, cancel := b.context(ctx)
 	defer cancel()
 	p, err := planFor(ctx, set)

@@ -61,13 +61,14 @@ func runCount(ctx context.Context, e *env, args []string) int {
 	case *format != "text" && *format != "csv" && *format != "json":
 		return failure(e, usagef("count: --format %q is not one of text, csv, json", *format))
 	}
-	if need := countFootprint(set, *to); need > int64(maxMem) {
+	if need := transfer.CountsFootprint(set, *to); need > int64(maxMem) {
 		return failure(e, usagef("count: counting to n = %d needs about %s, over --max-memory %s; lower --to or raise --max-memory",
 			*to, humanBytes(need), humanBytes(int64(maxMem))))
 	}
 	if *verbose {
 		reportDropped(e.stderr, set)
 	}
+	limitMemory(int64(maxMem))
 	var report transfer.Progress
 	if *progress {
 		report = func(k, last int) { fmt.Fprintf(e.stderr, "iterate %d of %d\n", k, last) }
@@ -101,17 +102,6 @@ type countRow struct {
 	n     int
 	count *big.Int
 	prob  *big.Rat
-}
-
-// countFootprint estimates the memory of counting to n: two iterates of
-// the last step (Counts recycles storage).
-func countFootprint(s pattern.Set, n int) int64 {
-	m := s.Window() - 1
-	if n <= m {
-		return 0
-	}
-	e := transfer.New(transfer.FromSet(s))
-	return e.Footprint(n-m-1) * 2 / 3
 }
 
 func writeCountsText(e *env, s pattern.Set, rows []countRow) {

@@ -10,6 +10,7 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"runtime/debug"
 	"sort"
 )
 
@@ -129,6 +130,13 @@ func (u usageError) Error() string { return u.msg }
 
 func usagef(format string, args ...any) error {
 	return usageError{msg: fmt.Sprintf(format, args...)}
+}
+
+// limitMemory tells the garbage collector the memory budget, so that it
+// reclaims dropped iterates before the heap grows past the budget rather
+// than at twice the live size.
+func limitMemory(bytes int64) {
+	debug.SetMemoryLimit(bytes)
 }
 
 // writeJSON prints v as one line of JSON, without HTML escaping ("<" stays
