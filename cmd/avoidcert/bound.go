@@ -104,7 +104,9 @@ type plan struct {
 }
 
 func planFor(ctx context.Context, set pattern.Set) (*plan, error) {
-	rep, err := structure.Analyze(ctx, set, structure.Options{})
+	// Witnesses go into certificates up to m = 4 (40320 of them); for
+	// m = 5 the checker recomputes the joint-pattern sets instead.
+	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: set.Window()-1 <= maxWitnessM})
 	if err != nil {
 		return nil, err
 	}
@@ -314,12 +316,48 @@ func writeBoundJSON(e *env, set pattern.Set, p *plan, res *bounds.Result, path s
 		string(res.Stop), res.Elapsed.Seconds(), path})
 }
 
+// maxWitnessM is the largest cell length whose certificates list one
+// witness per joint pattern.
+const maxWitnessM = 4
+
+// structureEvidence states the structure pass's classification in the
+// certificate's terms (docs/certificate.md, "Filling it from the
+// structure pass").
+func structureEvidence(rep *structure.Report) *certify.Structure {
+	st := &certify.Structure{Class: certify.StructureClass(rep.Class), Lambda: certify.LambdaStatus(rep.Lambda)}
+	switch rep.Class {
+	case structure.Primitive:
+		st.Exponent = rep.Exponent
+		st.Mode = certify.ModeRecompute
+		if rep.Witnesses != nil && rep.M <= maxWitnessM {
+			st.Mode = certify.ModeWitnesses
+			rep.Witnesses.Each(func(_ int, w pattern.Perm) bool {
+				st.Witnesses = append(st.Witnesses, w)
+				return true
+			})
+		}
+	case structure.Periodic:
+		st.Period = rep.Period
+	case structure.Finite:
+		st.N1 = rep.N1
+	case structure.Reducible:
+		st.Unreached = &certify.CellPair{From: rep.Unreached.From, To: rep.Unreached.To}
+	}
+	if rep.Class == structure.Periodic || (rep.Lambda == structure.LambdaZero && !rep.Digraph.SimpleCycles()) {
+		st.CycleStart, st.CycleLength = rep.CycleStart, rep.CycleLength
+	}
+	if rep.Lambda == structure.LambdaPositive {
+		st.CyclicAvoider = rep.CyclicAvoider
+	}
+	return st
+}
+
 // certificateOf turns a result into a certificate. Every bracket the
 // enclosure rests on carries the upper bound; the explicit all-n bounds
 // need a whole-system step-1 bracket, taken separately when the run did
 // not have one (periodic or reducible sets).
 func certificateOf(ctx context.Context, set pattern.Set, p *plan, res *bounds.Result, digits int) (*certify.Certificate, error) {
-	c := &certify.Certificate{Tool: "avoidcert " + version}
+	c := &certify.Certificate{Tool: "avoidcert " + version, Structure: structureEvidence(p.rep)}
 	st := &c.Statement
 	st.Given = set.Given()
 	st.Lambda = certify.Range{Lo: res.Lambda.Lo, Hi: res.Lambda.Hi, Digits: digits}
