@@ -5,10 +5,9 @@ import (
 	"math"
 	"math/big"
 	"math/bits"
-	"runtime"
-	"sync"
-	"sync/atomic"
 
+	"avoidcert/internal/par"
+	"avoidcert/internal/words"
 	"avoidcert/transfer"
 )
 
@@ -99,7 +98,7 @@ func extremes(ctx context.Context, p ratioProblem) (ratioExtremes, error) {
 	perCell := ix.Count(deg)
 	perCellTasks := (perCell + chunk - 1) / chunk
 	tallies := make([]tally, len(p.cells)*perCellTasks)
-	err := parallel(ctx, len(tallies), func() func(int) {
+	err := par.Run(ctx, len(tallies), func() func(int) {
 		s := newScratch(p.m, denLimbs, p.numLimbs, centre)
 		return func(task int) {
 			cell := p.cells[task/perCellTasks]
@@ -208,7 +207,7 @@ func elevate(ctx context.Context, ix *transfer.Indexer, p ratioProblem, deg int,
 	perCell := ix.Count(deg)
 	dst := newTable(cells, perCell, srcLimbs+1)
 	perCellTasks := (perCell + chunk - 1) / chunk
-	err := parallel(ctx, len(p.cells)*perCellTasks, func() func(int) {
+	err := par.Run(ctx, len(p.cells)*perCellTasks, func() func(int) {
 		s := newScratch(p.m, srcLimbs, 0, centre{})
 		return func(task int) {
 			cell := p.cells[task/perCellTasks]
@@ -291,9 +290,9 @@ func (s *scratch) screen(n, d []big.Word) approx {
 	}
 	negative := compareWords(s.shifted, s.product) < 0
 	if negative {
-		subWordsInto(s.offset, s.product, s.shifted)
+		words.SubInto(s.offset, s.product, s.shifted)
 	} else {
-		subWordsInto(s.offset, s.shifted, s.product)
+		words.SubInto(s.offset, s.shifted, s.product)
 	}
 	return approxQuo(s.offset, negative, d)
 }
@@ -368,31 +367,6 @@ func (s *scratch) merge(t, u *tally) {
 		}
 	}
 	t.positive += u.positive
-}
-
-// parallel runs tasks 0..n-1 on GOMAXPROCS workers, each with its own
-// function from newWorker (holding its scratch space), and stops handing
-// out tasks once ctx is done.
-func parallel(ctx context.Context, n int, newWorker func() func(int)) error {
-	workers := min(runtime.GOMAXPROCS(0), n)
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			fn := newWorker()
-			for ctx.Err() == nil {
-				t := int(next.Add(1) - 1)
-				if t >= n {
-					return
-				}
-				fn(t)
-			}
-		}()
-	}
-	wg.Wait()
-	return ctx.Err()
 }
 
 // log2Rat returns an approximation of log2(r) for r > 0.

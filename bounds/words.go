@@ -40,16 +40,6 @@ func compareWords(x, y []big.Word) int {
 	return 0
 }
 
-// subWordsInto writes x - y into z (all of equal length, x >= y).
-func subWordsInto(z, x, y []big.Word) {
-	var borrow uint
-	for i := range z {
-		var d uint
-		d, borrow = bits.Sub(uint(x[i]), uint(y[i]), borrow)
-		z[i] = big.Word(d)
-	}
-}
-
 // isZero reports whether all words are zero.
 func isZero(w []big.Word) bool {
 	for _, x := range w {

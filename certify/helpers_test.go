@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"avoidcert/certify"
+	"avoidcert/certify/produce"
 	"avoidcert/pattern"
 	"avoidcert/structure"
 	"avoidcert/transfer"
@@ -182,40 +183,7 @@ func analyze(t testing.TB, s pattern.Set) *structure.Report {
 
 func structureOf(t testing.TB, s pattern.Set) *certify.Structure {
 	t.Helper()
-	return structureFromReport(analyze(t, s))
-}
-
-// structureFromReport fills a structure section from a report, as the
-// command line does: witnesses for m <= 4 (they fit a file), the
-// recomputation for m = 5; the joint cycle where the class or the proof of
-// lambda = 0 needs it.
-func structureFromReport(rep *structure.Report) *certify.Structure {
-	st := &certify.Structure{Class: certify.StructureClass(rep.Class), Lambda: certify.LambdaStatus(rep.Lambda)}
-	switch rep.Class {
-	case structure.Primitive:
-		st.Exponent = rep.Exponent
-		st.Mode = certify.ModeRecompute
-		if rep.Witnesses != nil && rep.M <= 4 {
-			st.Mode = certify.ModeWitnesses
-			rep.Witnesses.Each(func(_ int, w pattern.Perm) bool {
-				st.Witnesses = append(st.Witnesses, w)
-				return true
-			})
-		}
-	case structure.Periodic:
-		st.Period = rep.Period
-	case structure.Finite:
-		st.N1 = rep.N1
-	case structure.Reducible:
-		st.Unreached = &certify.CellPair{From: rep.Unreached.From, To: rep.Unreached.To}
-	}
-	if rep.Class == structure.Periodic || (rep.Lambda == structure.LambdaZero && !rep.Digraph.SimpleCycles()) {
-		st.CycleStart, st.CycleLength = rep.CycleStart, rep.CycleLength
-	}
-	if rep.Lambda == structure.LambdaPositive {
-		st.CyclicAvoider = rep.CyclicAvoider
-	}
-	return st
+	return produce.Structure(analyze(t, s))
 }
 
 // root returns a rational r with r^d <= x (up false) or r^d >= x (up

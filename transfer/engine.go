@@ -4,10 +4,9 @@ import (
 	"context"
 	"fmt"
 	"math/big"
-	"runtime"
-	"sync"
-	"sync/atomic"
 
+	"avoidcert/internal/par"
+	"avoidcert/internal/words"
 	"avoidcert/pattern"
 )
 
@@ -209,15 +208,19 @@ func (e *Engine) step(ctx context.Context, g, prefix, recycle *Iterate) (*Iterat
 		clear(out.words)
 		return out, nil
 	}
-	err := parallel(ctx, e.cells, func(tau int) { e.prefixSums(ix, g, prefix, tau) })
+	err := par.Run(ctx, e.cells, func() func(int) {
+		return func(tau int) { e.prefixSums(ix, g, prefix, tau) }
+	})
 	if err != nil {
 		return nil, err
 	}
 	perCellTasks := (out.PerCell + chunk - 1) / chunk
-	err = parallel(ctx, e.cells*perCellTasks, func(task int) {
-		sigma, part := task/perCellTasks, task%perCellTasks
-		lo := part * chunk
-		e.fill(ix, prefix, out, sigma, lo, min(lo+chunk, out.PerCell))
+	err = par.Run(ctx, e.cells*perCellTasks, func() func(int) {
+		return func(task int) {
+			sigma, part := task/perCellTasks, task%perCellTasks
+			lo := part * chunk
+			e.fill(ix, prefix, out, sigma, lo, min(lo+chunk, out.PerCell))
+		}
 	})
 	if err != nil {
 		return nil, err
@@ -244,7 +247,7 @@ func (e *Engine) prefixSums(ix *Indexer, g, prefix *Iterate, tau int) {
 			for i := 0; i < u; i++ {
 				s += a[i]
 			}
-			addWords(dst, prefix.Words(tau, r-ix.binom[s+u-2][u-1]))
+			words.Add(dst, prefix.Words(tau, r-ix.binom[s+u-2][u-1]))
 		}
 		ix.Next(a)
 	}
@@ -287,16 +290,16 @@ func (e *Engine) fill(ix *Indexer, prefix, out *Iterate, sigma, lo, hi int) {
 					copy(dst, x)
 					clear(dst[len(x):])
 				} else {
-					addWords(dst, x)
+					words.Add(dst, x)
 				}
 			} else {
 				u := mv.u
 				before := end - binom[sU+u-1][u] + binom[sU-aj+u-1][u]
 				y := prefix.Words(mv.tau, before)
 				if empty {
-					subInto(dst, x, y)
+					words.SubInto(dst, x, y)
 				} else {
-					addSubWords(dst, x, y)
+					words.AddSub(dst, x, y)
 				}
 			}
 			empty = false
@@ -306,29 +309,6 @@ func (e *Engine) fill(ix *Indexer, prefix, out *Iterate, sigma, lo, hi int) {
 		}
 		ix.Next(a[:m+1])
 	}
-}
-
-// parallel runs fn(0..n-1) on GOMAXPROCS goroutines and stops handing out
-// tasks once ctx is done.
-func parallel(ctx context.Context, n int, fn func(int)) error {
-	workers := min(runtime.GOMAXPROCS(0), n)
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for ctx.Err() == nil {
-				t := int(next.Add(1) - 1)
-				if t >= n {
-					return
-				}
-				fn(t)
-			}
-		}()
-	}
-	wg.Wait()
-	return ctx.Err()
 }
 
 // Progress is called after each iterate is produced, with its degree and

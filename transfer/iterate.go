@@ -4,6 +4,8 @@ import (
 	"crypto/sha256"
 	"encoding/binary"
 	"math/big"
+
+	"avoidcert/internal/words"
 )
 
 // Iterate is G_k: for every cell, the integer Bernstein coefficients of
@@ -57,7 +59,7 @@ func (g *Iterate) Int(cell, r int) *big.Int {
 func (g *Iterate) Sum() *big.Int {
 	acc := make([]big.Word, g.Limbs+1)
 	for off := 0; off < len(g.words); off += g.Limbs {
-		addWords(acc, g.words[off:off+g.Limbs])
+		words.Add(acc, g.words[off:off+g.Limbs])
 	}
 	return new(big.Int).SetBits(acc)
 }
@@ -66,7 +68,7 @@ func (g *Iterate) Sum() *big.Int {
 func (g *Iterate) CellSum(cell int) *big.Int {
 	acc := make([]big.Word, g.Limbs+1)
 	for r := range g.PerCell {
-		addWords(acc, g.Words(cell, r))
+		words.Add(acc, g.Words(cell, r))
 	}
 	return new(big.Int).SetBits(acc)
 }

@@ -11,6 +11,7 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
+	"avoidcert/certify/produce"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/structure"
@@ -104,9 +105,8 @@ type plan struct {
 }
 
 func planFor(ctx context.Context, set pattern.Set) (*plan, error) {
-	// Witnesses go into certificates up to m = 4 (40320 of them); for
-	// m = 5 the checker recomputes the joint-pattern sets instead.
-	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: set.Window()-1 <= maxWitnessM})
+	// Certificates list witnesses up to produce.MaxWitnessM.
+	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: set.Window()-1 <= produce.MaxWitnessM})
 	if err != nil {
 		return nil, err
 	}
@@ -171,7 +171,7 @@ func runBound(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	cert, err := certificateOf(ctx, set, p, res, printDigits(opts))
+	cert, err := produce.Certificate(ctx, "avoidcert "+version, p.rep, p.sys, res, printDigits(opts))
 	if err != nil {
 		return failure(e, err)
 	}
@@ -314,78 +314,4 @@ func writeBoundJSON(e *env, set pattern.Set, p *plan, res *bounds.Result, path s
 		Certificate string   `json:"certificate"`
 	}{set.Strings(), string(p.rep.Class), side(res.Lambda), side(res.Radius), k, min(res.Digits, 1000),
 		string(res.Stop), res.Elapsed.Seconds(), path})
-}
-
-// maxWitnessM is the largest cell length whose certificates list one
-// witness per joint pattern.
-const maxWitnessM = 4
-
-// structureEvidence states the structure pass's classification in the
-// certificate's terms (docs/certificate.md, "Filling it from the
-// structure pass").
-func structureEvidence(rep *structure.Report) *certify.Structure {
-	st := &certify.Structure{Class: certify.StructureClass(rep.Class), Lambda: certify.LambdaStatus(rep.Lambda)}
-	switch rep.Class {
-	case structure.Primitive:
-		st.Exponent = rep.Exponent
-		st.Mode = certify.ModeRecompute
-		if rep.Witnesses != nil && rep.M <= maxWitnessM {
-			st.Mode = certify.ModeWitnesses
-			rep.Witnesses.Each(func(_ int, w pattern.Perm) bool {
-				st.Witnesses = append(st.Witnesses, w)
-				return true
-			})
-		}
-	case structure.Periodic:
-		st.Period = rep.Period
-	case structure.Finite:
-		st.N1 = rep.N1
-	case structure.Reducible:
-		st.Unreached = &certify.CellPair{From: rep.Unreached.From, To: rep.Unreached.To}
-	}
-	if rep.Class == structure.Periodic || (rep.Lambda == structure.LambdaZero && !rep.Digraph.SimpleCycles()) {
-		st.CycleStart, st.CycleLength = rep.CycleStart, rep.CycleLength
-	}
-	if rep.Lambda == structure.LambdaPositive {
-		st.CyclicAvoider = rep.CyclicAvoider
-	}
-	return st
-}
-
-// certificateOf turns a result into a certificate. Every bracket the
-// enclosure rests on carries the upper bound; the explicit all-n bounds
-// need a whole-system step-1 bracket, taken separately when the run did
-// not have one (periodic or reducible sets).
-func certificateOf(ctx context.Context, set pattern.Set, p *plan, res *bounds.Result, digits int) (*certify.Certificate, error) {
-	c := &certify.Certificate{Tool: "avoidcert " + version, Structure: structureEvidence(p.rep)}
-	st := &c.Statement
-	st.Given = set.Given()
-	st.Lambda = certify.Range{Lo: res.Lambda.Lo, Hi: res.Lambda.Hi, Digits: digits}
-	st.Radius = certify.Range{Lo: res.Radius.Lo, Hi: res.Radius.Hi, Digits: digits}
-	if st.Radius.Lo == nil {
-		st.Radius.Lo = new(big.Rat) // lambda = 0 exactly: the format has no infinite lower end
-	}
-	for _, br := range res.Brackets {
-		c.Evidence.Brackets = append(c.Evidence.Brackets, certify.Bracket{
-			Cells: br.Cells, Step: br.Step, K: br.K, Lo: br.Lo, Hi: br.Hi, Upper: true, IterateDigest: br.Digest})
-	}
-	explicit := res.Explicit
-	if explicit == nil {
-		k := 0
-		if len(res.Brackets) > 0 {
-			k = res.Brackets[0].K
-		}
-		whole, err := bounds.BracketAt(ctx, p.sys, k, 1, res.Prec)
-		if err != nil {
-			return nil, err
-		}
-		c.Evidence.Brackets = append(c.Evidence.Brackets, certify.Bracket{
-			Cells: whole.Cells, Step: 1, K: whole.K, Lo: whole.Lo, Hi: whole.Hi, IterateDigest: whole.Digest})
-		explicit = &bounds.AllN{N0: whole.N0(), AN0: whole.Sum, MuLo: whole.Lo, MuHi: whole.Hi}
-	}
-	st.AllN = certify.AllN{N0: explicit.N0, AN0: explicit.AN0, MuLo: explicit.MuLo, MuHi: explicit.MuHi}
-	if err := certify.Derive(c); err != nil {
-		return nil, err
-	}
-	return c, nil
 }

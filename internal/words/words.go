@@ -1,0 +1,55 @@
+// Package words is fixed-width arithmetic on little-endian magnitudes
+// ([]big.Word), the storage of the transfer iterates. Callers size the
+// destinations so that no carry leaves them; nothing here allocates.
+package words
+
+import (
+	"math/big"
+	"math/bits"
+)
+
+// Add adds src into dst (len(src) <= len(dst)).
+func Add(dst, src []big.Word) {
+	var c uint
+	i := 0
+	for ; i < len(src); i++ {
+		var s uint
+		s, c = bits.Add(uint(dst[i]), uint(src[i]), c)
+		dst[i] = big.Word(s)
+	}
+	for ; c != 0 && i < len(dst); i++ {
+		var s uint
+		s, c = bits.Add(uint(dst[i]), 0, c)
+		dst[i] = big.Word(s)
+	}
+}
+
+// AddSub adds x - y into dst (len(x) = len(y) <= len(dst), x >= y).
+func AddSub(dst, x, y []big.Word) {
+	var c, b uint
+	i := 0
+	for ; i < len(x); i++ {
+		var s, d uint
+		s, c = bits.Add(uint(dst[i]), uint(x[i]), c)
+		d, b = bits.Sub(s, uint(y[i]), b)
+		dst[i] = big.Word(d)
+	}
+	for ; (c|b) != 0 && i < len(dst); i++ {
+		var s, d uint
+		s, c = bits.Add(uint(dst[i]), 0, c)
+		d, b = bits.Sub(s, 0, b)
+		dst[i] = big.Word(d)
+	}
+}
+
+// SubInto sets dst = x - y, zero-extended (len(x) = len(y) <= len(dst),
+// x >= y). dst may alias x or y.
+func SubInto(dst, x, y []big.Word) {
+	var b uint
+	for i := range x {
+		var d uint
+		d, b = bits.Sub(uint(x[i]), uint(y[i]), b)
+		dst[i] = big.Word(d)
+	}
+	clear(dst[len(x):])
+}
