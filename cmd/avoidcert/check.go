@@ -14,7 +14,7 @@ import (
 func init() {
 	commands["check"] = command{
 		summary: "re-verify a certificate with the independent checker",
-		usage: `Usage: avoidcert check FILE [--expect PATTERNS]
+		usage: `Usage: avoidcert check FILE [--expect PATTERN...]
 
 Re-verifies a certificate written by 'avoidcert bound' with the independent
 checker: it recomputes every iterate with its own plain code (nothing shared
@@ -22,9 +22,9 @@ with the fast engine) and checks every inequality exactly. Prints one line:
 "valid", or "invalid: " and the reason.
 
 Flags:
-  --expect PATTERNS   the set the certificate must be about, as a comma list
-                      (e.g. 123,321); a certificate for any other set is
-                      invalid. Without it, any set is accepted: say which
+  --expect PATTERN... the set the certificate must be about (123,321 or
+                      123 321 after the flag); a certificate for any other
+                      set is invalid. Without it, any set is accepted: say which
                       set you expect whenever you know it.
   --max-work N        refuse certificates whose recomputation is estimated
                       above N coefficient operations (default 1e10, about
@@ -50,12 +50,13 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	if len(pos) != 1 {
+	// "check FILE --expect 123 321": patterns after the file belong to --expect.
+	if len(pos) == 0 || (len(pos) > 1 && *expect == "") {
 		return failure(e, usagef("check: name exactly one certificate file, e.g. 'avoidcert check avoidcert-1342.json'"))
 	}
 	var opts certify.CheckOptions
 	if *expect != "" {
-		set, err := pattern.ParseSet([]string{*expect})
+		set, err := pattern.ParseSet(append([]string{*expect}, pos[1:]...))
 		if err != nil {
 			return failure(e, usagef("check: --expect: %v", err))
 		}
