@@ -31,6 +31,8 @@ Flags:
                       ten minutes: the checker sums each line of the
                       iteration term by term, about k/(m+1) times the
                       engine's work, so that it shares no shortcut with it)
+  --max-memory B      refuse certificates whose recomputation is estimated
+                      to need more memory (default 8G)
 
 Exit codes: 0 valid, 1 invalid, 2 the file cannot be read, or bad usage.
 `,
@@ -46,6 +48,8 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	flags := newFlags("check")
 	expect := flags.String("expect", "", "")
 	maxWork := flags.Float64("max-work", checkWork, "")
+	maxMem := byteSize(8 << 30)
+	flags.Var(&maxMem, "max-memory", "")
 	pos, err := parseArgs(flags, args)
 	if err != nil {
 		return failure(e, err)
@@ -66,6 +70,7 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 		return failure(e, usagef("check: --max-work must be at least 1"))
 	}
 	opts.MaxWork = int64(*maxWork)
+	opts.MaxMemory = int64(maxMem)
 	f, err := os.Open(pos[0])
 	if err != nil {
 		if errors.Is(err, fs.ErrNotExist) {
