@@ -1,6 +1,7 @@
 package pattern_test
 
 import (
+	"avoidcert/internal/settest"
 	"math/rand/v2"
 	"slices"
 	"testing"
@@ -9,20 +10,6 @@ import (
 	"avoidcert/pattern"
 )
 
-func mustSet(t testing.TB, args ...string) pattern.Set {
-	t.Helper()
-	s, err := pattern.ParseSet(args)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return s
-}
-
-// randomSet draws one to six patterns of lengths 2..5.
-func randomSet(rng *rand.Rand) pattern.Set {
-	return pattern.NewSet(brute.RandomPatterns[pattern.Perm](rng, 6, 2, 5)...)
-}
-
 func TestNewSetIsSortedAndIrredundant(t *testing.T) {
 	given := pattern.NewSet(mustPerm(t, "1234"), mustPerm(t, "123"), mustPerm(t, "1234")).Given()
 	if !slices.Equal(given, []string{"1234", "123", "1234"}) {
@@ -30,7 +17,7 @@ func TestNewSetIsSortedAndIrredundant(t *testing.T) {
 	}
 	rng := rand.New(rand.NewPCG(1, 2))
 	for range 300 {
-		s := randomSet(rng)
+		s := settest.Random(rng, 6, 5)
 		ps := s.Patterns()
 		for i := 1; i < len(ps); i++ {
 			if !ps[i-1].Less(ps[i]) {
@@ -81,7 +68,7 @@ func TestAvoidingPermsMatchBruteForce(t *testing.T) {
 	}
 	rng := rand.New(rand.NewPCG(3, 4))
 	for range 40 {
-		check(randomSet(rng), 7)
+		check(settest.Random(rng, 6, 5), 7)
 	}
 }
 
@@ -89,7 +76,7 @@ func TestAvoidingPermsMatchBruteForce(t *testing.T) {
 func TestLift(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 6))
 	for range 40 {
-		s := randomSet(rng)
+		s := settest.Random(rng, 6, 5)
 		w := s.Window()
 		lift := s.Lift()
 		for _, p := range lift.Patterns() {
@@ -104,10 +91,10 @@ func TestLift(t *testing.T) {
 		}
 	}
 	// 12 lifts to every window of length 2 but 21
-	if got := mustSet(t, "12").Lift().String(); got != "12" {
+	if got := settest.Must(t, "12").Lift().String(); got != "12" {
 		t.Errorf("lift of 12 = %s", got)
 	}
-	if got := mustSet(t, "12", "321").Lift().String(); got != "123,132,213,231,312,321" {
+	if got := settest.Must(t, "12", "321").Lift().String(); got != "123,132,213,231,312,321" {
 		t.Errorf("lift of {12, 321} = %s, want every length-3 window (each has an ascent or is 321)", got)
 	}
 }
@@ -175,7 +162,7 @@ func TestCanonical(t *testing.T) {
 	}
 	rng := rand.New(rand.NewPCG(7, 8))
 	for range 200 {
-		sets = append(sets, randomSet(rng))
+		sets = append(sets, settest.Random(rng, 6, 5))
 	}
 	for _, s := range sets {
 		c := s.Canonical()
@@ -210,7 +197,7 @@ func TestCanonical(t *testing.T) {
 }
 
 func TestSetSymmetriesAndInverse(t *testing.T) {
-	s := mustSet(t, "1342,213")
+	s := settest.Must(t, "1342,213")
 	tests := []struct {
 		name string
 		got  pattern.Set
@@ -226,7 +213,7 @@ func TestSetSymmetriesAndInverse(t *testing.T) {
 			t.Errorf("%s of %v = %v, want %s", tc.name, s, tc.got, tc.want)
 		}
 	}
-	if s.Window() != 4 || mustSet(t, "1").Window() != 1 {
+	if s.Window() != 4 || settest.Must(t, "1").Window() != 1 {
 		t.Error("Window must be the length of the longest member")
 	}
 }

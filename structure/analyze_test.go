@@ -1,6 +1,7 @@
 package structure
 
 import (
+	"avoidcert/internal/settest"
 	"context"
 	"flag"
 	"fmt"
@@ -108,7 +109,7 @@ func TestKnownSets(t *testing.T) {
 			source: "windows 123 and 321 only: the two monotone permutations"},
 	}
 	for _, tt := range tests {
-		s := mustSet(t, tt.set)
+		s := settest.Must(t, tt.set)
 		rep := analyze(t, s, Options{})
 		if rep.Class != tt.class || rep.Lambda != tt.lambda || rep.Period != tt.period || rep.N1 != tt.n1 {
 			t.Errorf("%v (%s): class %s lambda %s period %d N1 %d, want %s %s %d %d\n%s",
@@ -123,20 +124,20 @@ func TestKnownSets(t *testing.T) {
 		}
 	}
 	// {21}: the window digraph alone would pass it.
-	rep := analyze(t, mustSet(t, "21"), Options{})
+	rep := analyze(t, settest.Must(t, "21"), Options{})
 	if c := rep.Digraph.Components; len(c) != 1 || c[0].Period != 1 {
 		t.Errorf("21: window digraph %+v, want one aperiodic component", c)
 	}
 	// {123,231,312,321}: strongly connected (period 2), lambda = 0 by the
 	// exact automaton, not by the simple case.
-	rep = analyze(t, mustSet(t, "123,231,312,321"), Options{})
+	rep = analyze(t, settest.Must(t, "123,231,312,321"), Options{})
 	if c := rep.Digraph.Components; len(c) != 1 || len(c[0].Cells) != 2 || c[0].Period != 2 || rep.Digraph.SimpleCycles() {
 		t.Errorf("123,231,312,321: window digraph %+v, want one component of both cells with period 2", c)
 	}
 	// {123,132,213,231}: not primitive because the cell 12 has no way back
 	// (the windows are 312: 21 -> 12 and 321: 21 -> 21), so the only cycle
 	// is the monotone loop and lambda = 0: subexponential.
-	rep = analyze(t, mustSet(t, "123,132,213,231"), Options{})
+	rep = analyze(t, settest.Must(t, "123,132,213,231"), Options{})
 	if c := rep.Digraph.Components; len(c) != 2 || !rep.Digraph.SimpleCycles() {
 		t.Errorf("123,132,213,231: window digraph %+v, want two single-cell components", c)
 	}
@@ -288,7 +289,7 @@ func TestClassesAgreeWithBruteForce(t *testing.T) {
 		sets = append(sets, pattern.NewSet(ps...))
 	}
 	for range 20 {
-		sets = append(sets, randomSet(rng, 4, 4))
+		sets = append(sets, settest.Random(rng, 4, 4))
 	}
 	// Periodic sets with m = 3 (period 3), found by a random search like
 	// the one above.
@@ -297,7 +298,7 @@ func TestClassesAgreeWithBruteForce(t *testing.T) {
 		"1234,1324,2134,2314,2413,2431,3214,4132,4231,4312,4321",
 		"1234,1243,1324,1423,1432,2134,2143,3214,3241,3421,4123,4213,4231,4321",
 	} {
-		sets = append(sets, mustSet(t, arg))
+		sets = append(sets, settest.Must(t, arg))
 	}
 	seen := map[Class]int{}
 	for _, s := range sets {

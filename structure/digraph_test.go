@@ -1,6 +1,7 @@
 package structure
 
 import (
+	"avoidcert/internal/settest"
 	"math/rand/v2"
 	"testing"
 
@@ -65,10 +66,10 @@ func TestWindowDigraphAgainstClosure(t *testing.T) {
 		"1234", "1324", "123,2143", "12345", "1234,4321,2413,3142"}
 	rng := rand.New(rand.NewPCG(3, 5))
 	for range 30 {
-		sets = append(sets, randomSet(rng, 8, 5).String())
+		sets = append(sets, settest.Random(rng, 8, 5).String())
 	}
 	for _, arg := range sets {
-		s := mustSet(t, arg)
+		s := settest.Must(t, arg)
 		sys := transfer.FromSet(s)
 		d := WindowDigraph(sys)
 		reach := reachability(sys)
@@ -131,7 +132,7 @@ func TestWindowDigraphAgainstClosure(t *testing.T) {
 
 // A loop at a cell is kept: for 12 (m = 1) the one cell has the loop 21.
 func TestWindowDigraphKeepsLoops(t *testing.T) {
-	d := WindowDigraph(transfer.FromSet(mustSet(t, "12")))
+	d := WindowDigraph(transfer.FromSet(settest.Must(t, "12")))
 	if d.Windows != 1 || !d.Components[0].Cyclic || d.Components[0].Period != 1 {
 		t.Fatalf("12: %+v", d.Components)
 	}

@@ -2,7 +2,6 @@ package structure
 
 import (
 	"context"
-	"math/rand/v2"
 	"testing"
 
 	"avoidcert/internal/brute"
@@ -11,15 +10,6 @@ import (
 
 // The brute-force references below use internal/brute (which shares no
 // code with this package) and pattern's own Standardize and Rank.
-
-func mustSet(t testing.TB, args ...string) pattern.Set {
-	t.Helper()
-	s, err := pattern.ParseSet(args)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return s
-}
 
 func members(s pattern.Set) [][]int {
 	var out [][]int
@@ -124,13 +114,4 @@ func isPerm(p []int) bool {
 		seen[v] = true
 	}
 	return true
-}
-
-// randomSet draws 1..maxCount patterns of lengths 2..maxLen.
-func randomSet(rng *rand.Rand, maxCount, maxLen int) pattern.Set {
-	var perms []pattern.Perm
-	for _, p := range brute.RandomPatterns[pattern.Perm](rng, maxCount, 2, maxLen) {
-		perms = append(perms, p)
-	}
-	return pattern.NewSet(perms...)
 }

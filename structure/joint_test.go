@@ -1,6 +1,7 @@
 package structure
 
 import (
+	"avoidcert/internal/settest"
 	"context"
 	"math/rand/v2"
 	"slices"
@@ -58,10 +59,10 @@ func TestJointStepsMatchDefinition(t *testing.T) {
 	}
 	rng := rand.New(rand.NewPCG(7, 11))
 	for range 12 {
-		sets = append(sets, []string{randomSet(rng, 5, 4).String()})
+		sets = append(sets, []string{settest.Random(rng, 5, 4).String()})
 	}
 	for _, args := range sets {
-		s := mustSet(t, args...)
+		s := settest.Must(t, args...)
 		sys := transfer.FromSet(s)
 		m := sys.M
 		js := newJointSpace(sys)
@@ -90,7 +91,7 @@ func TestJointStepsMatchDefinition(t *testing.T) {
 // members; with one length it is all of S_2m.
 func TestDomain(t *testing.T) {
 	for _, args := range []string{"1324", "123,2143", "12,2341", "21,123"} {
-		s := mustSet(t, args)
+		s := settest.Must(t, args)
 		sys := transfer.FromSet(s)
 		m := sys.M
 		js := newJointSpace(sys)
@@ -107,7 +108,7 @@ func TestDomain(t *testing.T) {
 // and predecessor inverts one step.
 func TestPredecessorInvertsStep(t *testing.T) {
 	for _, args := range []string{"1324", "123,321", "2143,1234"} {
-		s := mustSet(t, args)
+		s := settest.Must(t, args)
 		sys := transfer.FromSet(s)
 		m := sys.M
 		js := newJointSpace(sys)

@@ -1,6 +1,7 @@
 package structure
 
 import (
+	"avoidcert/internal/settest"
 	"context"
 	"errors"
 	"strings"
@@ -13,7 +14,7 @@ import (
 // m = 6: the exact test is out of range; the digraph and a bounded search
 // still decide what they can, and nothing more is claimed.
 func TestLength7IsOutOfRange(t *testing.T) {
-	s := mustSet(t, "1234567")
+	s := settest.Must(t, "1234567")
 	rep := analyze(t, s, Options{})
 	if rep.Exact || rep.Class != Undecided || rep.Lambda != LambdaPositive || !isCyclicAvoider(s, rep.CyclicAvoider) {
 		t.Fatalf("1234567: exact %v class %s lambda %s cyclic %v", rep.Exact, rep.Class, rep.Lambda, rep.CyclicAvoider)
@@ -25,14 +26,14 @@ func TestLength7IsOutOfRange(t *testing.T) {
 		}
 	}
 	// A finite set is still decided exactly: only 1234567 itself avoids 21.
-	rep = analyze(t, mustSet(t, "21,1234567"), Options{})
+	rep = analyze(t, settest.Must(t, "21,1234567"), Options{})
 	if rep.Class != Finite || rep.N1 != 7 {
 		t.Errorf("21,1234567: class %s N1 %d, want finite 7", rep.Class, rep.N1)
 	}
 }
 
 func TestStepLimit(t *testing.T) {
-	rep := analyze(t, mustSet(t, "1234"), Options{MaxSteps: 1}) // exponent 5 needs 2 steps
+	rep := analyze(t, settest.Must(t, "1234"), Options{MaxSteps: 1}) // exponent 5 needs 2 steps
 	if rep.Class != Undecided || rep.Exponent != 0 || len(rep.Sizes) != 2 {
 		t.Fatalf("1234 with one step: class %s exponent %d sizes %v", rep.Class, rep.Exponent, rep.Sizes)
 	}
@@ -44,7 +45,7 @@ func TestStepLimit(t *testing.T) {
 func TestCancelled(t *testing.T) {
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
-	if _, err := Analyze(ctx, mustSet(t, "1234"), Options{}); !errors.Is(err, context.Canceled) {
+	if _, err := Analyze(ctx, settest.Must(t, "1234"), Options{}); !errors.Is(err, context.Canceled) {
 		t.Fatalf("cancelled Analyze returned %v", err)
 	}
 }
@@ -78,7 +79,7 @@ func TestWitnessesOfSinglePatterns(t *testing.T) {
 			t.Errorf("%v: witness outside the range", p)
 		}
 	}
-	if rep := analyze(t, mustSet(t, "132"), Options{}); rep.Witnesses != nil {
+	if rep := analyze(t, settest.Must(t, "132"), Options{}); rep.Witnesses != nil {
 		t.Error("witnesses kept without Options.Witnesses")
 	}
 }

@@ -1,6 +1,7 @@
 package structure
 
 import (
+	"avoidcert/internal/settest"
 	"context"
 	"math"
 	"math/rand/v2"
@@ -9,7 +10,7 @@ import (
 
 func cyclicCount(t *testing.T, set string, L int) int64 {
 	t.Helper()
-	n, err := CyclicAvoiders(context.Background(), mustSet(t, set), L)
+	n, err := CyclicAvoiders(context.Background(), settest.Must(t, set), L)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -21,17 +22,17 @@ func TestCyclicAvoidersMatchBruteForce(t *testing.T) {
 	sets := []string{"123", "132", "123,321", "1324", "2413", "123,2143", "12,2341", "1234,4321"}
 	rng := rand.New(rand.NewPCG(9, 9))
 	for range 10 {
-		sets = append(sets, randomSet(rng, 6, 4).String())
+		sets = append(sets, settest.Random(rng, 6, 4).String())
 	}
 	for _, set := range sets {
-		s := mustSet(t, set)
+		s := settest.Must(t, set)
 		for L := s.Window(); L <= 8; L++ {
 			if got, want := cyclicCount(t, set, L), bruteCyclic(s, L); got != int64(want) {
 				t.Errorf("%v: %d cyclic avoiders of length %d, enumeration counts %d", s, got, L, want)
 			}
 		}
 	}
-	if _, err := CyclicAvoiders(context.Background(), mustSet(t, "1234"), 3); err == nil {
+	if _, err := CyclicAvoiders(context.Background(), settest.Must(t, "1234"), 3); err == nil {
 		t.Error("length 3 for a window of 4 was accepted")
 	}
 }

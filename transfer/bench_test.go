@@ -1,6 +1,7 @@
 package transfer_test
 
 import (
+	"avoidcert/internal/settest"
 	"context"
 	"testing"
 
@@ -10,7 +11,7 @@ import (
 // benchmarkCounts times Counts for a_0..a_N of a set and reports
 // Footprint of its last step alongside.
 func benchmarkCounts(b *testing.B, set string, N int) {
-	s := mustSet(b, set)
+	s := settest.Must(b, set)
 	for b.Loop() {
 		if _, err := transfer.Counts(context.Background(), s, N, nil); err != nil {
 			b.Fatal(err)
@@ -32,7 +33,7 @@ func BenchmarkCountsMixed_100(b *testing.B) { benchmarkCounts(b, "21543,1324,241
 
 // BenchmarkNext1342_k100 times one step G_100 -> G_101 of 1342 (m = 3).
 func BenchmarkNext1342_k100(b *testing.B) {
-	sys := transfer.FromSet(mustSet(b, "1342"))
+	sys := transfer.FromSet(settest.Must(b, "1342"))
 	g := iterate(b, sys, 100)
 	e := transfer.New(sys)
 	for b.Loop() {

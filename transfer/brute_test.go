@@ -1,6 +1,7 @@
 package transfer_test
 
 import (
+	"avoidcert/internal/settest"
 	"math/rand/v2"
 	"sync"
 	"testing"
@@ -44,7 +45,7 @@ func TestCountsSinglePatternsMatchBruteForce(t *testing.T) {
 func TestCountsRandomSetsMatchBruteForce(t *testing.T) {
 	rng := rand.New(rand.NewPCG(2026, 5))
 	for range 200 {
-		checkAgainstCensus(t, randomSet(rng))
+		checkAgainstCensus(t, settest.Random(rng, 6, 5))
 	}
 }
 
@@ -52,7 +53,7 @@ func TestCountsRandomSetsMatchBruteForce(t *testing.T) {
 // up to n = 8.
 func TestCountsLongPatternsMatchBruteForce(t *testing.T) {
 	for _, args := range [][]string{{"123456"}, {"135246"}, {"1234567"}, {"2461357"}, {"21,654321"}, {"132,1234567"}, {"7654321,3412"}} {
-		s := mustSet(t, args...)
+		s := settest.Must(t, args...)
 		got := counts(t, s, 8)
 		for n := 0; n <= 8; n++ {
 			if want := brute.Count(n, s.Patterns()); got[n].Int64() != int64(want) {
@@ -84,7 +85,7 @@ func TestCountsTrivialPatterns(t *testing.T) {
 		{"21", always},
 		{"12,21", upTo(1)},
 	} {
-		got := counts(t, mustSet(t, tc.set), 30)
+		got := counts(t, settest.Must(t, tc.set), 30)
 		for n, c := range got {
 			if !c.IsInt64() || c.Int64() != tc.want(n) {
 				t.Errorf("{%s}: a_%d = %v, want %d", tc.set, n, c, tc.want(n))

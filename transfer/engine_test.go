@@ -1,6 +1,7 @@
 package transfer_test
 
 import (
+	"avoidcert/internal/settest"
 	"context"
 	"crypto/sha256"
 	"encoding/binary"
@@ -50,7 +51,7 @@ var determinismCases = []struct {
 func TestDigestIndependentOfGOMAXPROCS(t *testing.T) {
 	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(0))
 	for _, tc := range determinismCases {
-		sys := transfer.FromSet(mustSet(t, tc.set))
+		sys := transfer.FromSet(settest.Must(t, tc.set))
 		var want [32]byte
 		for i, procs := range []int{1, 2, 3} {
 			runtime.GOMAXPROCS(procs)
@@ -71,7 +72,7 @@ func TestDigestIndependentOfGOMAXPROCS(t *testing.T) {
 // recycles storage) yields the same iterates at every step.
 func TestNextAndAdvanceAgree(t *testing.T) {
 	for _, set := range []string{"123", "132", "1342", "213,1234", "12345", "1"} {
-		sys := transfer.FromSet(mustSet(t, set))
+		sys := transfer.FromSet(settest.Must(t, set))
 		e := transfer.New(sys)
 		adv := advanced(t, sys, 12)
 		g := e.Start()
@@ -114,7 +115,7 @@ func TestDigestFollowsItsSpec(t *testing.T) {
 		set string
 		k   int
 	}{{"132", 9}, {"1342", 6}, {"213,1234", 5}, {"1", 3}} {
-		g := iterate(t, transfer.FromSet(mustSet(t, tc.set)), tc.k)
+		g := iterate(t, transfer.FromSet(settest.Must(t, tc.set)), tc.k)
 		h := sha256.New()
 		h.Write([]byte(transfer.DigestHeader))
 		h.Write(binary.AppendUvarint(nil, uint64(g.M)))
@@ -135,7 +136,7 @@ func TestDigestFollowsItsSpec(t *testing.T) {
 }
 
 func TestSumsAndProgress(t *testing.T) {
-	s := mustSet(t, "1342")
+	s := settest.Must(t, "1342")
 	var seen [][2]int
 	c, err := transfer.Counts(context.Background(), s, 12, func(k, last int) { seen = append(seen, [2]int{k, last}) })
 	if err != nil {
@@ -161,7 +162,7 @@ func TestSumsAndProgress(t *testing.T) {
 
 // Footprint must at least cover G_k and G_{k+1}, which a step holds.
 func TestFootprintCoversTheIterates(t *testing.T) {
-	sys := transfer.FromSet(mustSet(t, "2413"))
+	sys := transfer.FromSet(settest.Must(t, "2413"))
 	e := transfer.New(sys)
 	for k := 0; k <= 10; k++ {
 		g, next := iterate(t, sys, k), iterate(t, sys, k+1)
@@ -174,10 +175,10 @@ func TestFootprintCoversTheIterates(t *testing.T) {
 func TestCancelledAndForeignIterates(t *testing.T) {
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
-	if _, err := transfer.Counts(ctx, mustSet(t, "123"), 10, nil); !errors.Is(err, context.Canceled) {
+	if _, err := transfer.Counts(ctx, settest.Must(t, "123"), 10, nil); !errors.Is(err, context.Canceled) {
 		t.Errorf("Counts with a cancelled context: error %v, want context.Canceled", err)
 	}
-	e := transfer.New(transfer.FromSet(mustSet(t, "123")))
+	e := transfer.New(transfer.FromSet(settest.Must(t, "123")))
 	if _, err := e.Next(ctx, e.Start()); !errors.Is(err, context.Canceled) {
 		t.Errorf("Next with a cancelled context: error %v, want context.Canceled", err)
 	}
@@ -185,7 +186,7 @@ func TestCancelledAndForeignIterates(t *testing.T) {
 		t.Errorf("Advance with a cancelled context: error %v, want context.Canceled", err)
 	}
 
-	other := transfer.New(transfer.FromSet(mustSet(t, "1342"))).Start()
+	other := transfer.New(transfer.FromSet(settest.Must(t, "1342"))).Start()
 	for name, step := range map[string]func() (*transfer.Iterate, error){
 		"Next":    func() (*transfer.Iterate, error) { return e.Next(context.Background(), other) },
 		"Advance": func() (*transfer.Iterate, error) { return e.Advance(context.Background(), other, nil) },

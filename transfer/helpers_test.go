@@ -3,27 +3,11 @@ package transfer_test
 import (
 	"context"
 	"math/big"
-	"math/rand/v2"
 	"testing"
 
-	"avoidcert/internal/brute"
 	"avoidcert/pattern"
 	"avoidcert/transfer"
 )
-
-func mustSet(t testing.TB, args ...string) pattern.Set {
-	t.Helper()
-	s, err := pattern.ParseSet(args)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return s
-}
-
-// randomSet draws one to six patterns of lengths 2..5.
-func randomSet(rng *rand.Rand) pattern.Set {
-	return pattern.NewSet(brute.RandomPatterns[pattern.Perm](rng, 6, 2, 5)...)
-}
 
 func counts(t testing.TB, s pattern.Set, N int) []*big.Int {
 	t.Helper()

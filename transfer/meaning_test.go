@@ -1,6 +1,7 @@
 package transfer_test
 
 import (
+	"avoidcert/internal/settest"
 	"fmt"
 	"math/big"
 	"math/rand/v2"
@@ -72,7 +73,7 @@ func compareIterate(t *testing.T, what string, g *transfer.Iterate, want [][]int
 func TestIterateCountsPermutationsByLastWindowAndGaps(t *testing.T) {
 	const maxLen = 8 // 8! permutations per (set, k) at most
 	for _, args := range []string{"12", "123", "132", "123,321", "1342", "2413", "213,1234", "1324,3412", "12345", "21,2413", "13254,2413,321"} {
-		s := mustSet(t, args)
+		s := settest.Must(t, args)
 		members := s.Patterns()
 		sys := transfer.FromSet(s)
 		m := sys.M
@@ -98,7 +99,7 @@ func TestIterateCountsPermutationsByLastWindowAndGaps(t *testing.T) {
 func TestRestrictCountsPermutationsInsideTheCells(t *testing.T) {
 	rng := rand.New(rand.NewPCG(17, 18))
 	for _, args := range []string{"123", "1342", "213,1234", "2143,3412"} {
-		s := mustSet(t, args)
+		s := settest.Must(t, args)
 		members := s.Patterns()
 		full := transfer.FromSet(s)
 		m := full.M

@@ -1,6 +1,7 @@
 package transfer_test
 
 import (
+	"avoidcert/internal/settest"
 	"bufio"
 	"math/big"
 	"os"
@@ -91,7 +92,7 @@ func TestCountsMatchOEIS(t *testing.T) {
 			t.Fatalf("OEIS %s: offset %d; the table test assumes a(0) first", tc.id, tab.offset)
 		}
 		N := len(tab.terms) - 1
-		got := counts(t, mustSet(t, tc.set), N)
+		got := counts(t, settest.Must(t, tc.set), N)
 		for n, want := range tab.terms {
 			if got[n].Cmp(want) != 0 {
 				t.Errorf("{%s}: a_%d = %v, OEIS %s has %v", tc.set, n, got[n], tc.id, want)

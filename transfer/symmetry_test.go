@@ -1,6 +1,7 @@
 package transfer_test
 
 import (
+	"avoidcert/internal/settest"
 	"math/big"
 	"math/rand/v2"
 	"slices"
@@ -20,7 +21,7 @@ func TestCountsInvariantUnderSymmetries(t *testing.T) {
 	var sets []pattern.Set
 	rng := rand.New(rand.NewPCG(41, 42))
 	for range 40 {
-		sets = append(sets, randomSet(rng))
+		sets = append(sets, settest.Random(rng, 6, 5))
 	}
 	for k := 4; k <= 5; k++ {
 		for _, p := range pattern.All(k) {
@@ -74,7 +75,7 @@ func TestInverseIsNotASymmetry(t *testing.T) {
 
 	// Pinned: OEIS A117156 (1342) has a(6) = 630, OEIS A201692 (1423) has
 	// a(6) = 631, and the two agree below n = 6.
-	s := mustSet(t, "1342")
+	s := settest.Must(t, "1342")
 	if inv := s.Inverse().String(); inv != "1423" {
 		t.Fatalf("inverse of 1342 = %s, want 1423", inv)
 	}
