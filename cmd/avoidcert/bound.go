@@ -66,6 +66,21 @@ func (b *budget) register(fs *flag.FlagSet) {
 	fs.BoolVar(&b.progress, "progress", false, "")
 }
 
+// parse registers the budget flags on fs, parses args and returns the
+// pattern set they name, with the budget checked.
+func (b *budget) parse(fs *flag.FlagSet, args []string) (pattern.Set, error) {
+	b.register(fs)
+	pos, err := parseArgs(fs, args)
+	if err != nil {
+		return pattern.Set{}, err
+	}
+	set, err := parsePatterns(fs.Name(), pos)
+	if err != nil {
+		return pattern.Set{}, err
+	}
+	return set, b.validate(fs.Name())
+}
+
 func (b *budget) validate(cmd string) error {
 	switch {
 	case b.maxK < 1:
@@ -129,16 +144,8 @@ func runBound(ctx context.Context, e *env, args []string) int {
 	out := fs.String("out", "", "")
 	asJSON := fs.Bool("json", false, "")
 	var b budget
-	b.register(fs)
-	pos, err := parseArgs(fs, args)
+	set, err := b.parse(fs, args)
 	if err != nil {
-		return failure(e, err)
-	}
-	set, err := parsePatterns("bound", pos)
-	if err != nil {
-		return failure(e, err)
-	}
-	if err := b.validate("bound"); err != nil {
 		return failure(e, err)
 	}
 	opts := bounds.Options{Digits: *digits, MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Digests: true}

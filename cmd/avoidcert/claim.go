@@ -43,16 +43,8 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	truncated := fs.Bool("truncated", false, "")
 	within := fs.String("interval", "", "")
 	var b budget
-	b.register(fs)
-	pos, err := parseArgs(fs, args)
+	set, err := b.parse(fs, args)
 	if err != nil {
-		return failure(e, err)
-	}
-	set, err := parsePatterns("claim", pos)
-	if err != nil {
-		return failure(e, err)
-	}
-	if err := b.validate("claim"); err != nil {
 		return failure(e, err)
 	}
 	quantity, err := bounds.ParseQuantity(*of)
