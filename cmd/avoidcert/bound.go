@@ -6,6 +6,8 @@ import (
 	"fmt"
 	"io"
 	"math/big"
+	"os"
+	"path/filepath"
 	"strings"
 	"time"
 
@@ -165,6 +167,11 @@ func runBound(ctx context.Context, e *env, args []string) int {
 	if path == "" {
 		path = "avoidcert-" + strings.ReplaceAll(set.String(), ",", "_") + ".json"
 	}
+	// Refuse an unusable --out before the work, not after it.
+	if info, err := os.Stat(filepath.Dir(path)); err != nil || !info.IsDir() {
+		return failure(e, usagef("bound: cannot write the certificate to %s: folder %s does not exist; choose another --out",
+			path, filepath.Dir(path)))
+	}
 
 	limitMemory(int64(b.maxMemory))
 	ctx, cancel := b.context(ctx)
@@ -183,7 +190,7 @@ func runBound(ctx context.Context, e *env, args []string) int {
 		return failure(e, err)
 	}
 	if err := certify.Write(path, cert); err != nil {
-		return failure(e, fmt.Errorf("bound: writing the certificate: %v", err))
+		return failure(e, usagef("bound: cannot write the certificate to %s: %v; choose another --out", path, err))
 	}
 	if *asJSON {
 		writeBoundJSON(e, set, p, res, path, printDigits(opts))
@@ -282,8 +289,12 @@ func writeExplicit(w io.Writer, x *bounds.AllN, digits int) {
 }
 
 func digitWords(res *bounds.Result) string {
-	if x := res.Lambda; x.Lo != nil && x.Hi != nil && x.Lo.Cmp(x.Hi) == 0 {
+	x := res.Lambda
+	switch {
+	case x.Lo != nil && x.Hi != nil && x.Lo.Cmp(x.Hi) == 0:
 		return "exact"
+	case x.Lo != nil && x.Lo.Sign() == 0:
+		return "an upper bound only"
 	}
 	return fmt.Sprintf("%d significant digits certified", res.Digits)
 }
