@@ -6,6 +6,7 @@ import (
 	"math/big"
 	"time"
 
+	"avoidcert/internal/bytesize"
 	"avoidcert/interval"
 	"avoidcert/transfer"
 )
@@ -260,7 +261,7 @@ func checkFirstMemory(runners []*runner, opts Options) error {
 			return nil
 		}
 		if k0 == 0 {
-			return fmt.Errorf("bounds: the memory budget of %s is below the %s needed for a first bracket (k = 0); raise it", byteCount(opts.MaxMemory), byteCount(need))
+			return fmt.Errorf("bounds: the memory budget of %s is below the %s needed for a first bracket (k = 0); raise it", bytesize.Format(opts.MaxMemory), bytesize.Format(need))
 		}
 	}
 	return nil

@@ -9,6 +9,7 @@ import (
 	"runtime"
 	"time"
 
+	"avoidcert/internal/bytesize"
 	"avoidcert/interval"
 	"avoidcert/transfer"
 )
@@ -149,7 +150,7 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 		if r.base != nil && cur.K == r.base.K+r.d {
 			k := r.base.K
 			if need := r.held() + r.evalNeed(k) + e.elsewhere(); budget > 0 && need > budget {
-				return StopMemory, fmt.Sprintf("the bracket at k = %d would need about %s, over the memory budget of %s", k, byteCount(need), byteCount(budget)), nil
+				return StopMemory, fmt.Sprintf("the bracket at k = %d would need about %s, over the memory budget of %s", k, bytesize.Format(need), bytesize.Format(budget)), nil
 			}
 			if err := r.evaluate(ctx, e); err != nil {
 				return stopFor(err)
@@ -164,7 +165,7 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 			}
 			other := e.elsewhere() + r.pinnedExtra()
 			if need := r.baseNeed(K, other); budget > 0 && need > budget {
-				return StopMemory, fmt.Sprintf("a bracket at k = %d would need about %s, over the memory budget of %s", K, byteCount(need), byteCount(budget)), nil
+				return StopMemory, fmt.Sprintf("a bracket at k = %d would need about %s, over the memory budget of %s", K, bytesize.Format(need), bytesize.Format(budget)), nil
 			}
 			if left, ok := timeLeft(ctx); ok && left < r.bracketTime(K) {
 				return StopTimeout, fmt.Sprintf("stopped at G_%d: a further bracket would not finish before the deadline", K), nil
@@ -184,7 +185,7 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 			}
 		}
 		if need := r.held() - bytesOf(r.spare) + max(bytesOf(r.spare), r.size(K+1)) + e.elsewhere(); budget > 0 && need > budget {
-			return StopMemory, fmt.Sprintf("the step to G_%d would need about %s, over the memory budget of %s", K+1, byteCount(need), byteCount(budget)), nil
+			return StopMemory, fmt.Sprintf("the step to G_%d would need about %s, over the memory budget of %s", K+1, bytesize.Format(need), bytesize.Format(budget)), nil
 		}
 		if err := r.step(ctx, e, false); err != nil {
 			return stopFor(err)
@@ -381,17 +382,4 @@ func (r *runner) digest(wanted bool) {
 func (r *runner) release(digests bool) {
 	r.digest(digests)
 	r.cur, r.base, r.spare = nil, nil, nil
-}
-
-// byteCount prints a byte count for messages.
-func byteCount(n int64) string {
-	switch {
-	case n >= 1<<30:
-		return fmt.Sprintf("%.1f GiB", float64(n)/(1<<30))
-	case n >= 1<<20:
-		return fmt.Sprintf("%.1f MiB", float64(n)/(1<<20))
-	case n >= 1<<10:
-		return fmt.Sprintf("%.1f KiB", float64(n)/(1<<10))
-	}
-	return fmt.Sprintf("%d bytes", n)
 }

@@ -95,11 +95,20 @@ func (b *budget) validate(cmd string) error {
 	return nil
 }
 
-func (b *budget) context(ctx context.Context) (context.Context, context.CancelFunc) {
+// start applies the budget (the runtime memory limit, the deadline) and
+// plans the bracket from the set's structure. The caller must call cancel.
+func (b *budget) start(ctx context.Context, set pattern.Set) (context.Context, context.CancelFunc, *plan, error) {
+	limitMemory(int64(b.maxMemory))
+	cancel := context.CancelFunc(func() {})
 	if b.timeout > 0 {
-		return context.WithTimeout(ctx, b.timeout)
+		ctx, cancel = context.WithTimeout(ctx, b.timeout)
 	}
-	return context.WithCancel(ctx)
+	p, err := planFor(ctx, set)
+	if err != nil {
+		cancel()
+		return nil, nil, nil, err
+	}
+	return ctx, cancel, p, nil
 }
 
 func (b *budget) reporter(e *env) bounds.Progress {
@@ -173,13 +182,11 @@ func runBound(ctx context.Context, e *env, args []string) int {
 			path, filepath.Dir(path)))
 	}
 
-	limitMemory(int64(b.maxMemory))
-	ctx, cancel := b.context(ctx)
-	defer cancel()
-	p, err := planFor(ctx, set)
+	ctx, cancel, p, err := b.start(ctx, set)
 	if err != nil {
 		return failure(e, err)
 	}
+	defer cancel()
 	opts.Step = p.step
 	res, err := p.bracket(ctx, opts, b.reporter(e))
 	if err != nil {

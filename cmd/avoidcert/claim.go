@@ -55,13 +55,11 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	limitMemory(int64(b.maxMemory))
-	ctx, cancel := b.context(ctx)
-	defer cancel()
-	p, err := planFor(ctx, set)
+	ctx, cancel, p, err := b.start(ctx, set)
 	if err != nil {
 		return failure(e, err)
 	}
+	defer cancel()
 	opts := bounds.Options{Step: p.step, MaxK: b.maxK, MaxMemory: int64(b.maxMemory)}
 	verdict, res, err := bounds.JudgeBlocks(ctx, p.sys, p.blocks, claimed, quantity, opts, b.reporter(e))
 	if err != nil {

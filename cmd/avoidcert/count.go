@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"text/tabwriter"
 
+	"avoidcert/internal/bytesize"
 	"avoidcert/pattern"
 	"avoidcert/transfer"
 )
@@ -63,7 +64,7 @@ func runCount(ctx context.Context, e *env, args []string) int {
 	}
 	if need := transfer.CountsFootprint(set, *to); need > int64(maxMem) {
 		return failure(e, usagef("count: counting to n = %d needs about %s, over --max-memory %s; lower --to or raise --max-memory",
-			*to, humanBytes(need), humanBytes(int64(maxMem))))
+			*to, bytesize.Format(need), bytesize.Format(int64(maxMem))))
 	}
 	if *verbose {
 		reportDropped(e.stderr, set)

@@ -82,15 +82,3 @@ func (b *byteSize) Set(s string) error {
 	*b = byteSize(v * float64(units[unit]))
 	return nil
 }
-
-// humanBytes writes a byte count for messages.
-func humanBytes(n int64) string {
-	switch {
-	case n >= 1<<30:
-		return fmt.Sprintf("%.1f GiB", float64(n)/(1<<30))
-	case n >= 1<<20:
-		return fmt.Sprintf("%.1f MiB", float64(n)/(1<<20))
-	default:
-		return fmt.Sprintf("%d bytes", n)
-	}
-}
