@@ -6,6 +6,7 @@ package produce
 
 import (
 	"context"
+	"errors"
 	"math/big"
 
 	"avoidcert/bounds"
@@ -68,27 +69,11 @@ func Certificate(ctx context.Context, tool string, rep *structure.Report, sys tr
 	if st.Radius.Lo == nil {
 		st.Radius.Lo = new(big.Rat) // lambda = 0 exactly: the format has no infinite lower end
 	}
-	for _, br := range res.Brackets {
-		c.Evidence.Brackets = append(c.Evidence.Brackets, certify.Bracket{
-			Cells: br.Cells, Step: br.Step, K: br.K, Lo: br.Lo, Hi: br.Hi, Upper: true, IterateDigest: br.Digest})
-	}
-	explicit := res.Explicit
-	if explicit == nil {
-		k := 0
-		if len(res.Brackets) > 0 {
-			k = res.Brackets[0].K
-		}
-		whole, err := bounds.BracketAt(ctx, sys, k, 1, res.Prec)
-		if err != nil {
-			return nil, err
-		}
-		c.Evidence.Brackets = append(c.Evidence.Brackets, certify.Bracket{
-			Cells: whole.Cells, Step: 1, K: whole.K, Lo: whole.Lo, Hi: whole.Hi, IterateDigest: whole.Digest})
-		explicit = &bounds.AllN{N0: whole.N0(), AN0: whole.Sum, MuLo: whole.Lo, MuHi: whole.Hi}
-	}
-	st.AllN = certify.AllN{N0: explicit.N0, AN0: explicit.AN0, MuLo: explicit.MuLo, MuHi: explicit.MuHi}
-	if err := certify.Derive(c); err != nil {
-		return nil, err
-	}
-	return c, nil
+	// Format version 3 names brackets on prefix states (States, Start, N);
+	// the engine's results are still on order cells, so no valid
+	// certificate can be assembled until bounds/ gives prefix-state
+	// brackets (the engine's side of issue 8). Refuse loudly rather than
+	// write a certificate the checker would reject.
+	_, _ = ctx, sys
+	return nil, errors.New("certify/produce: certificate format version 3 needs prefix-state brackets from bounds/, which it does not give yet; no certificate written")
 }

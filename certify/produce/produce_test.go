@@ -51,7 +51,7 @@ func TestCertificatesPassTheChecker(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if err := certify.Check(c, certify.CheckOptions{Expect: set}); err != nil {
+		if err := certify.Check(context.Background(), c, certify.CheckOptions{Expect: set.Strings()}); err != nil {
 			t.Errorf("%s (%s): %v", set, rep.Class, err)
 		}
 		if c.Structure == nil || string(c.Structure.Class) != string(rep.Class) {

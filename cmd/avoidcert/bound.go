@@ -62,7 +62,7 @@ type budget struct {
 
 func (b *budget) register(fs *flag.FlagSet) {
 	b.maxMemory = 8 << 30
-	fs.IntVar(&b.maxK, "max-k", certify.MaxK, "")
+	fs.IntVar(&b.maxK, "max-k", certify.MaxN, "")
 	fs.Var(&b.maxMemory, "max-memory", "")
 	fs.DurationVar(&b.timeout, "timeout", 0, "")
 	fs.BoolVar(&b.progress, "progress", false, "")
@@ -87,8 +87,8 @@ func (b *budget) validate(cmd string) error {
 	switch {
 	case b.maxK < 1:
 		return usagef("%s: --max-k must be at least 1", cmd)
-	case b.maxK > certify.MaxK:
-		return usagef("%s: --max-k %d is over %d, the largest k a certificate checker accepts", cmd, b.maxK, certify.MaxK)
+	case b.maxK > certify.MaxN:
+		return usagef("%s: --max-k %d is over %d, the largest k a certificate checker accepts", cmd, b.maxK, certify.MaxN)
 	case b.timeout < 0:
 		return usagef("%s: --timeout must not be negative", cmd)
 	}
