@@ -345,3 +345,28 @@ func TestCancelAndProgress(t *testing.T) {
 		t.Fatalf("cancelled check: got %v", err)
 	}
 }
+
+// BenchmarkCheck times the checker on one whole-system certificate of 1342
+// at N = 120 (about 50 digits; the certificate is built once, outside the
+// timing): go test ./certify/ -run X -bench Check -benchtime 1x
+func BenchmarkCheck(b *testing.B) {
+	for _, tc := range []struct {
+		given string
+		n     int
+	}{{"1342", 120}, {"12345", 60}} {
+		b.Run(tc.given, func(b *testing.B) {
+			c := wholeCert(b, tc.given, tc.n)
+			var total int64
+			certify.Check(bg, c, certify.CheckOptions{MaxWork: 1, Progress: func(_, t int64) { total = t }})
+			err := certify.Check(bg, c, certify.CheckOptions{MaxWork: 1})
+			b.Log(err)
+			b.ResetTimer()
+			for range b.N {
+				if err := certify.Check(bg, c, certify.CheckOptions{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			_ = total
+		})
+	}
+}

@@ -41,8 +41,8 @@ func Iterate(given []string, states []int, start Start, n int) (coef [][]*big.In
 	for _, t := range g.tables {
 		var c []*big.Int
 		if t != nil {
-			for r := range t.v {
-				c = append(c, new(big.Int).Set(&t.v[r]))
+			for r := range t.size() {
+				c = append(c, toBig(t.at(r)))
 			}
 		}
 		coef = append(coef, c)
@@ -98,16 +98,16 @@ func MakeBracket(given []string, states []int, start Start, d, N int, upper bool
 		if t == nil {
 			continue
 		}
-		for r := range t.v {
-			H := new(big.Int)
+		for r := range t.size() {
+			N, H := toBig(t.at(r)), new(big.Int)
 			if h.tables[p] != nil {
-				H = &h.tables[p].v[r]
+				H = toBig(h.tables[p].at(r))
 			}
 			if H.Sign() == 0 {
-				infinite = infinite || t.v[r].Sign() > 0
+				infinite = infinite || N.Sign() > 0
 				continue
 			}
-			ratio := new(big.Rat).SetFrac(&t.v[r], H)
+			ratio := new(big.Rat).SetFrac(N, H)
 			if lo == nil || ratio.Cmp(lo) < 0 {
 				lo = ratio
 			}

@@ -39,7 +39,7 @@ type iterate struct {
 // newSystem builds the system on the given states (nil: the whole system).
 // maxN bounds the n that will be reached.
 func newSystem(sp *stateSpace, states []int, maxN int) *system {
-	sys := &system{sp: sp, bin: newBinomials(maxN + 2*MaxPatternLength + 2), in: make([]bool, len(sp.states)),
+	sys := &system{sp: sp, bin: newBinomials(maxN+2*MaxPatternLength+2, wordsFor(maxN)), in: make([]bool, len(sp.states)),
 		inbound: make([][]inMove, len(sp.states))}
 	if states == nil {
 		for p := range sys.in {
@@ -63,7 +63,7 @@ func newSystem(sp *stateSpace, states []int, maxN int) *system {
 func (sys *system) emptyStart() *iterate {
 	g := &iterate{n: 0, tables: make([]*table, len(sys.in))}
 	g.tables[0] = sys.bin.newTable(1, 0)
-	g.tables[0].v[0].SetInt64(1)
+	g.tables[0].at(0)[0] = 1
 	return g
 }
 
@@ -74,8 +74,8 @@ func (sys *system) onesStart(n int) *iterate {
 	for p, ok := range sys.in {
 		if ok {
 			t := sys.bin.newTable(len(sys.sp.states[p])+1, n-len(sys.sp.states[p]))
-			for r := range t.v {
-				t.v[r].SetInt64(1)
+			for r := range t.size() {
+				t.at(r)[0] = 1
 			}
 			g.tables[p] = t
 		}
@@ -84,12 +84,16 @@ func (sys *system) onesStart(n int) *iterate {
 }
 
 // restrict returns the part of g (an iterate of the whole system) on the
-// states of sys; the tables are shared, and iterates are never modified.
+// states of sys, in sys's coefficient width (at least g's).
 func (sys *system) restrict(g *iterate) *iterate {
 	out := &iterate{n: g.n, tables: make([]*table, len(sys.in))}
 	for p, ok := range sys.in {
-		if ok {
-			out.tables[p] = g.tables[p]
+		if t := g.tables[p]; ok && t != nil {
+			wide := sys.bin.newTable(t.parts, t.degree)
+			for r := range t.size() {
+				copy(wide.at(r), t.at(r))
+			}
+			out.tables[p] = wide
 		}
 	}
 	return out
@@ -146,9 +150,9 @@ func (sys *system) pull(g *iterate, q int) *table {
 		for _, r := range mv.drops[1:] {
 			t = sys.bin.merge(t, r-1)
 		}
-		for r := range dst.v {
-			dst.v[r].Add(&dst.v[r], &t.v[r])
-		}
+		// one pass over the flat words: no coefficient overflows its
+		// width (wordsFor), so no carry crosses into the next one
+		addWords(dst.w, t.w)
 	}
 	return dst
 }
@@ -158,9 +162,11 @@ func (g *iterate) sum() *big.Int {
 	s := new(big.Int)
 	for _, t := range g.tables {
 		if t != nil {
-			for r := range t.v {
-				s.Add(s, &t.v[r])
+			total := make([]uint64, t.words)
+			for r := range t.size() {
+				addWords(total, t.at(r))
 			}
+			s.Add(s, toBig(total))
 		}
 	}
 	return s
@@ -169,12 +175,8 @@ func (g *iterate) sum() *big.Int {
 // isZero reports whether every coefficient of g is 0.
 func (g *iterate) isZero() bool {
 	for _, t := range g.tables {
-		if t != nil {
-			for r := range t.v {
-				if t.v[r].Sign() != 0 {
-					return false
-				}
-			}
+		if t != nil && !isZeroWords(t.w) {
+			return false
 		}
 	}
 	return true
@@ -205,8 +207,9 @@ func (sys *system) digest(g *iterate) [32]byte {
 				buf = append(buf, 0)
 			}
 		} else {
-			for r := range g.tables[p].v {
-				word = g.tables[p].v[r].Bytes()
+			t := g.tables[p]
+			for r := range t.size() {
+				word = appendBytes(word[:0], t.at(r))
 				buf = binary.AppendUvarint(buf, uint64(len(word)))
 				buf = append(buf, word...)
 				if len(buf) > 1<<16 {

@@ -235,8 +235,8 @@ func (ck *checker) compare(ctx context.Context, i int, h, n *iterate) error {
 			return fmt.Errorf("%s: state %d has no coefficients at n = %d", ck.describe(i), p, b.N)
 		}
 		var left, right big.Int
-		for r := range num.v {
-			N, H := &num.v[r], &den.v[r]
+		for r := range num.size() {
+			N, H := toBig(num.at(r)), toBig(den.at(r))
 			// lo <= N/H:  lo.num * H <= lo.den * N
 			left.Mul(b.Lo.Num(), H)
 			right.Mul(b.Lo.Denom(), N)

@@ -1,22 +1,100 @@
 package certify
 
-import "math/big"
+import (
+	"math/big"
+	"math/bits"
+)
 
 // A table holds one coefficient per composition a = (a_0, .., a_(K-1)) of a
 // degree D into K non-negative parts, in lexicographic order of a (so
 // (0, .., 0, D) first): the coefficients of one state at one n, with
 // K = |p| + 1 and D = n - |p|. This is the order of the digest stream.
+//
+// Each coefficient is a fixed number of 64-bit words, least significant
+// first, all tables of a system sharing one width, large enough for every
+// number the system reaches (see wordsFor): adding two coefficients is a
+// loop over words with a carry, and no step allocates per coefficient.
 type table struct {
 	parts, degree int
-	v             []big.Int
+	words         int
+	w             []uint64 // coefficient r is w[r*words : (r+1)*words]
+}
+
+// at returns the words of coefficient r.
+func (t *table) at(r int) []uint64 { return t.w[r*t.words : (r+1)*t.words] }
+
+// size returns the number of coefficients.
+func (t *table) size() int { return len(t.w) / t.words }
+
+// wordsFor returns the width that holds every number of an iteration up to
+// n = top: every coefficient of G_n is at most a_n <= n! (the restricted
+// starts count weighted paths bounded by their number of coefficients
+// times that), a running sum is a partial sum of one output, and the
+// d-fold elevation of G_N sums to (N+1)...(N+d) times G_N's sum. Two words
+// beyond (top)! cover the starts' factor and the elevation's.
+func wordsFor(top int) int {
+	f := new(big.Int).MulRange(1, int64(max(top, 1)))
+	return f.BitLen()/64 + 3
+}
+
+func addWords(dst, src []uint64) {
+	var c uint64
+	for i := range dst {
+		dst[i], c = bits.Add64(dst[i], src[i], c)
+	}
+}
+
+// mulAddWords adds m times src to dst.
+func mulAddWords(dst, src []uint64, m uint64) {
+	var carry uint64
+	for i := range dst {
+		hi, lo := bits.Mul64(src[i], m)
+		lo, c := bits.Add64(lo, carry, 0)
+		hi += c
+		dst[i], c = bits.Add64(dst[i], lo, 0)
+		carry = hi + c
+	}
+}
+
+func isZeroWords(x []uint64) bool {
+	for _, v := range x {
+		if v != 0 {
+			return false
+		}
+	}
+	return true
+}
+
+// appendBytes appends the big-endian bytes of x without leading zero
+// bytes (none for 0).
+func appendBytes(buf []byte, x []uint64) []byte {
+	started := false
+	for i := len(x) - 1; i >= 0; i-- {
+		for s := 56; s >= 0; s -= 8 {
+			b := byte(x[i] >> s)
+			if started || b != 0 {
+				started = true
+				buf = append(buf, b)
+			}
+		}
+	}
+	return buf
+}
+
+// toBig returns x as a big.Int.
+func toBig(x []uint64) *big.Int {
+	return new(big.Int).SetBytes(appendBytes(nil, x))
 }
 
 // binomials is a table of binomial coefficients C(n, k) for n < len(c),
 // k <= maxK, enough to count and rank every composition the checker
-// indexes.
-type binomials struct{ c [][]int64 }
+// indexes; words is the coefficient width of the tables it makes.
+type binomials struct {
+	c     [][]int64
+	words int
+}
 
-func newBinomials(maxN int) binomials {
+func newBinomials(maxN, words int) binomials {
 	const maxK = MaxPatternLength + 1
 	c := make([][]int64, maxN+1)
 	for n := range c {
@@ -26,7 +104,7 @@ func newBinomials(maxN int) binomials {
 			c[n][k] = c[n-1][k-1] + c[n-1][k]
 		}
 	}
-	return binomials{c}
+	return binomials{c: c, words: words}
 }
 
 // count returns the number of compositions of D into K parts,
@@ -52,7 +130,7 @@ func (b binomials) rank(a []int) int {
 }
 
 func (b binomials) newTable(K, D int) *table {
-	return &table{parts: K, degree: D, v: make([]big.Int, b.count(K, D))}
+	return &table{parts: K, degree: D, words: b.words, w: make([]uint64, b.count(K, D)*b.words)}
 }
 
 // firstComposition sets a to (0, .., 0, D).
@@ -91,7 +169,7 @@ func (b binomials) spreadAdd(dst, src *table, i int) {
 		copy(a[:i], c[:i])
 		a[i] = c[i] + c[i+1]
 		copy(a[i+1:], c[i+2:])
-		dst.v[r].Add(&dst.v[r], &src.v[b.rank(a)])
+		addWords(dst.at(r), src.at(b.rank(a)))
 		if !nextComposition(c) {
 			return
 		}
@@ -107,12 +185,11 @@ func (b binomials) merge(src *table, j int) *table {
 	e := make([]int, out.parts)
 	firstComposition(a, src.degree)
 	for r := 0; ; r++ {
-		if src.v[r].Sign() != 0 {
+		if x := src.at(r); !isZeroWords(x) {
 			copy(e[:j], a[:j])
 			e[j] = a[j] + a[j+1] + 1
 			copy(e[j+1:], a[j+2:])
-			x := &out.v[b.rank(e)]
-			x.Add(x, &src.v[r])
+			addWords(out.at(b.rank(e)), x)
 		}
 		if !nextComposition(a) {
 			return out
@@ -141,7 +218,7 @@ func (b binomials) insertMerge(src *table, i, side int) *table {
 	if side > 0 {
 		lo = i
 	}
-	partner := make([]int, len(out.v)) // the entry the running sum continues, or -1
+	partner := make([]int, out.size()) // the entry the running sum continues, or -1
 	e := make([]int, out.parts)
 	firstComposition(e, out.degree)
 	for r := 0; ; r++ {
@@ -149,13 +226,13 @@ func (b binomials) insertMerge(src *table, i, side int) *table {
 		partner[r] = -1
 		if side < 0 && u > 0 {
 			e[lo] = u - 1
-			out.v[r].Set(&src.v[b.rank(e)])
+			copy(out.at(r), src.at(b.rank(e)))
 			e[lo+1] = v + 1
 			partner[r] = b.rank(e)
 		}
 		if side > 0 && v > 0 {
 			e[lo+1] = v - 1
-			out.v[r].Set(&src.v[b.rank(e)])
+			copy(out.at(r), src.at(b.rank(e)))
 			e[lo] = u + 1
 			partner[r] = b.rank(e)
 		}
@@ -165,15 +242,15 @@ func (b binomials) insertMerge(src *table, i, side int) *table {
 		}
 	}
 	if side < 0 { // partners come earlier in lexicographic order
-		for r := range out.v {
-			if p := partner[r]; p >= 0 {
-				out.v[r].Add(&out.v[r], &out.v[p])
+		for r, p := range partner {
+			if p >= 0 {
+				addWords(out.at(r), out.at(p))
 			}
 		}
 	} else { // partners come later
-		for r := len(out.v) - 1; r >= 0; r-- {
+		for r := len(partner) - 1; r >= 0; r-- {
 			if p := partner[r]; p >= 0 {
-				out.v[r].Add(&out.v[r], &out.v[p])
+				addWords(out.at(r), out.at(p))
 			}
 		}
 	}
@@ -185,7 +262,6 @@ func (b binomials) insertMerge(src *table, i, side int) *table {
 func (b binomials) elevate(t *table) *table {
 	out := b.newTable(t.parts, t.degree+1)
 	a := make([]int, t.parts)
-	var term big.Int
 	firstComposition(a, out.degree)
 	for r := 0; ; r++ {
 		for j := range a {
@@ -193,10 +269,9 @@ func (b binomials) elevate(t *table) *table {
 				continue
 			}
 			a[j]--
-			term.SetInt64(int64(a[j] + 1))
-			term.Mul(&term, &t.v[b.rank(a)])
+			src := t.at(b.rank(a))
 			a[j]++
-			out.v[r].Add(&out.v[r], &term)
+			mulAddWords(out.at(r), src, uint64(a[j]))
 		}
 		if !nextComposition(a) {
 			return out
