@@ -153,8 +153,8 @@ func TestSmallStateSpaces(t *testing.T) {
 		given  []string
 		states string
 	}{
-		{[]string{"12"}, "() (1)"},   // docs/prefix-states.md, small cases
-		{[]string{"1"}, "()"},        // the same
+		{[]string{"12"}, "() (1)"}, // docs/prefix-states.md, small cases
+		{[]string{"1"}, "()"},      // the same
 		{[]string{"1342"}, "() (1) (12) (123)"},
 		{[]string{"123", "321"}, "() (1) (12) (21)"},
 		{[]string{"213", "312"}, "() (1) (21)"},
