@@ -7,8 +7,8 @@ import (
 
 	"avoidcert/certify"
 	"avoidcert/internal/brute"
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // TestConformanceWithEngine compares the checker's recomputed iterates with

@@ -8,9 +8,9 @@ import (
 	"path/filepath"
 
 	"avoidcert/certify"
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
 	"avoidcert/structure"
-	"avoidcert/transfer"
 )
 
 // A referee checks the certificate that came with a manuscript's claim

@@ -8,9 +8,9 @@ import (
 
 	"avoidcert/certify"
 	"avoidcert/certify/produce"
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
 	"avoidcert/structure"
-	"avoidcert/transfer"
 )
 
 // This file is a test-side producer: it brackets systems with the fast

@@ -4,8 +4,8 @@ import (
 	"context"
 	"fmt"
 
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // Class names what the structure pass proved about a set.

@@ -5,7 +5,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
-	"avoidcert/transfer"
+	transfer "avoidcert/internal/cellform/transfer"
 )
 
 // reachability returns reach[u][v]: a walk of one or more windows leads

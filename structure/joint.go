@@ -5,8 +5,8 @@ import (
 	"math/bits"
 	"slices"
 
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // The joint-pattern test.

@@ -7,8 +7,8 @@ import (
 	"slices"
 	"testing"
 
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // unrank agrees with pattern.Unrank, pattern.Rank needs no standardising,

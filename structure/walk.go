@@ -4,8 +4,8 @@ import (
 	"context"
 	"errors"
 
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // errBudget reports that a bounded search ran out of nodes.

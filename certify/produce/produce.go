@@ -8,11 +8,11 @@ import (
 	"context"
 	"math/big"
 
-	"avoidcert/bounds"
 	"avoidcert/certify"
+	bounds "avoidcert/internal/cellform/bounds"
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
 	"avoidcert/structure"
-	"avoidcert/transfer"
 )
 
 // MaxWitnessM is the largest cell length whose certificates list one

@@ -4,12 +4,12 @@ import (
 	"context"
 	"testing"
 
-	"avoidcert/bounds"
 	"avoidcert/certify"
 	"avoidcert/certify/produce"
+	bounds "avoidcert/internal/cellform/bounds"
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
 	"avoidcert/structure"
-	"avoidcert/transfer"
 )
 
 // Certificates built from real runs pass the independent checker, for a

@@ -11,13 +11,13 @@ import (
 	"strings"
 	"time"
 
-	"avoidcert/bounds"
 	"avoidcert/certify"
 	"avoidcert/certify/produce"
+	bounds "avoidcert/internal/cellform/bounds"
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/structure"
-	"avoidcert/transfer"
 )
 
 func init() {

@@ -5,7 +5,7 @@ import (
 	"fmt"
 	"strings"
 
-	"avoidcert/bounds"
+	bounds "avoidcert/internal/cellform/bounds"
 	"avoidcert/interval"
 )
 

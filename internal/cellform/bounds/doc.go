@@ -57,4 +57,4 @@
 // Aliasing: the package only reads transfer iterates; results are fresh
 // and owned by the caller. Functions are safe for concurrent use on
 // different inputs.
-package bounds
+package cellbounds

@@ -1,4 +1,4 @@
-package transfer
+package celltransfer
 
 import (
 	"math/big"

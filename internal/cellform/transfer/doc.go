@@ -22,4 +22,4 @@
 // exception: Engine.Advance consumes the iterate it is given (and the one it
 // recycles), for runs that cannot afford to keep both. Engine methods may be
 // called concurrently on different iterates.
-package transfer
+package celltransfer

@@ -1,11 +1,11 @@
-package transfer_test
+package celltransfer_test
 
 import (
 	"avoidcert/internal/settest"
 	"context"
 	"testing"
 
-	"avoidcert/transfer"
+	transfer "avoidcert/internal/cellform/transfer"
 )
 
 // benchmarkCounts times Counts for a_0..a_N of a set and reports

@@ -1,4 +1,4 @@
-package bounds
+package cellbounds
 
 import (
 	"context"
@@ -8,10 +8,10 @@ import (
 	"testing"
 	"time"
 
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/structure"
-	"avoidcert/transfer"
 )
 
 func system(t testing.TB, set string) (pattern.Set, transfer.System) {

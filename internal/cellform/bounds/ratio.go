@@ -1,4 +1,4 @@
-package bounds
+package cellbounds
 
 import (
 	"context"
@@ -6,9 +6,9 @@ import (
 	"math/big"
 	"math/bits"
 
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/internal/par"
 	"avoidcert/internal/words"
-	"avoidcert/transfer"
 )
 
 // The bracket at one k compares two polynomials on every cell, both written

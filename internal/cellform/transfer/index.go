@@ -1,4 +1,4 @@
-package transfer
+package celltransfer
 
 // Bernstein indices of degree D in m+1 parts are stored in colex order of
 // the m-subset {s_0, s_1+1, ..., s_{m-1}+m-1} where s_i = a_0+...+a_i.

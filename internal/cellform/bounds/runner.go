@@ -1,4 +1,4 @@
-package bounds
+package cellbounds
 
 import (
 	"context"
@@ -10,8 +10,8 @@ import (
 	"time"
 
 	"avoidcert/internal/bytesize"
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/interval"
-	"avoidcert/transfer"
 )
 
 // firstK is the k of the first bracket: cheap, and past the start-up

@@ -1,12 +1,12 @@
-package transfer_test
+package celltransfer_test
 
 import (
 	"context"
 	"math/big"
 	"testing"
 
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 func counts(t testing.TB, s pattern.Set, N int) []*big.Int {

@@ -1,4 +1,4 @@
-package bounds
+package cellbounds
 
 import (
 	"fmt"

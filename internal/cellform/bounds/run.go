@@ -1,4 +1,4 @@
-package bounds
+package cellbounds
 
 import (
 	"context"
@@ -7,8 +7,8 @@ import (
 	"time"
 
 	"avoidcert/internal/bytesize"
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/interval"
-	"avoidcert/transfer"
 )
 
 // Event reports progress: after every step and after every bracket.

@@ -1,4 +1,4 @@
-package bounds
+package cellbounds
 
 import (
 	"context"
@@ -7,8 +7,8 @@ import (
 	"sort"
 	"testing"
 
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // These tests derive the bracket's ratio from first principles (method

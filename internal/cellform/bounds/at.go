@@ -1,11 +1,11 @@
-package bounds
+package cellbounds
 
 import (
 	"context"
 	"fmt"
 	"math/big"
 
-	"avoidcert/transfer"
+	transfer "avoidcert/internal/cellform/transfer"
 )
 
 // Ratios returns the exact extremes of R_a = G_{k+d}[a] / D_a over the

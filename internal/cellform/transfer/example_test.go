@@ -1,11 +1,11 @@
-package transfer_test
+package celltransfer_test
 
 import (
 	"context"
 	"fmt"
 
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 func ExampleCounts() {

@@ -1,4 +1,4 @@
-package transfer_test
+package celltransfer_test
 
 import (
 	"avoidcert/internal/settest"
@@ -8,8 +8,8 @@ import (
 	"testing"
 
 	"avoidcert/internal/brute"
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // classify returns, for a permutation p of 1..m+k, the cell of its last m

@@ -1,4 +1,4 @@
-package transfer_test
+package celltransfer_test
 
 import (
 	"avoidcert/internal/settest"

@@ -1,4 +1,4 @@
-package transfer_test
+package celltransfer_test
 
 import (
 	"avoidcert/internal/settest"
@@ -13,7 +13,7 @@ import (
 	"strings"
 	"testing"
 
-	"avoidcert/transfer"
+	transfer "avoidcert/internal/cellform/transfer"
 )
 
 // advanced returns the digests of G_0..G_k computed with Advance,

@@ -1,11 +1,11 @@
-package bounds
+package cellbounds
 
 import (
 	"context"
 	"testing"
 	"time"
 
-	"avoidcert/transfer"
+	transfer "avoidcert/internal/cellform/transfer"
 )
 
 // benchRun times Run to a digit target and plain counting (transfer.Counts)

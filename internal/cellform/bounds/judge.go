@@ -1,4 +1,4 @@
-package bounds
+package cellbounds
 
 import (
 	"context"
@@ -6,8 +6,8 @@ import (
 	"math"
 	"math/big"
 
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/interval"
-	"avoidcert/transfer"
 )
 
 // Quantity names what a claim is about.

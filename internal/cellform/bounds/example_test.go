@@ -1,13 +1,13 @@
-package bounds_test
+package cellbounds_test
 
 import (
 	"context"
 	"fmt"
 
-	"avoidcert/bounds"
+	bounds "avoidcert/internal/cellform/bounds"
+	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/interval"
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // A certified growth rate of the consecutive pattern 132 to 15 digits, with

@@ -1,4 +1,4 @@
-package bounds
+package cellbounds
 
 import (
 	"context"
@@ -6,7 +6,7 @@ import (
 	"math/rand"
 	"testing"
 
-	"avoidcert/transfer"
+	transfer "avoidcert/internal/cellform/transfer"
 )
 
 // fill writes x into the words of a table entry.
