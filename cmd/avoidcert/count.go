@@ -9,8 +9,8 @@ import (
 	"text/tabwriter"
 
 	"avoidcert/internal/bytesize"
-	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
+	"avoidcert/transfer"
 )
 
 func init() {

@@ -10,10 +10,10 @@ import (
 	"text/tabwriter"
 
 	bounds "avoidcert/internal/cellform/bounds"
-	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/structure"
+	"avoidcert/transfer"
 )
 
 // manuscript is the demo's input: the claimed table of a fictional

@@ -1,4 +1,4 @@
-package celltransfer_test
+package transfer_test
 
 import (
 	"avoidcert/internal/settest"
@@ -23,7 +23,7 @@ type oeisTable struct {
 // offset, terms as a comma list); lines starting with # are comments.
 func readOEIS(t *testing.T, id string) oeisTable {
 	t.Helper()
-	path := filepath.Join("..", "..", "..", "testdata", "oeis", id+".txt")
+	path := filepath.Join("..", "testdata", "oeis", id+".txt")
 	f, err := os.Open(path)
 	if err != nil {
 		t.Fatal(err)
