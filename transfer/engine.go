@@ -407,3 +407,6 @@ func runningSumTasks(b *block, ix *Indexer, u, v int) []func() {
 	}
 	return tasks
 }
+
+// Limbs returns the words per coefficient of the iterate G_n.
+func (e *Engine) Limbs(n int) int { return limbsFor(n, e.scale) }
