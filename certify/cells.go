@@ -1,7 +1,5 @@
 package certify
 
-import "avoidcert/pattern"
-
 // cellGraph is the window digraph as the checker sees it, built from the
 // allowed windows alone: one vertex per order cell (a permutation of 1..m,
 // by rank) and an edge from the cell of a window's first m entries to the
@@ -16,14 +14,14 @@ type cellGraph struct {
 
 func newCellGraph(win windows) *cellGraph {
 	m := win.m
-	n := pattern.Factorial(m)
+	n := factorial(m)
 	g := &cellGraph{cells: n, succ: make([][]int, n), loop: make([]bool, n), start: win.good}
 	edge := make([]bool, n*n)
 	for w, ok := range win.allowed {
 		if !ok {
 			continue
 		}
-		seq := pattern.Unrank(m+1, w)
+		seq := unrank(m+1, w)
 		from, to := rankOf(seq[:m]), rankOf(seq[1:])
 		edge[from*n+to] = true
 	}
@@ -128,4 +126,48 @@ func (g *cellGraph) unreached() (u, v int, ok bool) {
 		}
 	}
 	return 0, 0, false
+}
+
+// windows holds what a pattern set allows: the allowed windows (the
+// permutations of 1..m+1 that avoid the set) and the good cells (the
+// permutations of 1..m that avoid it, the start cells), both by rank.
+type windows struct {
+	m             int
+	allowed, good []bool
+}
+
+func windowsOf(s patternSet) windows {
+	m := s.longest() - 1
+	return windows{m: m, allowed: avoidingTable(s, m+1), good: avoidingTable(s, m)}
+}
+
+// avoidingTable marks, by rank, the permutations of 1..n that avoid s.
+func avoidingTable(s patternSet, n int) []bool {
+	out := make([]bool, factorial(n))
+	q := identity(n)
+	for r := range out { // q runs through S_n in rank order
+		out[r] = s.avoids(q)
+		nextPerm(q)
+	}
+	return out
+}
+
+func factorial(n int) int {
+	f := 1
+	for i := 2; i <= n; i++ {
+		f *= i
+	}
+	return f
+}
+
+// unrank returns the permutation of 1..n of lexicographic rank r.
+func unrank(n, r int) []int {
+	fact := make([]int, n+1)
+	fact[0] = 1
+	for i := 1; i <= n; i++ {
+		fact[i] = fact[i-1] * i
+	}
+	q, d := make([]int, n), make([]int, n)
+	unrankInto(r, q, d, fact)
+	return q
 }

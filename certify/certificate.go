@@ -4,26 +4,22 @@ import (
 	"fmt"
 	"math/big"
 	"slices"
-
-	"avoidcert/pattern"
+	"strings"
 )
 
-// Format versions. Version 2 is version 1 with a structure section; Marshal
-// writes version 2 for a certificate with a Structure and version 1
-// (exactly the version 1 format) for one without, and Read and Check
-// accept both.
-const (
-	Version  = 2
-	Version1 = 1
-)
+// Version is the certificate format version this package writes and
+// checks: 3, brackets on prefix states (docs/prefix-states.md). Versions 1
+// and 2 (order cells) are refused with a message that says how to
+// re-issue the certificate.
+const Version = 3
 
-// Fixed strings of format versions 1 and 2. A file whose strings differ is
-// not a certificate.
+// Fixed strings of format version 3. A file whose strings differ is not a
+// certificate.
 const (
 	Format        = "avoidcert certificate"
 	EndMarker     = "avoidcert certificate end"
 	Quantity      = "growth rate lambda = lim (a_n/n!)^(1/n)"
-	Method        = "coefficientwise Collatz-Wielandt"
+	Method        = "prefix-state Collatz-Wielandt"
 	MethodVersion = 1
 )
 
@@ -33,13 +29,16 @@ const (
 	MaxFileSize     = 4 << 20 // bytes of a certificate file
 	MaxNumberLength = 4096    // characters of any integer or rational string
 	MaxDigits       = 1000    // significant digits of a decimal
-	MaxK            = 1000    // degree k of a bracket
+	MaxN            = 1000    // n of a bracket
 	MaxStep         = 64      // step d of a bracket
 	MaxBrackets     = 1024
 	MaxGiven        = 10000   // patterns as given
 	MaxTokenLength  = 32      // characters of one given pattern
 	MaxToolLength   = 200     // characters of the tool string
 	MaxWitnesses    = 3628800 // witnesses of a structure section: (2m)! at m = 5
+	// MaxStates is the most prefix states a set can have: every pattern
+	// of length 0..6, 0! + 1! + ... + 6!.
+	MaxStates = 874
 )
 
 // Certificate is a growth-rate certificate. Read returns fresh values;
@@ -51,7 +50,7 @@ type Certificate struct {
 	Statement Statement
 	Evidence  Evidence
 	// Structure is the structure section: a class and a lambda status
-	// with their evidence. nil makes a format version 1 certificate.
+	// with their evidence, or nil for none (it is optional).
 	Structure *Structure
 }
 
@@ -59,8 +58,9 @@ type Certificate struct {
 type Statement struct {
 	// Given lists the patterns as the user wrote them (one token each, digits
 	// or dot-separated entries). Patterns is the irredundant set that
-	// pattern.ParseSet makes of them and Canonical its symmetry-class
-	// representative (Set.Canonical); both are derived.
+	// docs/certificate.md defines (the checker derives it with its own
+	// parser) and Canonical its representative under reversal and
+	// complement; both are derived.
 	Given, Patterns, Canonical []string
 
 	Lambda Range // the growth rate lambda; Hi is required
@@ -89,49 +89,72 @@ type AllN struct {
 	MuLo, MuHi *big.Rat
 }
 
-// Evidence is what the checker recomputes for the bounds. The evidence of
-// the structure section is in Certificate.Structure.
+// Evidence is what the checker recomputes for the bounds: brackets on the
+// prefix states of the set (docs/prefix-states.md). The evidence of the
+// structure section is in Certificate.Structure.
 type Evidence struct {
-	CellLength int // m = longest pattern length - 1 (derived)
+	CellLength int // m = longest pattern length - 1 (derived; the structure section uses cells)
+	States     int // number of prefix states (derived)
 	Brackets   []Bracket
 }
 
-// Bracket is one coefficientwise Collatz-Wielandt bracket: with G_k the
-// iterate of the system on Cells and H = the d-fold integer degree elevation
-// of G_k, Lo*H[a] <= G_{k+d}[a] <= Hi*H[a] at every index a of degree k+d,
-// which bounds lambda^d of that system to [Lo, Hi].
+// Start is how a bracket's system starts (docs/prefix-states.md,
+// "Systems").
+type Start string
+
+const (
+	// StartEmpty: the whole system, G_0 = 1 on the empty state.
+	StartEmpty Start = "empty"
+	// StartOnes: a restricted system, G = 1 on every coefficient of its
+	// states at n_s, the longest of them; its hi bounds the block from
+	// above.
+	StartOnes Start = "ones"
+	// StartWhole: a restricted system started from the whole system's
+	// iterate at n_s; its lo bounds lambda from below.
+	StartWhole Start = "whole"
+)
+
+// Bracket is one coefficientwise Collatz-Wielandt bracket: with G_N the
+// iterate of its system and H the d-fold integer elevation of G_N,
+// Lo*H[a] <= G_(N+d)[a] <= Hi*H[a] at every state of the system and every
+// composition a of N+d-|p|, which bounds lambda^d of that system to
+// [Lo, Hi].
 type Bracket struct {
-	// Cells lists the order cells of the system (ranks of permutations of
-	// 1..m), strictly increasing. All m! cells means the whole system; a
-	// proper subset means the restricted system on those cells.
-	Cells []int
+	// States lists the prefix-state indices of the system, strictly
+	// increasing; all states means the whole system.
+	States []int
+	// Start is StartEmpty for the whole system, StartOnes or StartWhole
+	// for a restricted one.
+	Start Start
 	Step  int      // d >= 1
-	K     int      // k >= 0
+	N     int      // the bracket compares G_N and G_(N+d)
 	Lo    *big.Rat // lower bound of lambda^d
 	Hi    *big.Rat // upper bound of lambda^d; nil means +inf
 	// Upper marks the brackets that carry the upper bound of lambda: one
-	// whole-system bracket, or brackets whose cell sets partition all
-	// cells in an acyclic block order of the window digraph.
+	// whole-system bracket, or StartOnes brackets whose state sets
+	// partition all states in an acyclic block order.
 	Upper bool
-	// IterateDigest is the SHA-256 of the canonical byte stream of G_k
-	// (derived).
+	// IterateDigest is the SHA-256 of G_N's version 3 byte stream
+	// (docs/prefix-states.md; derived).
 	IterateDigest [32]byte
 }
 
 // Derive fills the derived fields of c from its free fields: Patterns and
-// Canonical from Given, CellLength, the decimals from the rationals, and the
-// canonical order of the brackets. AN0 and the iterate digests need the
-// iterates and are left to the producer, and so is the structure section
-// (its derived fields come from the structure pass). Derive reports an error when Given
-// does not parse; it does not check the mathematics (Check does).
+// Canonical from Given, CellLength and States, the decimals from the
+// rationals, and the canonical order of the brackets. AN0 and the iterate
+// digests need the iterates and are left to the producer, and so is the
+// structure section (its derived fields come from the structure pass).
+// Derive reports an error when Given does not parse; it does not check the
+// mathematics (Check does).
 func Derive(c *Certificate) error {
-	set, err := pattern.ParseSet(c.Statement.Given)
+	set, err := parseSet(c.Statement.Given)
 	if err != nil {
 		return fmt.Errorf("statement: patterns given: %v", err)
 	}
-	c.Statement.Patterns = set.Strings()
-	c.Statement.Canonical = set.Canonical().Strings()
-	c.Evidence.CellLength = set.Window() - 1
+	c.Statement.Patterns = set.strings()
+	c.Statement.Canonical = set.canonical().strings()
+	c.Evidence.CellLength = set.longest() - 1
+	c.Evidence.States = len(newStateSpace(set).states)
 	for _, r := range []*Range{&c.Statement.Lambda, &c.Statement.Radius} {
 		r.LoDecimal, r.HiDecimal = "", ""
 		if r.Digits < 1 || r.Digits > MaxDigits {
@@ -148,17 +171,21 @@ func Derive(c *Certificate) error {
 	return nil
 }
 
-// compareBrackets is the canonical bracket order: more cells first, then
-// the cell lists lexicographically, then the step, then k.
+// compareBrackets is the canonical bracket order: more states first, then
+// the state lists lexicographically, then the start (empty, ones, whole),
+// the step and N.
 func compareBrackets(x, y Bracket) int {
-	if len(x.Cells) != len(y.Cells) {
-		return len(y.Cells) - len(x.Cells)
+	if len(x.States) != len(y.States) {
+		return len(y.States) - len(x.States)
 	}
-	if c := slices.Compare(x.Cells, y.Cells); c != 0 {
+	if c := slices.Compare(x.States, y.States); c != 0 {
 		return c
+	}
+	if x.Start != y.Start {
+		return strings.Compare(string(x.Start), string(y.Start))
 	}
 	if x.Step != y.Step {
 		return x.Step - y.Step
 	}
-	return x.K - y.K
+	return x.N - y.N
 }

@@ -1,58 +1,86 @@
 package certify
 
 import (
+	"context"
 	"errors"
 	"fmt"
-	"math"
 	"math/big"
 	"slices"
 	"strings"
-
-	"avoidcert/pattern"
 )
 
 // Defaults of CheckOptions.
 const (
 	// DefaultMaxWork is the default cap on the estimated recomputation
 	// work, in coefficient operations (one big-integer addition or
-	// multiply-add each); about a minute on one core.
-	DefaultMaxWork = 1_000_000_000
+	// multiply-add each; see docs/certificate.md, "Limits", for the
+	// measured time of one). It is set so that every certificate the
+	// command line's bound writes at its defaults passes at this default:
+	// the memory estimate is the binding limit, this one stops only
+	// hostile certificates.
+	DefaultMaxWork = 1_000_000_000_000
 	// DefaultMaxMemory is the default cap on the estimated memory of the
-	// recomputed iterates, in bytes.
-	DefaultMaxMemory = 2 << 30
+	// recomputation, in bytes: 8 GiB, the default memory budget of bound.
+	DefaultMaxMemory = 8 << 30
 )
 
 // ErrLimit is wrapped by every refusal that a raised CheckOptions limit
-// could lift.
+// could lift; the error is a *LimitError.
 var ErrLimit = errors.New("over the checker's limit")
+
+// LimitError is a refusal before the work: the estimate Need of Resource
+// ("work" in coefficient operations, "memory" in bytes) is over Limit.
+// It unwraps to ErrLimit.
+type LimitError struct {
+	Resource    string // "work" or "memory"
+	Need, Limit float64
+}
+
+func (e *LimitError) Error() string {
+	if e.Resource == "memory" {
+		return fmt.Sprintf("%v: recomputing the evidence needs about %.3g bytes of memory, above the limit of %.3g; raise the memory limit (CheckOptions.MaxMemory, --max-memory) if you expect a certificate this large", ErrLimit, e.Need, e.Limit)
+	}
+	return fmt.Sprintf("%v: recomputing the evidence needs about %.3g coefficient operations, above the limit of %.3g; raise the work limit (CheckOptions.MaxWork, --max-work) if you expect a certificate this large", ErrLimit, e.Need, e.Limit)
+}
+
+func (e *LimitError) Unwrap() error { return ErrLimit }
 
 // CheckOptions tunes Check.
 type CheckOptions struct {
-	// Expect binds the check to a pattern set: a certificate whose
-	// irredundant set differs is refused. The zero Set binds nothing;
-	// callers that know which set is claimed must set it.
-	Expect pattern.Set
+	// Expect binds the check to a pattern set: the patterns as a user
+	// writes them ("1342", "1.3.4.2", or comma lists "123,321"), parsed
+	// by the checker's own parser. A certificate whose irredundant set
+	// differs is refused. Empty binds nothing; callers that know which
+	// set is claimed must set it.
+	Expect []string
 	// MaxWork caps the estimated work (0: DefaultMaxWork).
 	MaxWork int64
 	// MaxMemory caps the estimated memory in bytes (0: DefaultMaxMemory).
 	MaxMemory int64
+	// Progress, when not nil, is called from Check's goroutine after each
+	// step of the recomputation with the work done so far and the
+	// estimated total, in the units of MaxWork. done never exceeds total.
+	Progress func(done, total int64)
 }
 
 // Check verifies a certificate: nil means every claim of its statement is
 // proved by its evidence, recomputed here from the pattern set alone.
-// Otherwise the error's message names the first failure, on one line.
+// Otherwise the error's message names the first failure, on one line,
+// quoting at most a few dozen characters of any value.
 //
-// Check recomputes the iterate G_k of every bracket's system from the
-// combinatorial recurrence (it shares no code with the fast engine) and
-// verifies its digest, a_{n0}, and every bracket inequality exactly; then
-// that the statement follows from the brackets, that every derived field
-// equals its derivation, and that the set is opts.Expect when that is set.
-// With a structure section (format version 2) it proves the stated class
+// Check builds the prefix states of the set and recomputes the iterate of
+// every bracket's system with its own code (it shares no code with the
+// engine), and verifies its digest, a_(n0), and every bracket inequality
+// exactly; then that the statement follows from the brackets, that every
+// derived field equals its derivation, and that the set is opts.Expect
+// when that is set. With a structure section it proves the stated class
 // and lambda status with its own code: the window digraph, the witnesses
 // or a recomputation of the joint-pattern sets R_k, and the cyclic
-// avoider (see Structure). It refuses, before doing the work, a certificate whose estimated work or
-// memory is over the limits. Check does not modify c.
-func Check(c *Certificate, opts CheckOptions) error {
+// avoider (see Structure). It refuses, before doing the work, a
+// certificate whose estimated work or memory is over the limits
+// (errors.Is(err, ErrLimit)). Cancelling ctx stops it within one state's
+// step; the error then wraps ctx.Err(). Check does not modify c.
+func Check(ctx context.Context, c *Certificate, opts CheckOptions) error {
 	// a private, validated copy: nothing the caller holds can change under us
 	w, err := toWire(c)
 	if err != nil {
@@ -78,64 +106,95 @@ func Check(c *Certificate, opts CheckOptions) error {
 	if err := ck.verifyStructure(); err != nil {
 		return fmt.Errorf("certificate rejected: %v", err)
 	}
-	if err := ck.recompute(); err != nil {
+	if err := ck.recompute(ctx); err != nil {
+		if ctx.Err() != nil {
+			return fmt.Errorf("check interrupted: %w", ctx.Err())
+		}
 		return fmt.Errorf("certificate rejected: %v", err)
 	}
 	return nil
 }
 
 type checker struct {
-	c     *Certificate
-	opts  CheckOptions
-	set   pattern.Set
-	win   windows
-	m     int
-	cells int // m!
-	allN  int // index of the bracket the all-n bounds come from
+	c    *Certificate
+	opts CheckOptions
+	set  patternSet
+	sp   *stateSpace
+	win  windows
+	m    int
+	allN int // index of the bracket the all-n bounds come from
 	// zeroByJoints reports that the structure section claims lambda = 0
 	// where it must be decided on the joint patterns
 	zeroByJoints bool
+	// the progress of recompute, in work units
+	done, total float64
 }
 
 // describe names a bracket in messages.
 func (ck *checker) describe(i int) string {
 	b := ck.c.Evidence.Brackets[i]
 	what := "whole system"
-	if len(b.Cells) < ck.cells {
-		what = fmt.Sprintf("%d of %d cells", len(b.Cells), ck.cells)
+	if !ck.whole(b) {
+		what = fmt.Sprintf("%d of %d states, start %s", len(b.States), len(ck.sp.states), b.Start)
 	}
-	return fmt.Sprintf("evidence.brackets[%d] (%s, step %d, k %d)", i, what, b.Step, b.K)
+	return fmt.Sprintf("evidence.brackets[%d] (%s, step %d, n %d)", i, what, b.Step, b.N)
 }
 
-func (ck *checker) whole(b Bracket) bool { return len(b.Cells) == ck.cells }
+func (ck *checker) whole(b Bracket) bool { return len(b.States) == len(ck.sp.states) }
+
+// startN is the n at which a bracket's system starts: 0 for the whole
+// system, the longest of its states for a restricted one.
+func (ck *checker) startN(b Bracket) int {
+	if ck.whole(b) {
+		return 0
+	}
+	n := 0
+	for _, p := range b.States {
+		n = max(n, len(ck.sp.states[p]))
+	}
+	return n
+}
 
 // statement checks everything that needs no iterate: the set, the derived
 // fields, the form of the brackets, and that the claims follow from the
 // brackets' claims.
 func (ck *checker) statement() error {
 	st := &ck.c.Statement
-	set, err := pattern.ParseSet(st.Given)
+	set, err := parseSet(st.Given)
 	if err != nil {
 		return fmt.Errorf("statement.patterns_given: %v", err)
 	}
-	if !slices.Equal(set.Given(), st.Given) {
-		return errors.New("statement.patterns_given: write one pattern per entry, without spaces or commas")
+	if !slices.Equal(set.strings(), st.Patterns) {
+		return fmt.Errorf("statement.patterns: %s is not the irredundant set %s of the patterns given", abbreviate(strings.Join(st.Patterns, ",")), abbreviate(strings.Join(set.strings(), ",")))
 	}
-	if !slices.Equal(set.Strings(), st.Patterns) {
-		return fmt.Errorf("statement.patterns: %s is not the irredundant set %s of the patterns given", abbreviate(strings.Join(st.Patterns, ",")), abbreviate(set.String()))
+	canon := set.canonical().strings()
+	if !slices.Equal(canon, st.Canonical) {
+		return fmt.Errorf("statement.canonical_patterns: %s is not the symmetry representative %s", abbreviate(strings.Join(st.Canonical, ",")), abbreviate(strings.Join(canon, ",")))
 	}
-	if canon := set.Canonical(); !slices.Equal(canon.Strings(), st.Canonical) {
-		return fmt.Errorf("statement.canonical_patterns: %s is not the symmetry representative %s", abbreviate(strings.Join(st.Canonical, ",")), abbreviate(canon.String()))
-	}
-	if len(ck.opts.Expect.Patterns()) > 0 && !ck.opts.Expect.Equal(set) {
-		return fmt.Errorf("the certificate is for the set %s, not for the expected set %s", abbreviate(set.String()), abbreviate(ck.opts.Expect.String()))
+	if len(ck.opts.Expect) > 0 {
+		var tokens []string
+		for _, e := range ck.opts.Expect {
+			for _, tok := range strings.Split(e, ",") {
+				tokens = append(tokens, strings.TrimSpace(tok))
+			}
+		}
+		expect, err := parseSet(tokens)
+		if err != nil {
+			return fmt.Errorf("the expected set: %v", err)
+		}
+		if !slices.Equal(expect.strings(), set.strings()) {
+			return fmt.Errorf("the certificate is for the set %s, not for the expected set %s", abbreviate(strings.Join(set.strings(), ",")), abbreviate(strings.Join(expect.strings(), ",")))
+		}
 	}
 	ck.set = set
+	ck.sp = newStateSpace(set)
 	ck.win = windowsOf(set)
 	ck.m = ck.win.m
-	ck.cells = pattern.Factorial(ck.m)
 	if ck.c.Evidence.CellLength != ck.m {
 		return fmt.Errorf("evidence.cell_length: %d, but the longest pattern has length %d, so m = %d", ck.c.Evidence.CellLength, ck.m+1, ck.m)
+	}
+	if n := len(ck.sp.states); ck.c.Evidence.States != n {
+		return fmt.Errorf("evidence.states: %d, but the set has %d prefix states", ck.c.Evidence.States, n)
 	}
 
 	for _, r := range []struct {
@@ -156,22 +215,37 @@ func (ck *checker) statement() error {
 
 	brackets := ck.c.Evidence.Brackets
 	for i, b := range brackets {
-		for j, cell := range b.Cells {
-			if cell < 0 || cell >= ck.cells {
-				return fmt.Errorf("evidence.brackets[%d].cells: cell %d out of range 0..%d", i, cell, ck.cells-1)
+		for j, p := range b.States {
+			if p < 0 || p >= len(ck.sp.states) {
+				return fmt.Errorf("evidence.brackets[%d].states: state %d out of range 0..%d", i, p, len(ck.sp.states)-1)
 			}
-			if j > 0 && cell <= b.Cells[j-1] {
-				return fmt.Errorf("evidence.brackets[%d].cells: not strictly increasing at entry %d", i, j)
+			if j > 0 && p <= b.States[j-1] {
+				return fmt.Errorf("evidence.brackets[%d].states: not strictly increasing at entry %d", i, j)
 			}
 		}
+		switch {
+		case ck.whole(b) && b.Start != StartEmpty:
+			return fmt.Errorf("evidence.brackets[%d].start: %s, but all states make the whole system, which starts empty", i, b.Start)
+		case !ck.whole(b) && b.Start == StartEmpty:
+			return fmt.Errorf("evidence.brackets[%d].start: empty is the whole system's start; a restricted system starts ones or whole", i)
+		case b.N < max(ck.startN(b), ck.sp.maxLen*boolInt(ck.whole(b))):
+			return fmt.Errorf("%s: n is below %d, where this system's brackets begin (every state of it must have coefficients)", ck.describe(i), max(ck.startN(b), ck.sp.maxLen*boolInt(ck.whole(b))))
+		}
 		if i > 0 && compareBrackets(brackets[i-1], b) >= 0 {
-			return fmt.Errorf("evidence.brackets[%d]: brackets must be distinct and in canonical order (more cells first, then cells, step, k)", i)
+			return fmt.Errorf("evidence.brackets[%d]: brackets must be distinct and in canonical order (more states first, then states, start, step, n)", i)
 		}
 	}
 	if err := ck.claims(); err != nil {
 		return err
 	}
 	return ck.structureClaims()
+}
+
+func boolInt(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
 }
 
 // claims checks that the statement follows from the brackets' own claims
@@ -199,24 +273,24 @@ func (ck *checker) claims() error {
 		return errors.New("statement.radius.hi: radius.hi * lambda.lo is below 1, so radius.hi is not an upper bound of 1/lambda")
 	}
 
-	// lower end: any bracket, on any cell set (monotonicity)
+	// lower end: the whole system, or a restricted one started from it
 	loPow, hiPow := newPowers(lam.Lo), newPowers(lam.Hi)
 	if lam.Lo.Sign() > 0 {
 		found := false
 		for _, b := range brackets {
-			if loPow.cmp(b.Step, b.Lo) <= 0 {
+			if b.Start != StartOnes && loPow.cmp(b.Step, b.Lo) <= 0 {
 				found = true
 				break
 			}
 		}
 		if !found {
-			return errors.New("statement.lambda.lo: no bracket has lo >= lambda.lo^step")
+			return errors.New("statement.lambda.lo: no bracket of the whole system or with start whole has lo >= lambda.lo^step")
 		}
 	}
 
-	// upper end: the brackets marked upper partition the cells in an
-	// acyclic block order
-	block := make([]int, ck.cells)
+	// upper end: the brackets marked upper partition the states, one
+	// whole-system bracket or ones-start blocks in an acyclic order
+	block := make([]int, len(ck.sp.states))
 	for i := range block {
 		block[i] = -1
 	}
@@ -225,26 +299,28 @@ func (ck *checker) claims() error {
 		if !b.Upper {
 			continue
 		}
-		if b.Hi == nil {
+		switch {
+		case b.Hi == nil:
 			return fmt.Errorf("%s: carries the upper bound but its hi is infinite", ck.describe(i))
-		}
-		if hiPow.cmp(b.Step, b.Hi) < 0 {
+		case b.Start == StartWhole:
+			return fmt.Errorf("%s: a bracket with start whole bounds lambda from below only; an upper block starts ones", ck.describe(i))
+		case hiPow.cmp(b.Step, b.Hi) < 0:
 			return fmt.Errorf("statement.lambda.hi: lambda.hi^%d is below the hi of %s", b.Step, ck.describe(i))
 		}
-		for _, cell := range b.Cells {
-			if block[cell] >= 0 {
-				return fmt.Errorf("%s: cell %d is also in evidence.brackets[%d]; the brackets marked upper must partition the cells", ck.describe(i), cell, block[cell])
+		for _, p := range b.States {
+			if block[p] >= 0 {
+				return fmt.Errorf("%s: state %d is also in evidence.brackets[%d]; the brackets marked upper must partition the states", ck.describe(i), p, block[p])
 			}
-			block[cell] = i
+			block[p] = i
 		}
 		upper = append(upper, i)
 	}
 	if len(upper) == 0 {
 		return errors.New("evidence: no bracket is marked upper, so nothing proves statement.lambda.hi")
 	}
-	for cell, b := range block {
+	for p, b := range block {
 		if b < 0 {
-			return fmt.Errorf("evidence: cell %d is in no bracket marked upper; they must partition the cells", cell)
+			return fmt.Errorf("evidence: state %d is in no bracket marked upper; they must partition the states", p)
 		}
 	}
 	if len(upper) > 1 {
@@ -253,16 +329,16 @@ func (ck *checker) claims() error {
 		}
 	}
 
-	// all-n bounds: the whole-system step-1 bracket with k = n0 - m
+	// all-n bounds: the whole-system step-1 bracket with N = n0
 	a := st.AllN
 	ck.allN = -1
 	for i, b := range brackets {
-		if ck.whole(b) && b.Step == 1 && b.K+ck.m == a.N0 {
+		if ck.whole(b) && b.Step == 1 && b.N == a.N0 {
 			ck.allN = i
 		}
 	}
 	if ck.allN < 0 {
-		return fmt.Errorf("statement.all_n.n0: no whole-system bracket with step 1 and k = n0 - m = %d", a.N0-ck.m)
+		return fmt.Errorf("statement.all_n.n0: no whole-system bracket with step 1 and n = n0 = %d", a.N0)
 	}
 	b := brackets[ck.allN]
 	if a.MuLo.Cmp(b.Lo) > 0 {
@@ -277,28 +353,25 @@ func (ck *checker) claims() error {
 	return nil
 }
 
-// acyclic checks that the window digraph visits the blocks in a fixed
-// order: the digraph of blocks (an edge for every allowed window whose end
-// cells lie in different blocks) has no cycle. Then T is block-triangular
+// acyclic checks that the moves visit the blocks in a fixed order: the
+// digraph of blocks (an edge for every move of the whole system between
+// states of different blocks) has no cycle. Then T' is block-triangular
 // and its spectral radius is the largest over the blocks.
 func (ck *checker) acyclic(block, upper []int) error {
 	out := map[int]map[int]bool{}
 	indegree := map[int]int{}
-	for w, ok := range ck.win.allowed {
-		if !ok {
-			continue
+	for p, moves := range ck.sp.moves {
+		for _, mv := range moves {
+			from, to := block[p], block[mv.to]
+			if !mv.allowed || from == to || out[from][to] {
+				continue
+			}
+			if out[from] == nil {
+				out[from] = map[int]bool{}
+			}
+			out[from][to] = true
+			indegree[to]++
 		}
-		win := pattern.Unrank(ck.m+1, w)
-		from := block[pattern.Rank(pattern.Standardize(win[:ck.m]))]
-		to := block[pattern.Rank(pattern.Standardize(win[1:]))]
-		if from == to || out[from][to] {
-			continue
-		}
-		if out[from] == nil {
-			out[from] = map[int]bool{}
-		}
-		out[from][to] = true
-		indegree[to]++
 	}
 	// Kahn: repeatedly remove a block with no incoming edge
 	var ready []int
@@ -319,167 +392,35 @@ func (ck *checker) acyclic(block, upper []int) error {
 		}
 	}
 	if removed < len(upper) {
-		return errors.New("evidence: the brackets marked upper are not in block-triangular order: allowed windows lead around a cycle of their cell sets, so their brackets do not bound lambda")
+		return errors.New("evidence: the brackets marked upper are not in block-triangular order: moves lead around a cycle of their state sets, so their brackets do not bound lambda")
 	}
 	return nil
 }
 
-// group is the brackets that share one cell set, hence one system.
+// group is the brackets that share one system (states and start).
 type group struct {
-	cells    []int // nil: whole system
+	states   []int // nil: whole system
+	start    Start
 	brackets []int
-	degree   int // the largest k+d
+	top      int // the largest N+d
 }
 
 func (ck *checker) groups() []group {
 	var gs []group
 	for i, b := range ck.c.Evidence.Brackets {
-		var cells []int
+		var states []int
 		if !ck.whole(b) {
-			cells = b.Cells
+			states = b.States
 		}
-		if n := len(gs); n > 0 && slices.Equal(gs[n-1].cells, cells) {
+		if n := len(gs); n > 0 && slices.Equal(gs[n-1].states, states) && gs[n-1].start == b.Start {
 			gs[n-1].brackets = append(gs[n-1].brackets, i)
-			gs[n-1].degree = max(gs[n-1].degree, b.K+b.Step)
+			gs[n-1].top = max(gs[n-1].top, b.N+b.Step)
 			continue
 		}
-		// canonical order keeps brackets of one cell set adjacent
-		gs = append(gs, group{cells: cells, brackets: []int{i}, degree: b.K + b.Step})
+		// canonical order keeps the brackets of one system adjacent
+		gs = append(gs, group{states: states, start: b.Start, brackets: []int{i}, top: b.N + b.Step})
 	}
 	return gs
-}
-
-// limits estimates the recomputation's work and memory and refuses it
-// above the options' limits.
-func (ck *checker) limits() error {
-	m := float64(ck.m)
-	count := func(D int) float64 { // C(D+m, m)
-		c := 1.0
-		for i := 1; i <= ck.m; i++ {
-			c = c * float64(D+i) / float64(i)
-		}
-		return c
-	}
-	work, memory := 0.0, 0.0
-	for _, g := range ck.groups() {
-		size := float64(len(g.cells))
-		if g.cells == nil {
-			size = float64(ck.cells)
-		}
-		for D := 1; D <= g.degree; D++ {
-			work += size * count(D) * float64(D)
-		}
-		// bytes of one coefficient at the top degree: a big.Int header and
-		// words for about log2((m+degree)!) bits
-		lg, _ := math.Lgamma(float64(ck.m+g.degree) + 1)
-		perCoef := 32 + 8*(lg/math.Ln2/64+1)
-		held := 2.0 // the current and the next iterate
-		for _, i := range g.brackets {
-			b := ck.c.Evidence.Brackets[i]
-			for j := 1; j <= b.Step; j++ {
-				work += size * count(b.K+j) * (m + 1)
-			}
-			// the comparisons multiply by lo and hi: long numbers cost more
-			digits := len(formatRational(b.Lo))
-			if b.Hi != nil {
-				digits += len(formatRational(b.Hi))
-			}
-			work += float64(ck.cells) * (count(b.K) + 2*count(b.K+b.Step)*(1+float64(digits)/64))
-			held++ // its pending elevation
-		}
-		memory = max(memory, held*float64(ck.cells)*count(g.degree)*perCoef)
-	}
-	// the structure section is verified first, on its own memory
-	sw, sm := ck.structureWork()
-	work += sw
-	memory = max(memory, sm)
-	if work > float64(ck.opts.MaxWork) {
-		return fmt.Errorf("%w: recomputing the evidence needs about %.3g coefficient operations, above the limit of %.3g; raise the work limit if you expect a certificate this large", ErrLimit, work, float64(ck.opts.MaxWork))
-	}
-	if memory > float64(ck.opts.MaxMemory) {
-		return fmt.Errorf("%w: recomputing the evidence needs about %.3g bytes of memory, above the limit of %.3g; raise the memory limit if you expect a certificate this large", ErrLimit, memory, float64(ck.opts.MaxMemory))
-	}
-	return nil
-}
-
-// recompute runs every system's iteration and checks each bracket against
-// it.
-func (ck *checker) recompute() error {
-	brackets := ck.c.Evidence.Brackets
-	for _, gr := range ck.groups() {
-		sys := newSystem(ck.win, gr.cells, gr.degree)
-		pending := map[int]*iterate{} // bracket -> elevated G_k, waiting for G_{k+d}
-		g := sys.first()
-		for D := 0; D <= gr.degree; D++ {
-			if D > 0 {
-				g = sys.next(g)
-			}
-			for _, i := range gr.brackets {
-				b := brackets[i]
-				if b.K+b.Step == D {
-					if err := ck.compare(i, sys, pending[i], g); err != nil {
-						return err
-					}
-					delete(pending, i)
-				}
-				if b.K != D {
-					continue
-				}
-				if sys.digest(g) != b.IterateDigest {
-					return fmt.Errorf("%s: iterate_sha256 does not match the recomputed G_%d", ck.describe(i), b.K)
-				}
-				if b.Lo.Sign() > 0 && g.isZero() {
-					return fmt.Errorf("%s: lo > 0 but G_%d is zero, so it bounds nothing", ck.describe(i), b.K)
-				}
-				if i == ck.allN {
-					if s := g.sum(); s.Cmp(ck.c.Statement.AllN.AN0) != 0 {
-						return fmt.Errorf("statement.all_n.a_n0: %s is not a_%d = %s, the sum of G_%d", abbreviate(ck.c.Statement.AllN.AN0.String()), ck.c.Statement.AllN.N0, abbreviate(s.String()), b.K)
-					}
-				}
-				h := g
-				for range b.Step {
-					h = sys.elevate(h)
-				}
-				pending[i] = h
-			}
-		}
-	}
-	return nil
-}
-
-// compare checks lo*H[a] <= N[a] <= hi*H[a] at every index a of degree
-// k+d, where H is the elevated G_k and N = G_{k+d}.
-func (ck *checker) compare(i int, sys *system, h, n *iterate) error {
-	b := ck.c.Evidence.Brackets[i]
-	var left, right big.Int
-	var err error
-	sys.each(n.degree, true, func(cell, r int, a []int) {
-		if err != nil {
-			return
-		}
-		den, num := sys.at(h, cell, r), sys.at(n, cell, r)
-		// lo <= num/den:  lo.num * den <= lo.den * num
-		left.Mul(b.Lo.Num(), den)
-		right.Mul(b.Lo.Denom(), num)
-		if left.Cmp(&right) > 0 {
-			err = fmt.Errorf("%s: lo is above the ratio G_%d/elevated G_%d = %s/%s at cell %d, index %v", ck.describe(i), n.degree, b.K, abbreviate(num.String()), abbreviate(den.String()), cell, a)
-			return
-		}
-		// num/den <= hi:  num * hi.den <= hi.num * den
-		if b.Hi == nil {
-			return
-		}
-		left.Mul(num, b.Hi.Denom())
-		right.Mul(b.Hi.Num(), den)
-		switch {
-		case left.Cmp(&right) <= 0:
-		case den.Sign() == 0:
-			err = fmt.Errorf("%s: G_%d is positive where the elevated G_%d is 0 (cell %d, index %v), so hi must be infinite", ck.describe(i), n.degree, b.K, cell, a)
-		default:
-			err = fmt.Errorf("%s: hi is below the ratio G_%d/elevated G_%d = %s/%s at cell %d, index %v", ck.describe(i), n.degree, b.K, abbreviate(num.String()), abbreviate(den.String()), cell, a)
-		}
-	})
-	return err
 }
 
 // powers compares powers of one rational p/q with other rationals, in

@@ -1,44 +1,132 @@
 package certify
 
 import (
+	"context"
 	"math/big"
-
-	"avoidcert/pattern"
 )
 
-// IterateDigest recomputes G_k of the system of s on cells (nil: the whole
-// system) with the checker's own code, for the conformance tests.
-func IterateDigest(s pattern.Set, cells []int, k int) (digest [32]byte, sum *big.Int) {
-	sys := newSystem(windowsOf(s), cells, k)
-	g := sys.first()
-	for range k {
-		g = sys.next(g)
+// Exports for the tests of package certify_test. The tests build their
+// certificates with MakeBracket, from the checker's own iteration: the
+// producer of real certificates is the engine's (certify/produce), and the
+// engine's agreement with the checker is tested in internal/conformance.
+
+// Canonical exposes the checker's own irredundant set and its symmetry
+// representative of the given tokens.
+func Canonical(given []string) (patterns, canonical []string, err error) {
+	s, err := parseSet(given)
+	if err != nil {
+		return nil, nil, err
 	}
-	return sys.digest(g), g.sum()
+	return s.strings(), s.canonical().strings(), nil
 }
 
-// JointSets returns the members (ranks over S_2m) of R_m, ..., R_top and
-// of the domain, recomputed with the checker's own code, for the
-// conformance tests.
-func JointSets(s pattern.Set, top int) (sets [][]int, domain []int) {
-	jp := newJointPatterns(windowsOf(s))
-	members := func(b bitset) []int {
-		var out []int
-		b.each(func(r int) bool {
-			out = append(out, r)
-			return true
-		})
-		return out
+// StateStrings returns the prefix states of the set, in state order.
+func StateStrings(given []string) ([]string, error) {
+	s, err := parseSet(given)
+	if err != nil {
+		return nil, err
 	}
-	cur := jp.first
-	for k := jp.m; k <= top; k++ {
-		if k > jp.m {
-			cur = jp.step(cur)
+	var out []string
+	for _, p := range newStateSpace(s).states {
+		out = append(out, "("+formatPerm(p)+")")
+	}
+	return out, nil
+}
+
+// Iterate returns G_n of the system on states (nil: whole) with the given
+// start, as one slice of coefficients per state (nil outside the system or
+// for states longer than n), its digest and its sum.
+func Iterate(given []string, states []int, start Start, n int) (coef [][]*big.Int, digest [32]byte, sum *big.Int) {
+	sys, g := iterateTo(given, states, start, n)
+	for _, t := range g.tables {
+		var c []*big.Int
+		if t != nil {
+			for r := range t.v {
+				c = append(c, new(big.Int).Set(&t.v[r]))
+			}
 		}
-		sets = append(sets, members(cur))
+		coef = append(coef, c)
 	}
-	return sets, members(jp.domain)
+	return coef, sys.digest(g), g.sum()
 }
 
-// RankOf exposes the checker's rank of the pattern of a sequence.
-func RankOf(seq []int) int { return rankOf(seq) }
+func iterateTo(given []string, states []int, start Start, n int) (*system, *iterate) {
+	s, err := parseSet(given)
+	if err != nil {
+		panic(err)
+	}
+	sp := newStateSpace(s)
+	sys := newSystem(sp, states, n+MaxStep)
+	var g *iterate
+	from := 0
+	for _, p := range states {
+		from = max(from, len(sp.states[p]))
+	}
+	switch start {
+	case StartEmpty:
+		g = sys.emptyStart()
+	case StartOnes:
+		g = sys.onesStart(from)
+	case StartWhole:
+		whole := newSystem(sp, nil, from)
+		g = whole.emptyStart()
+		for g.n < from {
+			g, _ = whole.next(context.Background(), g)
+		}
+		g = sys.restrict(g)
+	}
+	for g.n < n {
+		g, _ = sys.next(context.Background(), g)
+	}
+	return sys, g
+}
+
+// MakeBracket returns the bracket of the system on states (nil: whole)
+// with the given start, step d and N, with Lo and Hi the exact least and
+// largest ratios G_(N+d)/H (Hi nil where some H is 0 under a positive
+// G_(N+d)), and the sum of G_N.
+func MakeBracket(given []string, states []int, start Start, d, N int, upper bool) (Bracket, *big.Int) {
+	sys, g := iterateTo(given, states, start, N)
+	h, _ := sys.elevated(context.Background(), g, d)
+	next := g
+	for next.n < N+d {
+		next, _ = sys.next(context.Background(), next)
+	}
+	var lo, hi *big.Rat
+	infinite := false
+	for p, t := range next.tables {
+		if t == nil {
+			continue
+		}
+		for r := range t.v {
+			H := new(big.Int)
+			if h.tables[p] != nil {
+				H = &h.tables[p].v[r]
+			}
+			if H.Sign() == 0 {
+				infinite = infinite || t.v[r].Sign() > 0
+				continue
+			}
+			ratio := new(big.Rat).SetFrac(&t.v[r], H)
+			if lo == nil || ratio.Cmp(lo) < 0 {
+				lo = ratio
+			}
+			if hi == nil || ratio.Cmp(hi) > 0 {
+				hi = ratio
+			}
+		}
+	}
+	if lo == nil {
+		lo, hi = new(big.Rat), new(big.Rat)
+	}
+	if infinite {
+		hi = nil
+	}
+	all := states
+	if all == nil {
+		for p := range sys.in {
+			all = append(all, p)
+		}
+	}
+	return Bracket{States: all, Start: start, Step: d, N: N, Lo: lo, Hi: hi, Upper: upper, IterateDigest: sys.digest(g)}, g.sum()
+}

@@ -1,158 +1,64 @@
 package certify_test
 
 import (
-	"context"
 	"math"
 	"math/big"
 	"testing"
 
 	"avoidcert/certify"
-	"avoidcert/certify/produce"
-	transfer "avoidcert/internal/cellform/transfer"
-	"avoidcert/pattern"
-	"avoidcert/structure"
+	"avoidcert/internal/brute"
 )
 
-// This file is a test-side producer: it brackets systems with the fast
-// engine's iterates and forms the ratios with big.Rat, independently of
-// the checker's code.
+// The tests' producer: certificates assembled from brackets that
+// certify.MakeBracket computes with the checker's own iteration (exact
+// least and largest ratios). The engine's producer is certify/produce; its
+// agreement with the checker is tested in internal/conformance.
 
 const testTool = "avoidcert certify tests"
 
-// engineBracket is a bracket of lambda^d for the system of s on cells (nil:
-// whole) at degree k, with lo and hi the exact extreme ratios, and the sum
-// of G_k.
-type engineBracket struct {
-	certify.Bracket
-	sum *big.Int
+// spec names one bracket: its system (nil states: whole), start, step, N,
+// and whether it carries the upper bound.
+type spec struct {
+	states []int
+	start  certify.Start
+	step   int
+	n      int
+	upper  bool
 }
 
-func bracketFromEngine(t testing.TB, s pattern.Set, cells []int, k, d int, upper bool) engineBracket {
-	t.Helper()
-	sys := transfer.FromSet(s)
-	all := make([]int, sys.Cells())
-	for c := range all {
-		all[c] = c
-	}
-	if cells != nil {
-		in := make([]bool, sys.Cells())
-		for _, c := range cells {
-			in[c] = true
-		}
-		sys = sys.Restrict(in)
-	} else {
-		cells = all
-	}
-	eng := transfer.New(sys)
-	g := eng.Start()
-	var gk *transfer.Iterate
-	for i := 0; ; i++ {
-		if i == k {
-			gk = g
-		}
-		if i == k+d {
-			break
-		}
-		var err error
-		if g, err = eng.Next(context.Background(), g); err != nil {
-			t.Fatal(err)
-		}
-	}
-	m := sys.M
-	ix := transfer.NewIndexer(m, k+d)
-	// elevate G_k d times: H'[a] = sum_t a_t H[a - e_t]
-	h := make([][]*big.Int, sys.Cells())
-	for c := range h {
-		for r := range ix.Count(k) {
-			h[c] = append(h[c], gk.Int(c, r))
-		}
-	}
-	a := make([]int, m+1)
-	for D := k + 1; D <= k+d; D++ {
-		for c := range h {
-			next := make([]*big.Int, ix.Count(D))
-			for r := range next {
-				ix.Unrank(D, r, a)
-				next[r] = new(big.Int)
-				for i := range a {
-					if a[i] > 0 {
-						a[i]--
-						next[r].Add(next[r], new(big.Int).Mul(big.NewInt(int64(a[i]+1)), h[c][ix.Rank(a)]))
-						a[i]++
-					}
-				}
-			}
-			h[c] = next
-		}
-	}
-	var lo, hi *big.Rat
-	infinite := false
-	for c := range h {
-		for r, den := range h[c] {
-			num := g.Int(c, r)
-			if den.Sign() == 0 {
-				infinite = infinite || num.Sign() > 0
-				continue
-			}
-			q := new(big.Rat).SetFrac(num, den)
-			if lo == nil || q.Cmp(lo) < 0 {
-				lo = q
-			}
-			if hi == nil || q.Cmp(hi) > 0 {
-				hi = q
-			}
-		}
-	}
-	if lo == nil { // G_k is zero: nothing to bound from below, G_{k+d} is zero too
-		lo, hi = new(big.Rat), new(big.Rat)
-	}
-	if infinite {
-		hi = nil
-	}
-	return engineBracket{
-		Bracket: certify.Bracket{Cells: cells, Step: d, K: k, Lo: lo, Hi: hi, Upper: upper, IterateDigest: gk.Digest()},
-		sum:     gk.Sum(),
-	}
+func wholeSpec(n, d int, upper bool) spec {
+	return spec{start: certify.StartEmpty, step: d, n: n, upper: upper}
 }
 
-// assemble builds a certificate from brackets: lambda.lo from the best
-// lower bracket, lambda.hi from the brackets marked upper, the all-n bounds
-// from the first whole-system step-1 bracket, 12 significant digits, and
-// the structure section from the structure pass (format version 2).
-func assemble(t testing.TB, given []string, brackets []engineBracket) *certify.Certificate {
+// assemble builds and derives the certificate of the given patterns from
+// the brackets: lambda.lo from the best lower end (whole system or start
+// whole), lambda.hi from the brackets marked upper, the all-n bounds from
+// the first whole-system step-1 bracket, 12 significant digits, and the
+// structure section st (nil: none).
+func assemble(t testing.TB, given []string, specs []spec, st *certify.Structure) *certify.Certificate {
 	t.Helper()
-	s, err := pattern.ParseSet(given)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return assembleWith(t, given, brackets, structureOf(t, s))
-}
-
-// assembleWith is assemble with the given structure section (nil: a
-// format version 1 certificate).
-func assembleWith(t testing.TB, given []string, brackets []engineBracket, st *certify.Structure) *certify.Certificate {
-	t.Helper()
-	s, err := pattern.ParseSet(given)
-	if err != nil {
-		t.Fatal(err)
-	}
-	m := s.Window() - 1
-	c := &certify.Certificate{Tool: testTool, Statement: certify.Statement{Given: given}}
+	c := &certify.Certificate{Tool: testTool, Statement: certify.Statement{Given: given}, Structure: st}
 	lamLo, lamHi := new(big.Rat), new(big.Rat)
 	allN := false
-	for _, b := range brackets {
-		c.Evidence.Brackets = append(c.Evidence.Brackets, b.Bracket)
-		if r := root(b.Lo, b.Step, false); r.Cmp(lamLo) > 0 {
-			lamLo = r
+	for _, sp := range specs {
+		b, sum := certify.MakeBracket(given, sp.states, sp.start, sp.step, sp.n, sp.upper)
+		c.Evidence.Brackets = append(c.Evidence.Brackets, b)
+		if sp.start != certify.StartOnes {
+			if r := root(b.Lo, b.Step, false); r.Cmp(lamLo) > 0 {
+				lamLo = r
+			}
 		}
 		if b.Upper {
+			if b.Hi == nil {
+				t.Fatalf("%v: bracket %+v has no finite hi", given, sp)
+			}
 			if r := root(b.Hi, b.Step, true); r.Cmp(lamHi) > 0 {
 				lamHi = r
 			}
 		}
-		if !allN && len(b.Cells) == pattern.Factorial(m) && b.Step == 1 {
+		if !allN && sp.states == nil && b.Step == 1 {
 			allN = true
-			c.Statement.AllN = certify.AllN{N0: m + b.K, AN0: b.sum, MuLo: b.Lo, MuHi: b.Hi}
+			c.Statement.AllN = certify.AllN{N0: b.N, AN0: sum, MuLo: b.Lo, MuHi: b.Hi}
 		}
 	}
 	c.Statement.Lambda = certify.Range{Lo: lamLo, Hi: lamHi, Digits: 12}
@@ -163,27 +69,17 @@ func assembleWith(t testing.TB, given []string, brackets []engineBracket, st *ce
 	if lamLo.Sign() > 0 {
 		c.Statement.Radius.Hi = new(big.Rat).Inv(lamLo)
 	}
-	c.Structure = st
 	if err := certify.Derive(c); err != nil {
 		t.Fatal(err)
 	}
 	return c
 }
 
-// analyze runs the structure pass, with witnesses where a certificate
-// keeps them (m <= 4).
-func analyze(t testing.TB, s pattern.Set) *structure.Report {
+// wholeCert is the certificate of one whole-system step-1 bracket at n,
+// without a structure section.
+func wholeCert(t testing.TB, given string, n int) *certify.Certificate {
 	t.Helper()
-	rep, err := structure.Analyze(context.Background(), s, structure.Options{Witnesses: s.Window() <= 5})
-	if err != nil {
-		t.Fatal(err)
-	}
-	return rep
-}
-
-func structureOf(t testing.TB, s pattern.Set) *certify.Structure {
-	t.Helper()
-	return produce.Structure(analyze(t, s))
+	return assemble(t, []string{given}, []spec{wholeSpec(n, 1, true)}, nil)
 }
 
 // root returns a rational r with r^d <= x (up false) or r^d >= x (up
@@ -225,12 +121,77 @@ func root(x *big.Rat, d int, up bool) *big.Rat {
 	}
 }
 
-// wholeCert is the certificate of one whole-system step-1 bracket at k.
-func wholeCert(t testing.TB, given string, k int) *certify.Certificate {
-	t.Helper()
-	s, err := pattern.ParseSet([]string{given})
-	if err != nil {
-		t.Fatal(err)
+// parsePats reads digit patterns ("132") for the brute force of
+// internal/brute (an enumeration that shares no code with the checker).
+func parsePats(given []string) [][]int {
+	var out [][]int
+	for _, g := range given {
+		var p []int
+		for _, c := range g {
+			p = append(p, int(c-'0'))
+		}
+		out = append(out, p)
 	}
-	return assemble(t, []string{given}, []engineBracket{bracketFromEngine(t, s, nil, k, 1, true)})
+	return out
+}
+
+func bruteCount(given []string, n int) *big.Int {
+	return big.NewInt(int64(brute.Count(n, parsePats(given))))
+}
+
+// lexRank returns the lexicographic rank of the pattern of a sequence of
+// distinct numbers among the permutations of its length.
+func lexRank(x []int) int {
+	r := 0
+	for i, v := range x {
+		below := 0
+		for _, u := range x[i+1:] {
+			if u < v {
+				below++
+			}
+		}
+		r = r*(len(x)-i) + below
+	}
+	return r
+}
+
+func factorial(n int) int {
+	f := 1
+	for i := 2; i <= n; i++ {
+		f *= i
+	}
+	return f
+}
+
+// witnesses returns, for a set all of whose patterns have length m+1, one
+// avoider of length m+e per joint pattern (first m and last m entries) in
+// increasing rank of the joint pattern: the least avoider of each.
+func witnesses(given []string, m, e int) [][]int {
+	first := map[int][]int{}
+	pats := parsePats(given)
+	brute.Permutations(m+e, func(q []int) {
+		if !brute.Avoids(q, pats) {
+			return
+		}
+		r := lexRank(append(append([]int(nil), q[:m]...), q[len(q)-m:]...))
+		if first[r] == nil {
+			first[r] = append([]int(nil), q...)
+		}
+	})
+	var out [][]int
+	for r := range factorial(2 * m) {
+		if first[r] != nil {
+			out = append(out, first[r])
+		}
+	}
+	return out
+}
+
+// structure123 is the structure section of {123}: primitive with exponent
+// 4 (the R_k fill S_4 at k = 4; the checker recomputes R_2 and R_3 and
+// refuses a wrong exponent), one witness per joint pattern found by brute
+// force, and the cyclic avoider 321 (its windows 321, 213, 132 avoid 123).
+func structure123() *certify.Structure {
+	return &certify.Structure{Class: certify.ClassPrimitive, Exponent: 4, Lambda: certify.LambdaPositive,
+		Mode: certify.ModeWitnesses, Witnesses: witnesses([]string{"123"}, 2, 4), CyclicAvoider: []int{3, 2, 1}}
 }

@@ -2,28 +2,33 @@ package certify_test
 
 import (
 	"bufio"
+	"context"
 	"math/big"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
 	"avoidcert/certify"
-	"avoidcert/pattern"
 )
 
-// oeisTerms reads the terms of ../testdata/oeis/<id>.txt (offset 0).
-func oeisTerms(t *testing.T, id string) []*big.Int {
+// oeisTerms reads the terms of ../testdata/oeis/<id>.txt and their offset.
+func oeisTerms(t *testing.T, id string) (terms []*big.Int, offset int) {
 	t.Helper()
 	f, err := os.Open(filepath.Join("..", "testdata", "oeis", id+".txt"))
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer f.Close()
-	var terms []*big.Int
 	sc := bufio.NewScanner(f)
 	sc.Buffer(nil, 1<<20)
 	for sc.Scan() {
+		if v, ok := strings.CutPrefix(sc.Text(), "offset:"); ok {
+			if offset, err = strconv.Atoi(strings.TrimSpace(strings.Split(v, ",")[0])); err != nil {
+				t.Fatalf("%s: bad offset %q", id, v)
+			}
+		}
 		if list, ok := strings.CutPrefix(sc.Text(), "terms:"); ok {
 			for _, s := range strings.Split(list, ",") {
 				v, ok := new(big.Int).SetString(strings.TrimSpace(s), 10)
@@ -37,24 +42,41 @@ func oeisTerms(t *testing.T, id string) []*big.Int {
 	if len(terms) == 0 {
 		t.Fatalf("%s: no terms", id)
 	}
-	return terms
+	return terms, offset
 }
 
-func TestIterateSumsOEIS(t *testing.T) {
-	for _, tc := range []struct{ set, id string }{
-		{"123", "A049774"},  // OEIS A049774, offset 0
-		{"132", "A111004"},  // OEIS A111004, offset 0
-		{"1234", "A117158"}, // OEIS A117158, offset 0
+// TestCountsOEIS compares Counts with the published tables, as far as
+// each goes (at most n = 60 for the short patterns, 30 for the long ones,
+// to keep the test fast).
+func TestCountsOEIS(t *testing.T) {
+	for _, tc := range []struct {
+		set  []string
+		id   string
+		upTo int
+	}{
+		{[]string{"123"}, "A049774", 60},        // OEIS A049774
+		{[]string{"132"}, "A111004", 60},        // OEIS A111004
+		{[]string{"1234"}, "A117158", 40},       // OEIS A117158
+		{[]string{"1243"}, "A117226", 40},       // OEIS A117226
+		{[]string{"1342"}, "A117156", 40},       // OEIS A117156
+		{[]string{"1324"}, "A113228", 40},       // OEIS A113228
+		{[]string{"1423"}, "A201692", 40},       // OEIS A201692
+		{[]string{"2143"}, "A113229", 40},       // OEIS A113229
+		{[]string{"2413"}, "A201693", 40},       // OEIS A201693
+		{[]string{"12345"}, "A177523", 30},      // OEIS A177523
+		{[]string{"12354"}, "A202213", 30},      // OEIS A202213
+		{[]string{"123456"}, "A177533", 30},     // OEIS A177533
+		{[]string{"123", "321"}, "A001250", 40}, // OEIS A001250: alternating permutations (the avoiders of {123, 321}, both directions)
 	} {
-		s, err := pattern.ParseSet([]string{tc.set})
+		terms, offset := oeisTerms(t, tc.id)
+		top := min(offset+len(terms)-1, tc.upTo)
+		got, err := certify.Counts(context.Background(), tc.set, top)
 		if err != nil {
 			t.Fatal(err)
 		}
-		m := s.Window() - 1
-		terms := oeisTerms(t, tc.id)
-		for k := 0; m+k < len(terms) && k <= 14; k++ {
-			if _, got := certify.IterateDigest(s, nil, k); got.Cmp(terms[m+k]) != 0 {
-				t.Fatalf("%s: a_%d = %s, %s gives %s", tc.set, m+k, got, tc.id, terms[m+k])
+		for n := offset; n <= top; n++ {
+			if got[n].Cmp(terms[n-offset]) != 0 {
+				t.Fatalf("%v: a_%d = %s, but %s gives %s", tc.set, n, got[n], tc.id, terms[n-offset])
 			}
 		}
 	}

@@ -2,10 +2,9 @@ package certify
 
 import (
 	"fmt"
+	"slices"
 	"strconv"
 	"strings"
-
-	"avoidcert/pattern"
 )
 
 // StructureClass names a property of a pattern set that a version 2
@@ -101,7 +100,7 @@ type Structure struct {
 	// length m+Exponent per joint pattern of the domain, in increasing
 	// rank of the joint pattern (its first m and last m entries); nil
 	// otherwise. structure.Witnesses.Each gives them in this order.
-	Witnesses []pattern.Perm
+	Witnesses [][]int
 	// CycleStart and CycleLength: the R_k sequence first repeats at
 	// R_CycleStart = R_(CycleStart+CycleLength) (both least). Present
 	// (non-zero) exactly when Class is periodic, or Lambda is zero and some
@@ -110,24 +109,24 @@ type Structure struct {
 	CycleStart, CycleLength int
 	// CyclicAvoider is a permutation of length at least m+1 whose cyclic
 	// windows all avoid the set (LambdaPositive only, else nil).
-	CyclicAvoider pattern.Perm
+	CyclicAvoider []int
 }
 
 // CellPair is a pair of order cells (permutations of 1..m).
-type CellPair struct{ From, To pattern.Perm }
+type CellPair struct{ From, To []int }
 
 // parsePerm reads a permutation of 1..L (1 <= L <= MaxPermLength) in its
 // one spelling, that of formatPerm.
-func parsePerm(s string) (pattern.Perm, error) {
+func parsePerm(s string) ([]int, error) {
 	switch {
 	case s == "":
 		return nil, fmt.Errorf("empty; write a permutation like 1342, or 1.10.2.3.4.5.6.7.8.9 with more than 9 entries")
 	case len(s) > 5*MaxPermLength:
 		return nil, fmt.Errorf("%d characters; a permutation of at most %d entries has at most %d", len(s), MaxPermLength, 5*MaxPermLength)
 	}
-	p := make(pattern.Perm, 0, strings.Count(s, ".")+1)
+	p := make([]int, 0, strings.Count(s, ".")+1)
 	if strings.IndexByte(s, '.') < 0 {
-		p = make(pattern.Perm, 0, len(s))
+		p = make([]int, 0, len(s))
 		for i := 0; i < len(s); i++ {
 			if s[i] < '0' || s[i] > '9' {
 				return nil, fmt.Errorf("%q has a character other than a digit or a dot", abbreviate(s))
@@ -174,7 +173,7 @@ func parsePerm(s string) (pattern.Perm, error) {
 	return p, nil
 }
 
-// formatPerm writes a permutation as pattern.Perm.String does: digits for
+// formatPerm writes a permutation in its one spelling: digits for
 // at most 9 entries ("1342"), entries separated by dots for more
 // ("1.10.2.3.4.5.6.7.8.9").
 func formatPerm(p []int) string {
@@ -189,7 +188,7 @@ func formatPerm(p []int) string {
 }
 
 // describeJoint writes a joint pattern of rank r over S_2m.
-func describeJoint(m, r int) string { return pattern.Unrank(2*m, r).String() }
+func describeJoint(m, r int) string { return formatPerm(unrank(2*m, r)) }
 
 // structureClaims checks the structure section's form against the set and
 // everything that needs only the window digraph: which members are
@@ -234,9 +233,9 @@ func (ck *checker) structureClaims() error {
 		if !ok {
 			return fmt.Errorf("statement.structure.class: reducible is false: every start cell reaches every start cell through the window digraph")
 		}
-		from, to := pattern.Unrank(m, u), pattern.Unrank(m, v)
-		if !st.Unreached.From.Equal(from) || !st.Unreached.To.Equal(to) {
-			return fmt.Errorf("statement.structure.unreached: (%s, %s) is not the least pair of start cells without a walk, which is (%s, %s)", abbreviate(st.Unreached.From.String()), abbreviate(st.Unreached.To.String()), from, to)
+		from, to := unrank(m, u), unrank(m, v)
+		if !slices.Equal(st.Unreached.From, from) || !slices.Equal(st.Unreached.To, to) {
+			return fmt.Errorf("statement.structure.unreached: (%s, %s) is not the least pair of start cells without a walk, which is (%s, %s)", abbreviate(formatPerm(st.Unreached.From)), abbreviate(formatPerm(st.Unreached.To)), formatPerm(from), formatPerm(to))
 		}
 	case m > MaxJointM && (c == ClassPrimitive || c == ClassPeriodic):
 		return fmt.Errorf("statement.structure.class: %s needs the joint-pattern test, which this checker runs for m <= %d only (here m = %d); state undecided", c, MaxJointM, m)
@@ -263,10 +262,10 @@ func (ck *checker) structureClaims() error {
 	case LambdaPositive:
 		p := st.CyclicAvoider
 		if len(p) < m+1 {
-			return fmt.Errorf("evidence.structure.cyclic_avoider: %s has length %d; a cyclic avoider has at least m+1 = %d entries", abbreviate(p.String()), len(p), m+1)
+			return fmt.Errorf("evidence.structure.cyclic_avoider: %s has length %d; a cyclic avoider has at least m+1 = %d entries", abbreviate(formatPerm(p)), len(p), m+1)
 		}
 		if i := ck.cyclicForbidden(p); i >= 0 {
-			return fmt.Errorf("evidence.structure.cyclic_avoider: %s is not a cyclic avoider: its cyclic window at positions %d..%d (wrapping around) contains %s", abbreviate(p.String()), i+1, (i+m)%len(p)+1, ck.member(cyclicWindow(p, i, m+1)))
+			return fmt.Errorf("evidence.structure.cyclic_avoider: %s is not a cyclic avoider: its cyclic window at positions %d..%d (wrapping around) contains %s", abbreviate(formatPerm(p)), i+1, (i+m)%len(p)+1, ck.member(cyclicWindow(p, i, m+1)))
 		}
 	case LambdaZero:
 		if ck.zeroByJoints && m > MaxJointM {
@@ -325,8 +324,8 @@ func (ck *checker) cyclicForbidden(p []int) int {
 
 // member names a member of the set that the window (not allowed) contains.
 func (ck *checker) member(window []int) string {
-	for _, p := range ck.set.Patterns() {
-		if pattern.Contains(window, p) {
+	for _, p := range ck.set {
+		if occursIn(p, window) {
 			return "the pattern " + p.String()
 		}
 	}
@@ -343,7 +342,7 @@ func (ck *checker) structureWork() (work, memory float64) {
 	m := ck.m
 	top := ck.jointTop()
 	if top >= m || st.Mode == ModeWitnesses {
-		size := float64(pattern.Factorial(2 * m))
+		size := float64(factorial(2 * m))
 		steps := float64(max(top-m, 0))
 		// R_m and the domain: about 3 units per joint pattern; a step about
 		// 4 per member; the closable scan about 3 per member of the union
@@ -357,7 +356,7 @@ func (ck *checker) structureWork() (work, memory float64) {
 	}
 	if ck.zeroByJoints {
 		for L := m + 1; L < 2*m; L++ { // the short cyclic search
-			work += float64(pattern.Factorial(L)) * float64(L*L) / 8
+			work += float64(factorial(L)) * float64(L*L) / 8
 		}
 	}
 	for _, w := range st.Witnesses { // reading and checking the windows
@@ -455,10 +454,10 @@ func (ck *checker) verifyWitnesses(jp *jointPatterns) error {
 	for i, w := range st.Witnesses {
 		field := fmt.Sprintf("evidence.structure.witnesses[%d]", i)
 		if len(w) != L {
-			return fmt.Errorf("%s: %s has length %d; the exponent %d needs witnesses of length m+e = %d", field, abbreviate(w.String()), len(w), st.Exponent, L)
+			return fmt.Errorf("%s: %s has length %d; the exponent %d needs witnesses of length m+e = %d", field, abbreviate(formatPerm(w)), len(w), st.Exponent, L)
 		}
 		if at := jp.forbiddenWindow(w); at >= 0 {
-			return fmt.Errorf("%s: %s contains %s at positions %d..%d", field, abbreviate(w.String()), ck.member(w[at:at+m+1]), at+1, at+m+1)
+			return fmt.Errorf("%s: %s contains %s at positions %d..%d", field, abbreviate(formatPerm(w)), ck.member(w[at:at+m+1]), at+1, at+m+1)
 		}
 		copy(joint, w[:m])
 		copy(joint[m:], w[L-m:])
@@ -514,7 +513,7 @@ func (ck *checker) verifyLambdaZero(jp *jointPatterns, sets []bitset) error {
 		q := identity(L)
 		for {
 			if ck.cyclicForbidden(q) < 0 {
-				return fmt.Errorf("statement.structure.lambda_status: zero is false: %s is a cyclic avoider of length %d", pattern.Perm(q), L)
+				return fmt.Errorf("statement.structure.lambda_status: zero is false: %s is a cyclic avoider of length %d", formatPerm(q), L)
 			}
 			if nextPerm(q) < 0 {
 				break

@@ -12,8 +12,6 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
-
-	"avoidcert/pattern"
 )
 
 // The wire form: the JSON members in the order they are written. Numbers
@@ -41,7 +39,7 @@ type wireStatement struct {
 	Lambda    wireRange `json:"lambda"`
 	Radius    wireRange `json:"radius"`
 	AllN      wireAllN  `json:"all_n"`
-	// version 2 only
+	// optional, with evidence.structure
 	Structure *wireStructureClaim `json:"structure,omitempty"`
 }
 
@@ -78,8 +76,9 @@ type wireEvidence struct {
 	Method        string        `json:"method"`
 	MethodVersion int           `json:"method_version"`
 	CellLength    int           `json:"cell_length"`
+	States        int           `json:"states"`
 	Brackets      []wireBracket `json:"brackets"`
-	// version 2 only
+	// optional, with statement.structure
 	Structure *wireStructureEvidence `json:"structure,omitempty"`
 }
 
@@ -98,9 +97,10 @@ type wireJointCycle struct {
 }
 
 type wireBracket struct {
-	Cells  []int  `json:"cells"`
+	States []int  `json:"states"`
+	Start  string `json:"start"`
 	Step   int    `json:"step"`
-	K      int    `json:"k"`
+	N      int    `json:"n"`
 	Lo     string `json:"lo"`
 	Hi     string `json:"hi,omitempty"`
 	Upper  bool   `json:"upper"`
@@ -171,6 +171,7 @@ func Read(r io.Reader) (*Certificate, error) {
 			Format  string          `json:"format"`
 			Version json.RawMessage `json:"version"`
 		} `json:"content"`
+		End string `json:"end"`
 	}
 	headErr := json.Unmarshal(data, &head)
 	if headErr == nil && head.Content.Format != Format {
@@ -179,29 +180,33 @@ func Read(r io.Reader) (*Certificate, error) {
 	if bytes.Contains(data, []byte("\r\n")) {
 		return nil, errors.New("certificate: the file has CRLF line endings (changed by a text-mode copy or a line-ending conversion?); certificates use LF only, restore the original file")
 	}
-	if !bytes.HasSuffix(data, []byte(fileEnd)) {
-		return nil, fmt.Errorf("certificate: truncated or damaged: the file does not end with the end marker %q", EndMarker)
-	}
-	if headErr != nil {
-		return nil, fmt.Errorf("certificate: not valid JSON: %v", headErr)
+	if headErr != nil || head.End != EndMarker {
+		// a re-indented or compacted file still parses and still ends
+		// with the marker; only a cut or damaged one lands here
+		if !bytes.HasSuffix(data, []byte(fileEnd)) {
+			return nil, fmt.Errorf("certificate: truncated or damaged: the file does not end with the end marker %q", EndMarker)
+		}
+		if headErr != nil {
+			return nil, fmt.Errorf("certificate: not valid JSON: %s", jsonProblem(headErr))
+		}
+		return nil, fmt.Errorf("certificate: end marker is %q, not %q", abbreviate(head.End), EndMarker)
 	}
 	switch v := string(head.Content.Version); {
 	case v == "":
 		return nil, errors.New("certificate: content.version is missing")
-	case v != fmt.Sprint(Version1) && v != fmt.Sprint(Version):
-		return nil, fmt.Errorf("certificate: format version %s; this checker reads versions %d and %d only", abbreviate(v), Version1, Version)
+	case v == "1" || v == "2":
+		return nil, fmt.Errorf("certificate: format version %s (order cells) is no longer checked; re-issue it with `avoidcert bound PATTERNS --out FILE`, which writes version %d (prefix states)", v, Version)
+	case v != fmt.Sprint(Version):
+		return nil, fmt.Errorf("certificate: format version %s; this checker reads version %d only", abbreviate(v), Version)
 	}
 	var f wireFile
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(&f); err != nil {
-		return nil, fmt.Errorf("certificate: %v", err)
+		return nil, fmt.Errorf("certificate: %s", jsonProblem(err))
 	}
 	if dec.More() {
 		return nil, errors.New("certificate: data after the certificate object")
-	}
-	if f.End != EndMarker {
-		return nil, fmt.Errorf("certificate: end marker is %q, not %q", abbreviate(f.End), EndMarker)
 	}
 	c, err := fromWire(f.Content)
 	if err != nil {
@@ -228,6 +233,10 @@ func Read(r io.Reader) (*Certificate, error) {
 		}
 		if len(want) == len(got) && len(differ) == 1 && bytes.HasPrefix(got[differ[0]], []byte(`  "content_sha256": `)) {
 			return nil, errors.New("certificate: content_sha256 does not match the content: the file was changed after it was written")
+		}
+		var compactData, compactCanonical bytes.Buffer
+		if json.Compact(&compactData, data) == nil && json.Compact(&compactCanonical, canonical) == nil && bytes.Equal(compactData.Bytes(), compactCanonical.Bytes()) {
+			return nil, errors.New("certificate: not in canonical form: re-indented? The file holds the same JSON content in another layout (spaces, line breaks); certificates are compared byte for byte, so restore the file as it was written")
 		}
 		return nil, fmt.Errorf("certificate: not in canonical form (first difference on line %d); files are compared byte for byte with what the writer produces", differ[0]+1)
 	}
@@ -281,13 +290,9 @@ func toWire(c *Certificate) (wireContent, error) {
 		return wireContent{}, errors.New("nil certificate")
 	}
 	s := c.Statement
-	version := Version1
-	if c.Structure != nil {
-		version = Version
-	}
 	w := wireContent{
 		Format:  Format,
-		Version: version,
+		Version: Version,
 		Tool:    c.Tool,
 		Statement: wireStatement{
 			Given:     s.Given,
@@ -295,7 +300,7 @@ func toWire(c *Certificate) (wireContent, error) {
 			Canonical: s.Canonical,
 			Quantity:  Quantity,
 		},
-		Evidence: wireEvidence{Method: Method, MethodVersion: MethodVersion, CellLength: c.Evidence.CellLength},
+		Evidence: wireEvidence{Method: Method, MethodVersion: MethodVersion, CellLength: c.Evidence.CellLength, States: c.Evidence.States},
 	}
 	var err error
 	rat := func(name string, r *big.Rat, optional bool) string {
@@ -334,7 +339,7 @@ func toWire(c *Certificate) (wireContent, error) {
 	for i, b := range c.Evidence.Brackets {
 		name := fmt.Sprintf("evidence.brackets[%d]", i)
 		w.Evidence.Brackets = append(w.Evidence.Brackets, wireBracket{
-			Cells: b.Cells, Step: b.Step, K: b.K,
+			States: b.States, Start: string(b.Start), Step: b.Step, N: b.N,
 			Lo: rat(name+".lo", b.Lo, false), Hi: rat(name+".hi", b.Hi, true),
 			Upper: b.Upper, Digest: hex.EncodeToString(b.IterateDigest[:]),
 		})
@@ -398,7 +403,7 @@ func structureFromWire(claim *wireStructureClaim, ev *wireStructureEvidence) (*S
 	default:
 		return fail("evidence.structure.mode", "%q is not witnesses or recompute", abbreviate(ev.Mode))
 	}
-	const most = MaxJointSteps + pattern.MaxLength
+	const most = MaxJointSteps + MaxPatternLength
 	for _, n := range []struct {
 		field string
 		v     int
@@ -435,7 +440,7 @@ func structureFromWire(claim *wireStructureClaim, ev *wireStructureEvidence) (*S
 		return fail("evidence.structure.witnesses", "%d witnesses, over the limit of %d", n, MaxWitnesses)
 	}
 	if len(ev.Witnesses) > 0 {
-		st.Witnesses = make([]pattern.Perm, len(ev.Witnesses))
+		st.Witnesses = make([][]int, len(ev.Witnesses))
 	}
 	for i, s := range ev.Witnesses {
 		p, err := parsePerm(s)
@@ -456,14 +461,12 @@ func fromWire(w wireContent) (*Certificate, error) {
 	switch {
 	case w.Format != Format:
 		return fail("format", "%q is not %q", abbreviate(w.Format), Format)
-	case w.Version != Version1 && w.Version != Version:
-		return fail("version", "%d; this checker reads versions %d and %d only", w.Version, Version1, Version)
-	case w.Version == Version1 && (w.Statement.Structure != nil || w.Evidence.Structure != nil):
-		return fail("version", "%d has no structure section; a certificate with one is version %d", Version1, Version)
-	case w.Version == Version && (w.Statement.Structure == nil || w.Evidence.Structure == nil):
-		return fail("version", "%d needs statement.structure and evidence.structure; a certificate without them is version %d", Version, Version1)
+	case w.Version != Version:
+		return fail("version", "%d; this checker reads version %d only", w.Version, Version)
+	case (w.Statement.Structure == nil) != (w.Evidence.Structure == nil):
+		return fail("structure", "statement.structure and evidence.structure come together or not at all")
 	case w.Statement.Quantity != Quantity:
-		return fail("statement.quantity", "%q is not %q, the only quantity of versions %d and %d", abbreviate(w.Statement.Quantity), Quantity, Version1, Version)
+		return fail("statement.quantity", "%q is not %q, the only quantity of version %d", abbreviate(w.Statement.Quantity), Quantity, Version)
 	case w.Evidence.Method != Method:
 		return fail("evidence.method", "%q is not %q", abbreviate(w.Evidence.Method), Method)
 	case w.Evidence.MethodVersion != MethodVersion:
@@ -502,8 +505,8 @@ func fromWire(w wireContent) (*Certificate, error) {
 		return nil, err
 	}
 	a := w.Statement.AllN
-	if a.N0 < 0 || a.N0 > MaxK+pattern.MaxLength {
-		return fail("statement.all_n.n0", "%d out of range 0..%d", a.N0, MaxK+pattern.MaxLength)
+	if a.N0 < 0 || a.N0 > MaxN {
+		return fail("statement.all_n.n0", "%d out of range 0..%d", a.N0, MaxN)
 	}
 	st.AllN.N0 = a.N0
 	if st.AllN.AN0, err = parseInteger(a.AN0); err != nil {
@@ -518,26 +521,33 @@ func fromWire(w wireContent) (*Certificate, error) {
 		}
 	}
 	ev := w.Evidence
-	if ev.CellLength < 0 || ev.CellLength >= pattern.MaxLength {
-		return fail("evidence.cell_length", "%d out of range 0..%d", ev.CellLength, pattern.MaxLength-1)
+	if ev.CellLength < 0 || ev.CellLength >= MaxPatternLength {
+		return fail("evidence.cell_length", "%d out of range 0..%d", ev.CellLength, MaxPatternLength-1)
 	}
-	c.Evidence.CellLength = ev.CellLength
+	if ev.States < 1 || ev.States > MaxStates {
+		return fail("evidence.states", "%d out of range 1..%d", ev.States, MaxStates)
+	}
+	c.Evidence.CellLength, c.Evidence.States = ev.CellLength, ev.States
 	if len(ev.Brackets) == 0 || len(ev.Brackets) > MaxBrackets {
 		return fail("evidence.brackets", "%d brackets; give 1 to %d", len(ev.Brackets), MaxBrackets)
 	}
-	maxCells := pattern.Factorial(pattern.MaxLength - 1)
 	for i, b := range ev.Brackets {
 		name := fmt.Sprintf("evidence.brackets[%d]", i)
-		if len(b.Cells) == 0 || len(b.Cells) > maxCells {
-			return fail(name+".cells", "%d cells; give 1 to %d", len(b.Cells), maxCells)
+		if len(b.States) == 0 || len(b.States) > ev.States {
+			return fail(name+".states", "%d states; give 1 to evidence.states = %d", len(b.States), ev.States)
+		}
+		switch Start(b.Start) {
+		case StartEmpty, StartOnes, StartWhole:
+		default:
+			return fail(name+".start", "%q is not one of empty, ones, whole", abbreviate(b.Start))
 		}
 		if b.Step < 1 || b.Step > MaxStep {
 			return fail(name+".step", "%d out of range 1..%d", b.Step, MaxStep)
 		}
-		if b.K < 0 || b.K > MaxK {
-			return fail(name+".k", "%d out of range 0..%d", b.K, MaxK)
+		if b.N < 0 || b.N > MaxN {
+			return fail(name+".n", "%d out of range 0..%d", b.N, MaxN)
 		}
-		nb := Bracket{Cells: append([]int(nil), b.Cells...), Step: b.Step, K: b.K, Upper: b.Upper}
+		nb := Bracket{States: append([]int(nil), b.States...), Start: Start(b.Start), Step: b.Step, N: b.N, Upper: b.Upper}
 		if nb.Lo, err = parseRational(b.Lo); err != nil {
 			return fail(name+".lo", "%v", err)
 		}
@@ -554,7 +564,7 @@ func fromWire(w wireContent) (*Certificate, error) {
 		}
 		c.Evidence.Brackets = append(c.Evidence.Brackets, nb)
 	}
-	if w.Version == Version {
+	if w.Statement.Structure != nil {
 		if c.Structure, err = structureFromWire(w.Statement.Structure, w.Evidence.Structure); err != nil {
 			return nil, err
 		}
@@ -612,4 +622,19 @@ func checkToken(s string) error {
 		return fmt.Errorf("pattern token %q has characters other than digits and dots", abbreviate(s))
 	}
 	return nil
+}
+
+// jsonProblem describes a decoding error in a few dozen characters of the
+// input at most: the decoder's own messages quote whole values (a number
+// of three million digits would make a three-megabyte line).
+func jsonProblem(err error) string {
+	var typeErr *json.UnmarshalTypeError
+	var syntaxErr *json.SyntaxError
+	switch {
+	case errors.As(err, &typeErr):
+		return fmt.Sprintf("%s: %s is not a valid %s here (at byte %d)", abbreviate(typeErr.Field), abbreviate(typeErr.Value), typeErr.Type, typeErr.Offset)
+	case errors.As(err, &syntaxErr):
+		return fmt.Sprintf("not valid JSON at byte %d: %s", syntaxErr.Offset, abbreviate(syntaxErr.Error()))
+	}
+	return abbreviate(err.Error())
 }

@@ -18,16 +18,18 @@ import (
 
 	"avoidcert/certify"
 	"avoidcert/internal/brute"
-	"avoidcert/pattern"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files in testdata")
 
-const goldenPath = "testdata/cert-123-k6.json"
+const goldenPath = "testdata/cert-123-n8.json"
 
 // goldenCert is the small certificate of the golden file: {123}, whole
-// system, k = 6.
-func goldenCert(t testing.TB) *certify.Certificate { return wholeCert(t, "123", 6) }
+// system, N = 8, with the structure section (primitive, exponent 4, and
+// the cyclic avoider 321).
+func goldenCert(t testing.TB) *certify.Certificate {
+	return assemble(t, []string{"123"}, []spec{wholeSpec(8, 1, true)}, structure123())
+}
 
 func TestGoldenFile(t *testing.T) {
 	data, err := certify.Marshal(goldenCert(t))
@@ -50,14 +52,14 @@ func TestGoldenFile(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := certify.Check(c, certify.CheckOptions{}); err != nil {
+	if err := certify.Check(bg, c, certify.CheckOptions{}); err != nil {
 		t.Fatal(err)
 	}
 }
 
 func TestMarshalDeterministic(t *testing.T) {
-	// two independent builds (fresh engine runs) and two marshals of each
-	a, b := cert123(t), cert123(t)
+	// two independent builds and two marshals of each
+	a, b := goldenCert(t), goldenCert(t)
 	var outs [][]byte
 	for _, c := range []*certify.Certificate{a, a, b} {
 		data, err := certify.Marshal(c)
@@ -130,7 +132,7 @@ func redigest(data []byte) []byte {
 }
 
 func TestReadRefusesDamagedFiles(t *testing.T) {
-	good, err := certify.Marshal(cert123(t))
+	good, err := certify.Marshal(goldenCert(t))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -144,21 +146,24 @@ func TestReadRefusesDamagedFiles(t *testing.T) {
 		{"cut before the last brace", good[:len(good)-2], "truncated"},
 		{"other JSON", []byte(`{"content": {"format": "something else"}}`), "not an avoidcert certificate"},
 		{"not JSON", []byte("hello\n"), "truncated"},
-		{"newer version", redigest(bytes.Replace(good, []byte(`"version": 2,`), []byte(`"version": 3,`), 1)), "format version 3"},
-		{"version 1 with a structure section", redigest(bytes.Replace(good, []byte(`"version": 2,`), []byte(`"version": 1,`), 1)), "has no structure section"},
+		{"newer version", redigest(bytes.Replace(good, []byte(`"version": 3,`), []byte(`"version": 4,`), 1)), "format version 4"},
+		{"version 2", redigest(bytes.Replace(good, []byte(`"version": 3,`), []byte(`"version": 2,`), 1)), "re-issue it with `avoidcert bound"},
+		{"version 1", redigest(bytes.Replace(good, []byte(`"version": 3,`), []byte(`"version": 1,`), 1)), "format version 1 (order cells) is no longer checked"},
+		{"version as a huge number", redigest(bytes.Replace(good, []byte(`"version": 3,`), []byte(`"version": 3`+strings.Repeat("0", 100000)+`,`), 1)), "format version 3000"},
 		{"CRLF line endings", bytes.ReplaceAll(good, []byte("\n"), []byte("\r\n")), "CRLF"},
-		{"extra whitespace", bytes.Replace(good, []byte(`"k": `), []byte(`"k":  `), 1), "canonical form"},
+		{"extra whitespace", bytes.Replace(good, []byte(`"n": `), []byte(`"n":  `), 1), "canonical form"},
 		{"escaped character", redigest(bytes.Replace(good, []byte(`"patterns": [
         "123"`), []byte(`"patterns": [
         "\u0031\u0032\u0033"`), 1)), "canonical form"},
-		{"unknown member", redigest(bytes.Replace(good, []byte(`"k": `), []byte(`"kk": 1, "k": `), 1)), "unknown field"},
-		{"key case", redigest(bytes.Replace(good, []byte(`"k": `), []byte(`"K": `), 1)), "canonical form"},
+		{"unknown member", redigest(bytes.Replace(good, []byte(`"n": `), []byte(`"nn": 1, "n": `), 1)), "unknown field"},
+		{"key case", redigest(bytes.Replace(good, []byte(`"n": `), []byte(`"N": `), 1)), "canonical form"},
 		{"digest not redone", bytes.Replace(good, []byte(`"tool": "avoidcert`), []byte(`"tool": "Avoidcert`), 1), "content_sha256 does not match"},
 		{"data after", append(bytes.Clone(good), good...), "not valid JSON"},
 		{"too large", append(bytes.Repeat([]byte(" "), certify.MaxFileSize), good...), "larger than the limit"},
 		{"long number", redigest(bytes.Replace(good, []byte(`"mu_lo": "`), []byte(`"mu_lo": "`+strings.Repeat("1", 5000)), 1)), "over the limit"},
-		{"huge k", redigest(bytes.Replace(good, []byte(`"k": 8`), []byte(`"k": 80000`), 1)), "out of range"},
-		{"k not an integer", redigest(bytes.Replace(good, []byte(`"k": 8`), []byte(`"k": 8.5`), 1)), "cannot unmarshal"},
+		{"huge n", redigest(bytes.Replace(good, []byte(`"n": 8`), []byte(`"n": 80000`), 1)), "out of range"},
+		{"n not an integer", redigest(bytes.Replace(good, []byte(`"n": 8`), []byte(`"n": 8.5`), 1)), "is not a valid int"},
+		{"start unknown", redigest(bytes.Replace(good, []byte(`"start": "empty"`), []byte(`"start": "full"`), 1)), "not one of empty, ones, whole"},
 		{"infinite lo", redigest(bytes.Replace(good, []byte(`"mu_lo": "`), []byte(`"mu_lo": "", "x": "`), 1)), "unknown field"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -177,7 +182,7 @@ func TestReadRefusesDamagedFiles(t *testing.T) {
 }
 
 func TestTruncationDetected(t *testing.T) {
-	good, err := certify.Marshal(cert123(t))
+	good, err := certify.Marshal(goldenCert(t))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -188,20 +193,17 @@ func TestTruncationDetected(t *testing.T) {
 	}
 }
 
-// tamperCert has brackets of both steps, so that tampers reach every kind
-// of field.
+// tamperCert has brackets of both steps, a restricted one, and the
+// structure section, so that tampers reach every kind of field.
 func tamperCert(t testing.TB) *certify.Certificate {
-	s, _ := pattern.ParseSet([]string{"123"})
-	return assemble(t, []string{"123"}, []engineBracket{
-		bracketFromEngine(t, s, nil, 6, 1, true),
-		bracketFromEngine(t, s, nil, 5, 2, false),
-	})
+	return assemble(t, []string{"123"}, []spec{wholeSpec(6, 1, true), wholeSpec(5, 2, false),
+		{states: []int{1, 2}, start: certify.StartWhole, step: 1, n: 6}}, structure123())
 }
 
 // freeKeys are the members a producer may choose (within the inequalities);
 // a changed value there may still be a true, proved certificate.
 var freeKeys = map[string]bool{"tool": true, "lo": true, "hi": true, "mu_lo": true, "mu_hi": true,
-	"class": true, "lambda_status": true, "mode": true, "cyclic_avoider": true}
+	"class": true, "lambda_status": true, "mode": true, "cyclic_avoider": true, "upper": true}
 
 var memberLine = regexp.MustCompile(`^(\s*)"([a-z_0-9]+)": (.*?)(,?)$`)
 
@@ -289,14 +291,13 @@ func TestRandomTampersRejected(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	s, _ := pattern.ParseSet([]string{"123"})
-	opts := certify.CheckOptions{Expect: s}
+	opts := certify.CheckOptions{Expect: []string{"123"}}
 	verify := func(data []byte) (*certify.Certificate, error) {
 		c, err := certify.Read(bytes.NewReader(data))
 		if err != nil {
 			return nil, err
 		}
-		return c, certify.Check(c, opts)
+		return c, certify.Check(bg, c, opts)
 	}
 	rng := rand.New(rand.NewPCG(2003, 123))
 	const n = 1500
@@ -366,7 +367,7 @@ func unsound(t *testing.T, c *certify.Certificate, lambda float64, oeis string, 
 			}
 		}
 	}
-	terms := oeisTerms(t, oeis)
+	terms, _ := oeisTerms(t, oeis) // offset 0
 	A := new(big.Rat).SetFrac(st.AllN.AN0, new(big.Int).MulRange(1, int64(st.AllN.N0)))
 	lo, hi := new(big.Rat).Set(A), new(big.Rat).Set(A)
 	for n := st.AllN.N0; n < len(terms); n++ {
@@ -387,30 +388,27 @@ func unsoundStructure(c *certify.Certificate, exponent int) string {
 	if st == nil {
 		return ""
 	}
-	set, err := pattern.ParseSet(c.Statement.Given)
-	if err != nil {
-		return err.Error()
+	pats := parsePats(c.Statement.Patterns)
+	m := 0
+	for _, p := range pats {
+		m = max(m, len(p)-1)
 	}
-	var pats [][]int
-	for _, p := range set.Patterns() {
-		pats = append(pats, p)
-	}
-	m := set.Window() - 1
+	avoids := func(w []int) bool { return brute.Avoids(w, pats) }
 	switch st.Class {
 	case certify.ClassUndecided:
 	case certify.ClassPrimitive:
 		if st.Exponent != exponent {
 			return fmt.Sprintf("the exponent is %d, not %d", exponent, st.Exponent)
 		}
-		joints := map[string]bool{}
+		joints := map[int]bool{}
 		for _, w := range st.Witnesses {
-			if len(w) != m+exponent || !brute.Avoids(w, pats) {
+			if len(w) != m+exponent || !avoids(w) {
 				return fmt.Sprintf("witness %v does not avoid or has the wrong length", w)
 			}
-			joints[pattern.Standardize(append(append([]int(nil), w[:m]...), w[len(w)-m:]...)).String()] = true
+			joints[lexRank(append(append([]int(nil), w[:m]...), w[len(w)-m:]...))] = true
 		}
-		if st.Mode == certify.ModeWitnesses && len(joints) != pattern.Factorial(2*m) {
-			return fmt.Sprintf("the witnesses have %d joint patterns, not all %d", len(joints), pattern.Factorial(2*m))
+		if st.Mode == certify.ModeWitnesses && len(joints) != factorial(2*m) {
+			return fmt.Sprintf("the witnesses have %d joint patterns, not all %d", len(joints), factorial(2*m))
 		}
 	default:
 		return fmt.Sprintf("class %s, but the set is primitive", st.Class)
@@ -424,7 +422,7 @@ func unsoundStructure(c *certify.Certificate, exponent int) string {
 			for j := range window {
 				window[j] = p[(i+j)%len(p)]
 			}
-			if len(p) < m+1 || !brute.Avoids(window, pats) {
+			if len(p) < m+1 || !avoids(window) {
 				return fmt.Sprintf("%v is not a cyclic avoider", p)
 			}
 		}
@@ -440,7 +438,7 @@ func TestWriteAtomic(t *testing.T) {
 	if err := os.WriteFile(path, []byte("old"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	c := cert123(t)
+	c := goldenCert(t)
 	if err := certify.Write(path, c); err != nil {
 		t.Fatal(err)
 	}
@@ -460,11 +458,81 @@ func TestWriteAtomic(t *testing.T) {
 	if again, _ := os.ReadFile(path); !bytes.Equal(again, want) {
 		t.Fatal("failed Write changed the file")
 	}
-	if err := certify.Write(filepath.Join(dir, "missing", "x.json"), cert123(t)); err == nil {
+	if err := certify.Write(filepath.Join(dir, "missing", "x.json"), goldenCert(t)); err == nil {
 		t.Fatal("Write into a missing directory succeeded")
 	}
 	entries, _ := os.ReadDir(dir)
 	if len(entries) != 1 {
 		t.Fatalf("directory holds %d entries, want only the certificate (no temporary files left)", len(entries))
+	}
+}
+
+func TestReindentedFileNamed(t *testing.T) {
+	good, err := certify.Marshal(goldenCert(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var compact, wide bytes.Buffer
+	if err := json.Compact(&compact, good); err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Indent(&wide, good, "", "    "); err != nil {
+		t.Fatal(err)
+	}
+	for name, data := range map[string][]byte{"compacted": compact.Bytes(), "re-indented": wide.Bytes(), "compacted with a newline": append(compact.Bytes(), '\n')} {
+		_, err := certify.Read(bytes.NewReader(data))
+		if err == nil || !strings.Contains(err.Error(), "not in canonical form: re-indented?") {
+			t.Errorf("%s: got %v, want the re-indented diagnosis", name, err)
+		}
+	}
+}
+
+// TestMessagesQuoteLittle feeds Read values of hundreds of kilobytes in
+// every kind of field; no message may quote more than a few dozen
+// characters of them.
+func TestMessagesQuoteLittle(t *testing.T) {
+	good, err := certify.Marshal(goldenCert(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	long := strings.Repeat("7", 300000)
+	for _, tc := range []struct{ old, new string }{
+		{`"n": 8`, `"n": ` + long},
+		{`"step": 1`, `"step": ` + long},
+		{`"digits": 12`, `"digits": -` + long},
+		{`"mu_lo": "`, `"mu_lo": "` + long},
+		{`"tool": "`, `"tool": "` + long},
+		{`"start": "empty"`, `"start": "` + long + `"`},
+		{`"upper": true`, `"upper": "` + long + `"`},
+		{`"n": 8`, `"` + long + `": 8`},
+		{`"class": "primitive"`, `"class": "` + long + `"`},
+		{`"cyclic_avoider": "321"`, `"cyclic_avoider": "` + long + `"`},
+		{`"patterns_given": [`, `"patterns_given": ["` + long + `",`},
+	} {
+		data := redigest(bytes.Replace(good, []byte(tc.old), []byte(tc.new), 1))
+		if data == nil {
+			data = bytes.Replace(good, []byte(tc.old), []byte(tc.new), 1)
+		}
+		_, err := certify.Read(bytes.NewReader(data))
+		if err == nil {
+			t.Errorf("%.20s...: accepted", tc.new)
+			continue
+		}
+		if n := len(err.Error()); n > 400 {
+			t.Errorf("%.20s...: message of %d characters: %.200s", tc.new, n, err)
+		}
+	}
+}
+
+// TestOldVersionsRefusedWithAdvice reads the version 2 file that the
+// previous checker wrote for {123}.
+func TestOldVersionsRefusedWithAdvice(t *testing.T) {
+	data, err := os.ReadFile("testdata/cert-123-k6-v2.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = certify.Read(bytes.NewReader(data))
+	if err == nil || !strings.Contains(err.Error(), "format version 2 (order cells) is no longer checked; re-issue it with `avoidcert bound PATTERNS --out FILE`") {
+		t.Fatalf("got %v", err)
 	}
 }

@@ -13,8 +13,8 @@ import (
 	"testing"
 
 	"avoidcert/internal/brute"
-	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
+	"avoidcert/transfer"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files in testdata")

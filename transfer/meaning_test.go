@@ -1,16 +1,13 @@
 package transfer_test
 
 import (
-	"context"
 	"fmt"
-	"math/big"
 	"math/rand/v2"
 	"runtime"
 	"slices"
 	"testing"
 
 	"avoidcert/internal/brute"
-	celltransfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/internal/settest"
 	"avoidcert/pattern"
 	"avoidcert/transfer"
@@ -290,83 +287,4 @@ func TestDeterministicUnderGOMAXPROCS(t *testing.T) {
 	if digests[0] != digests[1] {
 		t.Fatalf("digests differ: %x with GOMAXPROCS 1, %x with 2", digests[0], digests[1])
 	}
-}
-
-// The cell-form iterate, projected onto prefix states (each cell and gaps
-// determine the retained suffix and its gaps), equals the prefix-state
-// iterate, for random sets of lengths 2..5 (while the cell form exists).
-func TestCellIterateProjectsToPrefixIterate(t *testing.T) {
-	rng := rand.New(rand.NewPCG(8, 3))
-	for range 15 {
-		s := settest.Random(rng, 3, 5)
-		csys := celltransfer.FromSet(s)
-		m := csys.M
-		if m == 0 {
-			continue
-		}
-		ce := celltransfer.New(csys)
-		cg := ce.Start()
-		st := transfer.NewStates(s)
-		keys := prefixKeys(s)
-		for k := 0; k <= 6; k++ {
-			if k > 0 {
-				var err error
-				if cg, err = ce.Next(context.Background(), cg); err != nil {
-					t.Fatal(err)
-				}
-			}
-			want := map[string]*big.Int{}
-			ix := celltransfer.NewIndexer(m, k)
-			a := make([]int, m+1)
-			for cell := range cg.Cells {
-				sigma := pattern.Unrank(m, cell)
-				for r := range cg.PerCell {
-					ix.Unrank(k, r, a)
-					// a sequence with last m entries sigma and gaps a: the
-					// values of the other k entries only matter through a
-					x := lift(sigma, a)
-					key, gaps := stateOf(x, keys)
-					id := fmt.Sprint(key, gaps)
-					if want[id] == nil {
-						want[id] = new(big.Int)
-					}
-					want[id].Add(want[id], cg.Int(cell, r))
-				}
-			}
-			g := iterate(t, transfer.Whole(st), m+k)
-			exact := map[string]int64{}
-			for id, v := range want {
-				exact[id] = v.Int64()
-			}
-			compare(t, fmt.Sprint(s, " projected cells"), g, exact)
-		}
-	}
-}
-
-// lift returns a sequence of m+k distinct values ending in pattern sigma
-// whose first k values fall a_0..a_m into sigma's gaps.
-func lift(sigma pattern.Perm, a []int) []int {
-	m := len(sigma)
-	k := 0
-	for _, v := range a {
-		k += v
-	}
-	// value of sorted position j among the last m: gaps fill below it
-	var out []int
-	next := 1
-	sortedVal := make([]int, m)
-	for j := 0; j <= m; j++ {
-		for range a[j] {
-			out = append(out, next)
-			next++
-		}
-		if j < m {
-			sortedVal[j] = next
-			next++
-		}
-	}
-	for _, r := range sigma {
-		out = append(out, sortedVal[r-1])
-	}
-	return out
 }

@@ -4,12 +4,12 @@ import (
 	"context"
 	"testing"
 
+	"avoidcert/bounds"
 	"avoidcert/certify"
 	"avoidcert/certify/produce"
-	bounds "avoidcert/internal/cellform/bounds"
-	transfer "avoidcert/internal/cellform/transfer"
 	"avoidcert/pattern"
 	"avoidcert/structure"
+	"avoidcert/transfer"
 )
 
 // Certificates built from real runs pass the independent checker, for a
@@ -28,30 +28,26 @@ func TestCertificatesPassTheChecker(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		sys := transfer.FromSet(set)
+		st := transfer.NewStates(set)
 		opts := bounds.Options{Digits: 8, Digests: true, Step: 1}
 		var res *bounds.Result
 		switch rep.Class {
 		case structure.Periodic:
 			opts.Step = rep.Period
-			res, err = bounds.Run(ctx, sys, opts, nil)
+			res, err = bounds.Run(ctx, st, opts, nil)
 		case structure.Reducible:
-			var blocks [][]int
-			for _, i := range rep.Digraph.Order {
-				blocks = append(blocks, rep.Digraph.Components[i].Cells)
-			}
-			res, err = bounds.RunBlocks(ctx, sys, blocks, opts, nil)
+			res, err = bounds.RunBlocks(ctx, st, bounds.Blocks(st), opts, nil)
 		default:
-			res, err = bounds.Run(ctx, sys, opts, nil)
+			res, err = bounds.Run(ctx, st, opts, nil)
 		}
 		if err != nil {
 			t.Fatal(err)
 		}
-		c, err := produce.Certificate(ctx, "produce test", rep, sys, res, 10)
+		c, err := produce.Certificate(ctx, "produce test", rep, st, res, 10)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if err := certify.Check(c, certify.CheckOptions{Expect: set}); err != nil {
+		if err := certify.Check(context.Background(), c, certify.CheckOptions{Expect: set.Strings()}); err != nil {
 			t.Errorf("%s (%s): %v", set, rep.Class, err)
 		}
 		if c.Structure == nil || string(c.Structure.Class) != string(rep.Class) {

@@ -60,11 +60,11 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	}
 	var opts certify.CheckOptions
 	if *expect != "" {
-		set, err := pattern.ParseSet(append([]string{*expect}, pos[1:]...))
-		if err != nil {
+		given := append([]string{*expect}, pos[1:]...)
+		if _, err := pattern.ParseSet(given); err != nil {
 			return failure(e, usagef("check: --expect: %v", err))
 		}
-		opts.Expect = set
+		opts.Expect = given
 	}
 	if *maxWork < 1 {
 		return failure(e, usagef("check: --max-work must be at least 1"))
@@ -81,7 +81,7 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	defer f.Close()
 	cert, err := certify.Read(f)
 	if err == nil {
-		err = certify.Check(cert, opts)
+		err = certify.Check(ctx, cert, opts)
 	}
 	if err != nil {
 		fmt.Fprintf(e.stdout, "invalid: %v\n", err)
