@@ -8,49 +8,46 @@ import (
 	"avoidcert/transfer"
 )
 
-// Ratios returns the exact extremes of R_a = G_{k+d}[a] / D_a over the
-// indices a of degree k+d with D_a > 0 on the given cells (nil: all),
-// for gk = G_k and gkd = G_{k+d} of one system: lambda^d lies in [lo, hi].
-// hi is nil when some index has D_a = 0 < G_{k+d}[a] (no upper bound at this
-// k); lo = hi = 0 when G_k vanishes on the cells. The iterates are only
-// read. The cells must hold all of G_k's nonzero coefficients.
-func Ratios(ctx context.Context, gk, gkd *transfer.Iterate, cells []int) (lo, hi *big.Rat, err error) {
-	if gk.M != gkd.M || gk.Cells != gkd.Cells || gkd.K <= gk.K {
-		return nil, nil, fmt.Errorf("bounds: Ratios needs G_k and G_{k+d}, d >= 1, of one system; got degrees %d and %d", gk.K, gkd.K)
+// Ratios returns the exact extremes of R = G_(n+d)[p][a] / H over the
+// states of the system and the compositions a with H > 0 (H = G_n[p]
+// raised d degrees), for gn = G_n and gnd = G_(n+d) of one system: see
+// Bracket for what [lo, hi] proves. hi is nil when some index has
+// H = 0 < G_(n+d)[p][a]; lo = hi = 0 when G_n vanishes. The iterates are
+// only read.
+func Ratios(ctx context.Context, sys transfer.System, gn, gnd *transfer.Iterate) (lo, hi *big.Rat, err error) {
+	if gn.States() != sys.States || gnd.States() != sys.States || gnd.N <= gn.N {
+		return nil, nil, fmt.Errorf("bounds: Ratios needs G_n and G_(n+d), d >= 1, of one system; got lengths %d and %d", gn.N, gnd.N)
 	}
-	if cells == nil {
-		cells = make([]int, gk.Cells)
-		for c := range cells {
-			cells[c] = c
+	for _, p := range sys.Members {
+		if sys.States.Length(p) > gn.N {
+			return nil, nil, fmt.Errorf("bounds: a bracket at n = %d is below the longest state of the system (%d)", gn.N, sys.States.Length(p))
 		}
 	}
-	for _, c := range cells {
-		if c < 0 || c >= gk.Cells {
-			return nil, nil, fmt.Errorf("bounds: cell %d outside 0..%d", c, gk.Cells-1)
-		}
-	}
-	res, err := extremes(ctx, ratioProblem{m: gk.M, k: gk.K, d: gkd.K - gk.K, cells: cells, num: gkd, base: gk, numLimbs: gkd.Limbs, baseLimbs: gk.Limbs})
+	res, err := extremes(ctx, ratioProblem{st: sys.States, n: gn.N, d: gnd.N - gn.N, states: sys.Members,
+		num: gnd, base: gn, numLimbs: gnd.Limbs, baseLimbs: gn.Limbs})
 	if err != nil {
 		return nil, nil, err
 	}
 	return res.lo, res.hi, nil
 }
 
-// BracketAt iterates the whole system to G_{k+d} and returns its bracket at
-// k with step d, Lambda rounded outward to prec bits.
-func BracketAt(ctx context.Context, sys transfer.System, k, d int, prec uint) (*Bracket, error) {
-	if k < 0 || d < 1 {
-		return nil, fmt.Errorf("bounds: BracketAt needs k >= 0 and d >= 1, got k = %d, d = %d", k, d)
+// BracketAt iterates a system from its start to G_(n+d) and returns its
+// bracket at n with step d, Lambda rounded outward to prec bits, with the
+// digest of G_n.
+func BracketAt(ctx context.Context, sys transfer.System, n, d int, prec uint) (*Bracket, error) {
+	if n < sys.StartN() || d < 1 {
+		return nil, fmt.Errorf("bounds: BracketAt needs n >= %d (the system's start) and d >= 1, got n = %d, d = %d", sys.StartN(), n, d)
 	}
 	e := transfer.New(sys)
-	g := e.Start()
-	var gk *transfer.Iterate
-	var spare *transfer.Iterate
-	for g.K < k+d {
+	g, err := e.Start(ctx)
+	if err != nil {
+		return nil, err
+	}
+	var gn, spare *transfer.Iterate
+	for g.N < n+d {
 		var next *transfer.Iterate
-		var err error
-		if g.K == k {
-			gk = g
+		if g.N == n {
+			gn = g
 			next, err = e.Next(ctx, g)
 		} else {
 			next, err = e.Advance(ctx, g, spare)
@@ -61,17 +58,11 @@ func BracketAt(ctx context.Context, sys transfer.System, k, d int, prec uint) (*
 		}
 		g = next
 	}
-	if gk == nil {
-		gk = g
-	}
-	lo, hi, err := Ratios(ctx, gk, g, nil)
+	lo, hi, err := Ratios(ctx, sys, gn, g)
 	if err != nil {
 		return nil, err
 	}
-	cells := make([]int, sys.Cells())
-	for c := range cells {
-		cells[c] = c
-	}
-	return &Bracket{Cells: cells, M: sys.M, K: k, Step: d, Lo: lo, Hi: hi,
-		Lambda: lambdaOf(lo, hi, d, prec), Prec: prec, Sum: gk.Sum(), Digest: gk.Digest()}, nil
+	return &Bracket{States: sys.Members, Start: sys.Start, Step: d, N: n, Lo: lo, Hi: hi,
+		Upper: sys.Start != transfer.StartWhole, Lambda: lambdaOf(lo, hi, d, prec), Prec: prec,
+		Sum: gn.Sum(), Digest: gn.Digest()}, nil
 }

@@ -9,32 +9,32 @@ import (
 )
 
 // benchRun times Run to a digit target and plain counting (transfer.Counts)
-// through the same iterates, reporting k and the ratio of the fastest runs
+// through the same iterates, reporting n and the ratio of the fastest runs
 // of each as x-count (the target: at most 1.3). The machine may be
 // shared: the fastest of several runs is the least disturbed.
 func benchRun(b *testing.B, set string, digits int) {
-	s, sys := system(b, set)
+	s, st := system(b, set)
 	var res *Result
 	fastest := time.Duration(1<<63 - 1)
 	for b.Loop() {
 		start := time.Now()
 		var err error
-		if res, err = Run(context.Background(), sys, Options{Digits: digits}, nil); err != nil {
+		if res, err = Run(context.Background(), st, Options{Digits: digits}, nil); err != nil {
 			b.Fatal(err)
 		}
 		fastest = min(fastest, time.Since(start))
 	}
 	b.StopTimer()
-	k := res.Brackets[0].K
+	n := res.Brackets[0].N
 	counting := time.Duration(1<<63 - 1)
 	for range max(b.N, 2) {
 		start := time.Now()
-		if _, err := transfer.Counts(context.Background(), s, sys.M+k+1, nil); err != nil {
+		if _, err := transfer.Counts(context.Background(), s, n+1, nil); err != nil {
 			b.Fatal(err)
 		}
 		counting = min(counting, time.Since(start))
 	}
-	b.ReportMetric(float64(k), "k")
+	b.ReportMetric(float64(n), "n")
 	b.ReportMetric(float64(fastest)/float64(counting), "x-count")
 }
 

@@ -17,7 +17,7 @@ func ExampleRun() {
 	if err != nil {
 		panic(err)
 	}
-	res, err := bounds.Run(context.Background(), transfer.FromSet(s), bounds.Options{Digits: 15}, nil)
+	res, err := bounds.Run(context.Background(), transfer.NewStates(s), bounds.Options{Digits: 15}, nil)
 	if err != nil {
 		panic(err)
 	}
@@ -41,7 +41,7 @@ func ExampleRun() {
 func ExampleJudge() {
 	s, _ := pattern.ParseSet([]string{"123"})
 	lo, hi, _ := interval.ClaimRange("0.8270", false)
-	v, res, err := bounds.Judge(context.Background(), transfer.FromSet(s), interval.Interval{Lo: lo, Hi: hi}, bounds.QuantityLambda, bounds.Options{})
+	v, res, err := bounds.Judge(context.Background(), transfer.NewStates(s), interval.Interval{Lo: lo, Hi: hi}, bounds.QuantityLambda, bounds.Options{})
 	if err != nil {
 		panic(err)
 	}

@@ -20,13 +20,13 @@ type Options struct {
 	// their d-th roots are taken outward. 0 means 1. Use the period of the
 	// window digraph for periodic sets ({123, 321} has period 2).
 	Step int
-	// MaxK is the largest k at which a bracket is taken (iterates go to
-	// MaxK + Step).
-	MaxK int
+	// MaxN is the largest n at which a bracket is taken (iterates go to
+	// MaxN + Step).
+	MaxN int
 	// MaxMemory bounds the bytes held: iterates (transfer.Engine.Footprint
 	// for the next step) plus this package's workspace.
 	MaxMemory int64
-	// Digests asks for Bracket.Digest (transfer's digest of G_k, for
+	// Digests asks for Bracket.Digest (transfer's digest of G_n, for
 	// certificates) on the brackets of the result. Digesting a large
 	// iterate costs about as much as a counting step, so it is off unless
 	// asked for.
@@ -43,8 +43,8 @@ func (o Options) validate(needTarget bool) error {
 		return fmt.Errorf("bounds: Digits must be positive, got %d", o.Digits)
 	case o.Width != nil && o.Width.Sign() <= 0:
 		return fmt.Errorf("bounds: Width must be positive, got %s", o.Width.RatString())
-	case o.MaxK < 0 || o.MaxMemory < 0:
-		return fmt.Errorf("bounds: budgets must not be negative (MaxK %d, MaxMemory %d)", o.MaxK, o.MaxMemory)
+	case o.MaxN < 0 || o.MaxMemory < 0:
+		return fmt.Errorf("bounds: budgets must not be negative (MaxN %d, MaxMemory %d)", o.MaxN, o.MaxMemory)
 	case needTarget && o.Digits == 0 && o.Width == nil:
 		return fmt.Errorf("bounds: no target: set Digits (e.g. 30) or Width (e.g. 1e-30)")
 	}

@@ -42,13 +42,13 @@ const (
 // interval claim (as interval.ClaimRange returns for a printed decimal),
 // tightening the bracket until it lies inside the claim or misses it, or a
 // budget in opts stops the run (its Digits and Width are ignored).
-func Judge(ctx context.Context, sys transfer.System, claim interval.Interval, of Quantity, opts Options) (Verdict, *Result, error) {
-	return JudgeBlocks(ctx, sys, nil, claim, of, opts, nil)
+func Judge(ctx context.Context, st *transfer.States, claim interval.Interval, of Quantity, opts Options) (Verdict, *Result, error) {
+	return JudgeBlocks(ctx, st, nil, claim, of, opts, nil)
 }
 
 // JudgeBlocks is Judge over the blocks of a reducible set (see RunBlocks);
 // nil blocks mean the whole set, as in Judge.
-func JudgeBlocks(ctx context.Context, sys transfer.System, blocks [][]int, claim interval.Interval, of Quantity, opts Options, progress Progress) (Verdict, *Result, error) {
+func JudgeBlocks(ctx context.Context, st *transfer.States, blocks [][]int, claim interval.Interval, of Quantity, opts Options, progress Progress) (Verdict, *Result, error) {
 	if _, err := ParseQuantity(string(of)); err != nil {
 		return Undecided, nil, err
 	}
@@ -59,7 +59,7 @@ func JudgeBlocks(ctx context.Context, sys transfer.System, blocks [][]int, claim
 	if err := opts.validate(false); err != nil {
 		return Undecided, nil, err
 	}
-	runners, err := blockRunners(sys, blocks, opts)
+	runners, err := blockRunners(ctx, st, blocks, opts)
 	if err != nil {
 		return Undecided, nil, err
 	}

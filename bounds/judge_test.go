@@ -35,7 +35,7 @@ func TestJudge(t *testing.T) {
 		{"rounded, wrong last digit", claim(t, "0.8269", false), QuantityLambda, Options{}, Refuted, StopDecided},
 		{"truncated, 27 digits", claim(t, "0.826993343132688074266989747", true), QuantityLambda, Options{}, Proved, StopDecided},
 		{"truncated, one unit off", claim(t, "0.826993343132688074266989746", true), QuantityLambda, Options{}, Refuted, StopDecided},
-		{"budget", claim(t, "0.82699334313268807426698974747", false), QuantityLambda, Options{MaxK: 10}, Undecided, StopMaxK},
+		{"budget", claim(t, "0.82699334313268807426698974747", false), QuantityLambda, Options{MaxN: 12}, Undecided, StopMaxN},
 	}
 	for _, c := range cases {
 		v, res, err := Judge(context.Background(), sys123, c.claim, c.of, c.opts)

@@ -11,112 +11,129 @@ import (
 	"avoidcert/transfer"
 )
 
-// The bracket at one k compares two polynomials on every cell, both written
-// in the Bernstein basis of degree k+d:
+// The bracket at one n compares two polynomials on the cell of every
+// state p (docs/prefix-states.md, "The bracket"), both written in the
+// Bernstein basis of degree n+d-|p| over the |p|+1 gaps:
 //
-//   - T^d g_k, where g_k = G_k/k!. Each step of T maps a basis polynomial of
-//     degree D to basis polynomials of degree D+1 with weight 1/(D+1)
-//     (method note, section 3), so the coefficients of T^d g_k are
-//     G_{k+d}/(k+d)!.
-//   - E^d g_k, the same polynomial g_k raised to degree k+d. Multiplying
-//     B_b (degree D) by 1 = L_0 + ... + L_m gives
-//     B_b = sum_t (b_t+1)/(D+1) B_{b+e_t}, so the coefficient at a of the
-//     raised polynomial is sum_t a_t/(D+1) c_{a-e_t}. Starting from
-//     H_0 = G_k (the coefficients of g_k times k!), H_{i+1}[a] =
-//     sum_t a_t H_i[a-e_t] gives the coefficients of E^i g_k times (k+i)!.
+//   - T'^d g_n, where g_n has the coefficients G_n[p]/(n-|p|)!. Each step of
+//     T' maps a basis polynomial of degree D to basis polynomials of degree
+//     D+1 with weight 1/(D+1) (method note, sections 3 and 8), so the
+//     coefficients of T'^d g_n are G_(n+d)[p]/(n+d-|p|)!.
+//   - E^d g_n, the same polynomial raised to degree n+d-|p|. Multiplying
+//     B_b (degree D) by 1 = L_0 + ... + L_|p| gives
+//     B_b = sum_t (b_t+1)/(D+1) B_(b+e_t), so the coefficient at a of the
+//     raised polynomial is sum_t a_t/(D+1) c_(a-e_t). Starting from
+//     H_0 = G_n[p], H_(i+1)[a] = sum_t a_t H_i[a-e_t] gives the
+//     coefficients of E^i g_n times (n-|p|+i)!.
 //
-// The factorials cancel: R_a = G_{k+d}[a] / H_d[a] is the ratio of the
-// Bernstein coefficients of T^d g_k and g_k at a. The tests check both
-// identities by evaluating the polynomials at rational points.
+// The factorials cancel: R = G_(n+d)[p][a] / H_d[a] is the ratio of the
+// Bernstein coefficients of T'^d g_n and g_n at a.
 
-// source is a read-only view of the integer Bernstein coefficients of one
-// degree, by cell and storage rank; *transfer.Iterate is one.
+// source is a read-only view of integer coefficients by state and storage
+// rank; *transfer.Iterate is one.
 type source interface {
-	Words(cell, r int) []big.Word
+	Words(p, r int) []big.Word
 }
 
-// table holds coefficients this package computes (the raised H_i).
+// table holds coefficients this package computes (the raised H_i), per
+// state.
 type table struct {
-	perCell, limbs int
-	words          []big.Word
+	limbs int
+	offs  []int
+	words []big.Word
 }
 
-func newTable(cells, perCell, limbs int) *table {
-	return &table{perCell: perCell, limbs: limbs, words: make([]big.Word, cells*perCell*limbs)}
-}
-
-// Words returns the words of coefficient r of a cell (aliasing the table).
-func (t *table) Words(cell, r int) []big.Word {
-	off := (cell*t.perCell + r) * t.limbs
+// Words returns the words of coefficient r of state p (aliasing the table).
+func (t *table) Words(p, r int) []big.Word {
+	off := t.offs[p] + r*t.limbs
 	return t.words[off : off+t.limbs : off+t.limbs]
 }
 
-// ratioProblem is one bracket evaluation: num = G_{k+d} and base = G_k,
-// whose coefficients fit in baseLimbs words.
+// ratioProblem is one bracket evaluation: num = G_(n+d) and base = G_n of
+// one system, whose coefficients fit in numLimbs and baseLimbs words.
 type ratioProblem struct {
-	m, k, d   int
-	cells     []int // the cells to scan; the others must be zero in base
+	st        *transfer.States
+	n, d      int
+	states    []int // the states to scan; the others are zero in base
 	num, base source
-	numLimbs  int // words per coefficient of num
-	baseLimbs int // words per coefficient of base
+	numLimbs  int
+	baseLimbs int
+}
+
+// deg returns the degree of state p's coefficients at length n.
+func (p ratioProblem) deg(state, n int) int { return n - p.st.Length(state) }
+
+// indexers returns one Indexer per state length, up to degree n+d.
+func (p ratioProblem) indexers() []*transfer.Indexer {
+	ixs := make([]*transfer.Indexer, p.st.MaxLength()+1)
+	for l := range ixs {
+		ixs[l] = transfer.NewIndexer(l, p.n+p.d)
+	}
+	return ixs
 }
 
 // ratioExtremes is the outcome of one evaluation.
 type ratioExtremes struct {
-	lo, hi   *big.Rat // min and max of R_a over D_a > 0; hi is nil when unbounded
-	positive int      // indices with D_a > 0
+	lo, hi   *big.Rat // min and max of R over H_d > 0; hi is nil when unbounded
+	positive int      // indices with H_d > 0
 	exact    int      // comparisons the floating-point screen left to exact arithmetic
 }
 
 // chunk is the number of indices one task scans.
 const chunk = 4096
 
-// extremes computes the exact min and max of R_a.
+// extremes computes the exact min and max of R.
 //
 // Every comparison of two ratios N/D and N'/D' is first screened in
 // floating point and decided exactly (N*D' against N'*D) only when the
 // screen cannot call it. Near convergence all ratios agree to far more than
 // float64 precision, so the screen works on the offsets from a centre
-// mu = p/2^s close to all of them: it compares x = (N*2^s - p*D)/D =
+// mu = c/2^s close to all of them: it compares x = (N*2^s - c*D)/D =
 // 2^s (R - mu), whose float64 approximation has a relative error below
 // 2^-49 however close R is to mu. The centre is the weighted mean of all
 // ratios (the ratio of the coefficient sums), with s chosen from the spread
 // seen on a sample; a poor centre only sends more comparisons to exact
 // arithmetic.
 func extremes(ctx context.Context, p ratioProblem) (ratioExtremes, error) {
-	ix := transfer.NewIndexer(p.m, p.k+p.d)
+	ixs := p.indexers()
 	den, denLimbs := p.base, p.baseLimbs
 	for i := 1; i < p.d; i++ {
-		t, err := elevate(ctx, ix, p, p.k+i, den, denLimbs)
+		t, err := elevate(ctx, ixs, p, p.n+i, den, denLimbs)
 		if err != nil {
 			return ratioExtremes{}, err
 		}
 		den, denLimbs = t, denLimbs+1
 	}
-	deg := p.k + p.d
-	centre := screenCentre(ix, p, den, denLimbs)
-	perCell := ix.Count(deg)
-	perCellTasks := (perCell + chunk - 1) / chunk
-	tallies := make([]tally, len(p.cells)*perCellTasks)
-	err := par.Run(ctx, len(tallies), func() func(int) {
-		s := newScratch(p.m, denLimbs, p.numLimbs, centre)
+	top := p.n + p.d
+	centre := screenCentre(ixs, p, den, denLimbs)
+	type span struct{ state, lo, hi int }
+	var spans []span
+	for _, s := range p.states {
+		count := ixs[p.st.Length(s)].Count(p.deg(s, top))
+		for lo := 0; lo < count; lo += chunk {
+			spans = append(spans, span{s, lo, min(lo+chunk, count)})
+		}
+	}
+	tallies := make([]tally, len(spans))
+	err := par.Run(ctx, len(spans), func() func(int) {
+		s := newScratch(p.st.MaxLength(), denLimbs, p.numLimbs, centre)
 		return func(task int) {
-			cell := p.cells[task/perCellTasks]
-			lo := (task % perCellTasks) * chunk
-			hi := min(lo+chunk, perCell)
+			sp := spans[task]
+			ix := ixs[p.st.Length(sp.state)]
+			a := s.a[:p.st.Length(sp.state)+1]
+			ix.Unrank(p.deg(sp.state, top), sp.lo, a)
 			t := &tallies[task]
-			ix.Unrank(deg, lo, s.a)
-			for r := lo; r < hi; r++ {
-				s.raise(ix, cell, den, s.d)
-				s.visit(t, p.num.Words(cell, r), s.d)
-				ix.Next(s.a)
+			for r := sp.lo; r < sp.hi; r++ {
+				s.raise(ix, a, sp.state, den, s.d)
+				s.visit(t, p.num.Words(sp.state, r), s.d)
+				ix.Next(a)
 			}
 		}
 	})
 	if err != nil {
 		return ratioExtremes{}, err
 	}
-	s := newScratch(p.m, denLimbs, p.numLimbs, centre)
+	s := newScratch(p.st.MaxLength(), denLimbs, p.numLimbs, centre)
 	var all tally
 	for i := range tallies {
 		s.merge(&all, &tallies[i])
@@ -124,7 +141,7 @@ func extremes(ctx context.Context, p ratioProblem) (ratioExtremes, error) {
 	out := ratioExtremes{positive: all.positive, exact: all.exact}
 	switch {
 	case all.positive == 0:
-		// No positive denominator: G_k vanishes on the scanned cells.
+		// No positive denominator: G_n vanishes on the scanned states.
 		out.lo = new(big.Rat)
 		if !all.unbounded {
 			out.hi = new(big.Rat)
@@ -138,7 +155,7 @@ func extremes(ctx context.Context, p ratioProblem) (ratioExtremes, error) {
 	return out, nil
 }
 
-// centre is the screening centre mu = p/2^s with s = words*W (W the word
+// centre is the screening centre mu = c/2^s with s = words*W (W the word
 // size); p nil means no centre (the screen then uses R itself).
 type centre struct {
 	p     []big.Word
@@ -146,41 +163,45 @@ type centre struct {
 }
 
 // screenCentre returns a centre close to the ratios: the sum ratio (a
-// weighted mean of the R_a) rounded down to s bits after the point, s about
+// weighted mean of the R) rounded down to s bits after the point, s about
 // 20 bits beyond the spread of the ratios on a sample of indices.
-func screenCentre(ix *transfer.Indexer, p ratioProblem, den source, denLimbs int) centre {
-	deg := p.k + p.d
+func screenCentre(ixs []*transfer.Indexer, p ratioProblem, den source, denLimbs int) centre {
+	top := p.n + p.d
 	var sumN, sumD big.Int
 	var x big.Int
-	s := newScratch(p.m, denLimbs, p.numLimbs, centre{})
-	for _, cell := range p.cells {
-		for r := range ix.Count(deg) {
-			sumN.Add(&sumN, x.SetBits(p.num.Words(cell, r)))
+	s := newScratch(p.st.MaxLength(), denLimbs, p.numLimbs, centre{})
+	for _, st := range p.states {
+		ix := ixs[p.st.Length(st)]
+		for r := range ix.Count(p.deg(st, top)) {
+			sumN.Add(&sumN, x.SetBits(p.num.Words(st, r)))
 		}
-		for r := range ix.Count(deg - 1) {
-			sumD.Add(&sumD, x.SetBits(den.Words(cell, r)))
+		for r := range ix.Count(p.deg(st, top-1)) {
+			sumD.Add(&sumD, x.SetBits(den.Words(st, r)))
 		}
 	}
 	if sumD.Sign() == 0 || sumN.Sign() == 0 {
 		return centre{}
 	}
-	// Raising multiplies the coefficient sum by deg+m: every b of degree
-	// deg-1 feeds its neighbours b+e_t with weights b_t+1.
-	sumD.Mul(&sumD, big.NewInt(int64(deg+p.m)))
+	// Raising multiplies a state's coefficient sum by D+|p| = n+d (D the
+	// raised degree): every b of degree D-1 feeds its neighbours b+e_t with
+	// weights b_t+1, which add up to D+|p|.
+	sumD.Mul(&sumD, big.NewInt(int64(top)))
 	mean := new(big.Rat).SetFrac(&sumN, &sumD)
 
-	const samplesPerCell = 8
+	const samplesPerState = 8
 	spread := new(big.Rat)
-	perCell := ix.Count(deg)
-	for _, cell := range p.cells {
-		for j := range samplesPerCell {
-			r := j * perCell / samplesPerCell
-			ix.Unrank(deg, r, s.a)
-			s.raise(ix, cell, den, s.d)
+	for _, st := range p.states {
+		ix := ixs[p.st.Length(st)]
+		a := s.a[:p.st.Length(st)+1]
+		count := ix.Count(p.deg(st, top))
+		for j := range samplesPerState {
+			r := j * count / samplesPerState
+			ix.Unrank(p.deg(st, top), r, a)
+			s.raise(ix, a, st, den, s.d)
 			if isZero(s.d) {
 				continue
 			}
-			q := new(big.Rat).SetFrac(new(big.Int).SetBits(append([]big.Word(nil), p.num.Words(cell, r)...)),
+			q := new(big.Rat).SetFrac(new(big.Int).SetBits(append([]big.Word(nil), p.num.Words(st, r)...)),
 				new(big.Int).SetBits(append([]big.Word(nil), s.d...)))
 			q.Sub(q, mean).Abs(q)
 			if q.Cmp(spread) > 0 {
@@ -197,25 +218,32 @@ func screenCentre(ix *transfer.Indexer, p ratioProblem, den source, denLimbs int
 	return centre{p: num.Quo(num, mean.Denom()).Bits(), words: words}
 }
 
-// elevate returns the coefficients of degree deg raised from src (degree
-// deg-1, srcLimbs words each) on the scanned cells.
-func elevate(ctx context.Context, ix *transfer.Indexer, p ratioProblem, deg int, src source, srcLimbs int) (*table, error) {
-	cells := 0
-	for _, c := range p.cells {
-		cells = max(cells, c+1)
+// elevate returns the coefficients at length n (one degree above src's)
+// raised from src on the scanned states.
+func elevate(ctx context.Context, ixs []*transfer.Indexer, p ratioProblem, n int, src source, srcLimbs int) (*table, error) {
+	dst := &table{limbs: srcLimbs + 1, offs: make([]int, p.st.Len())}
+	type span struct{ state, lo, hi int }
+	var spans []span
+	total := 0
+	for _, s := range p.states {
+		dst.offs[s] = total
+		count := ixs[p.st.Length(s)].Count(p.deg(s, n))
+		total += count * dst.limbs
+		for lo := 0; lo < count; lo += chunk {
+			spans = append(spans, span{s, lo, min(lo+chunk, count)})
+		}
 	}
-	perCell := ix.Count(deg)
-	dst := newTable(cells, perCell, srcLimbs+1)
-	perCellTasks := (perCell + chunk - 1) / chunk
-	err := par.Run(ctx, len(p.cells)*perCellTasks, func() func(int) {
-		s := newScratch(p.m, srcLimbs, 0, centre{})
+	dst.words = make([]big.Word, total)
+	err := par.Run(ctx, len(spans), func() func(int) {
+		s := newScratch(p.st.MaxLength(), srcLimbs, 0, centre{})
 		return func(task int) {
-			cell := p.cells[task/perCellTasks]
-			lo := (task % perCellTasks) * chunk
-			ix.Unrank(deg, lo, s.a)
-			for r := lo; r < min(lo+chunk, perCell); r++ {
-				s.raise(ix, cell, src, dst.Words(cell, r))
-				ix.Next(s.a)
+			sp := spans[task]
+			ix := ixs[p.st.Length(sp.state)]
+			a := s.a[:p.st.Length(sp.state)+1]
+			ix.Unrank(p.deg(sp.state, n), sp.lo, a)
+			for r := sp.lo; r < sp.hi; r++ {
+				s.raise(ix, a, sp.state, src, dst.Words(sp.state, r))
+				ix.Next(a)
 			}
 		}
 	})
@@ -256,23 +284,23 @@ type scratch struct {
 	x1, y1, x2, y2, p1, p2   big.Int
 }
 
-func newScratch(m, denLimbs, numLimbs int, c centre) *scratch {
+func newScratch(maxL, denLimbs, numLimbs int, c centre) *scratch {
 	n := max(numLimbs+c.words, len(c.p)+denLimbs+1) + 1
-	return &scratch{a: make([]int, m+1), d: make([]big.Word, denLimbs+1), centre: c,
+	return &scratch{a: make([]int, maxL+1), d: make([]big.Word, denLimbs+1), centre: c,
 		shifted: make([]big.Word, n), product: make([]big.Word, n), offset: make([]big.Word, n)}
 }
 
-// raise writes into dst the coefficient at s.a of src raised by one degree:
-// sum_t a_t src[a - e_t].
-func (s *scratch) raise(ix *transfer.Indexer, cell int, src source, dst []big.Word) {
+// raise writes into dst the coefficient at a (state p's composition) of
+// src raised by one degree: sum_t a_t src[a - e_t].
+func (s *scratch) raise(ix *transfer.Indexer, a []int, p int, src source, dst []big.Word) {
 	clear(dst)
-	for t, at := range s.a {
+	for t, at := range a {
 		if at == 0 {
 			continue
 		}
-		s.a[t]--
-		mulAddWords(dst, src.Words(cell, ix.Rank(s.a)), uint(at))
-		s.a[t]++
+		a[t]--
+		mulAddWords(dst, src.Words(p, ix.Rank(a)), uint(at))
+		a[t]++
 	}
 }
 

@@ -7,6 +7,7 @@ import (
 	"time"
 
 	"avoidcert/interval"
+	"avoidcert/transfer"
 )
 
 // Enclosure is a certified closed interval [Lo, Hi] with exact rational
@@ -67,32 +68,42 @@ func (x Enclosure) reciprocal(prec uint) Enclosure {
 	return r
 }
 
-// Bracket is one certified coefficientwise Collatz-Wielandt bracket: for
-// the iterates G_k and G_{k+d} of one system (the whole set, or one block
-// of cells), Lo = min R_a and Hi = max R_a over the indices a of degree k+d
-// with D_a > 0, where R_a = G_{k+d}[a] / D_a and D_a is G_k raised d
-// degrees. Then lambda^d lies in [Lo, Hi] (lambda of the system iterated).
+// Bracket is one certified coefficientwise Collatz-Wielandt bracket
+// (docs/prefix-states.md, "The bracket"): for the iterates G_N and
+// G_(N+d) of one system (the whole set, or the moves among some states
+// with start ones or whole), Lo = min R and Hi = max R over the states p of
+// the system and the compositions a of N+d-|p| with H > 0, where
+// R = G_(N+d)[p][a] / H and H is G_N[p] raised d degrees (d-fold integer
+// elevation). What [Lo, Hi] proves depends on the start: for the whole
+// system lambda^d lies in [Lo, Hi]; start ones gives lambda(T'_C)^d <= Hi
+// (the upper end of a block); start whole gives Lo <= lambda^d.
 type Bracket struct {
-	Cells []int // the cells iterated (all cells for the whole set)
-	M     int   // cell length m
-	K     int   // k
-	Step  int   // d
-	// Lo and Hi are the exact extremes of R_a. Hi is nil when some index has
-	// D_a = 0 < G_{k+d}[a]: no upper bound at this k.
+	States []int          // the system's states, increasing (all states for the whole system)
+	Start  transfer.Start // transfer.StartEmpty for the whole system
+	Step   int            // d
+	N      int            // the bracket compares G_N and G_(N+d)
+	// Lo and Hi are the exact extremes of R. Hi is nil when some index has
+	// H = 0 < G_(N+d)[p][a]: no upper bound at this N.
 	Lo, Hi *big.Rat
-	// Lambda is the enclosure of lambda drawn from [Lo, Hi]: d-th roots,
-	// rounded outward to dyadic rationals of Prec significant bits.
+	// Upper reports whether Hi is used as an upper end (the whole system,
+	// or start ones); the lower end is used for the whole system and start
+	// whole.
+	Upper bool
+	// Lambda is the enclosure drawn from [Lo, Hi]: d-th roots, rounded
+	// outward to dyadic rationals of Prec significant bits. For a block
+	// bracket only the end its start proves is about lambda itself.
 	Lambda Enclosure
 	Prec   uint
-	// Sum is the sum of the coefficients of G_k: a_{m+k} for the whole set.
+	// Sum is the sum of the coefficients of G_N: a_N for the whole system.
 	Sum *big.Int
-	// Digest is transfer's digest of G_k (zero unless Options.Digests, or
+	// Digest is transfer's digest of G_N (zero unless Options.Digests, or
 	// from BracketAt).
 	Digest [32]byte
 }
 
-// N0 returns m+k, the length whose count Sum is.
-func (b Bracket) N0() int { return b.M + b.K }
+// Lower reports whether the bracket's Lo is a lower bound of lambda^d
+// (the whole system, or start whole).
+func (b Bracket) Lower() bool { return b.Start != transfer.StartOnes }
 
 // StopReason says why a run ended.
 type StopReason string
@@ -104,7 +115,7 @@ const (
 	StopTarget    StopReason = "target"    // the digits or width target is met
 	StopExact     StopReason = "exact"     // a bracket of zero width: lambda is known exactly
 	StopDecided   StopReason = "decided"   // Judge: the claim is proved or refuted
-	StopMaxK      StopReason = "max-k"     // Options.MaxK reached
+	StopMaxN      StopReason = "max-n"     // Options.MaxN reached
 	StopMemory    StopReason = "memory"    // the next step would exceed Options.MaxMemory
 	StopTimeout   StopReason = "timeout"   // the context deadline (stopped in time to keep a bracket)
 	StopCancelled StopReason = "cancelled" // the context was cancelled
@@ -151,22 +162,23 @@ type Estimates struct {
 }
 
 // AllN holds bounds valid for every n >= N0, from a Step 1 bracket
-// [MuLo, MuHi] of the whole set at k = N0-m:
+// [MuLo, MuHi] of the whole system at N0:
 //
 //	A MuLo^(n-N0) <= a_n/n! <= A MuHi^(n-N0),  A = AN0/N0!.
 //
-// Proof. T is a positive operator (its kernel chi is 0 or 1), so f <= g
-// pointwise gives T f <= T g. The bracket says, coefficient by coefficient
-// in the Bernstein basis of degree k+1 on every cell, MuLo D_a <=
-// G_{k+1}[a] <= MuHi D_a, where D_a/(k+1)! are the coefficients of g_k =
-// G_k/k! = T^k g0 raised one degree and G_{k+1}[a]/(k+1)! are those of
-// T g_k. The basis polynomials are nonnegative on their cell, so
-// MuLo g_k <= T g_k <= MuHi g_k pointwise. By induction, using positivity,
-// T^(j+1) g_k = T^j (T g_k) <= T^j (MuHi g_k) = MuHi T^j g_k <=
-// MuHi^(j+1) g_k, and likewise MuLo^j g_k <= T^j g_k. Pairing with the
-// constant 1 and using a_n/n! = <T^(n-m) g0, 1> (method note, section 2),
-// with n = N0 + j: a_n/n! = <T^j g_k, 1> lies between MuLo^j <g_k, 1> and
-// MuHi^j <g_k, 1>, and <g_k, 1> = a_{N0}/N0!.
+// Proof. T' (the transfer operator on prefix states, method note section
+// 8) is positive, so f <= g pointwise gives T' f <= T' g. The bracket
+// says, coefficient by coefficient in the Bernstein basis of degree
+// N0+1-|p| on the cell of every state p, MuLo H <= G_(N0+1)[p][a] <= MuHi H,
+// where H/(N0+1-|p|)! are the coefficients of g (the density of G_N0,
+// coefficients G_N0[p]/(N0-|p|)!) raised one degree and
+// G_(N0+1)[p][a]/(N0+1-|p|)! are those of T' g. The basis polynomials are
+// nonnegative on their cell, so MuLo g <= T' g <= MuHi g pointwise. By
+// induction, using positivity, MuLo^j g <= T'^j g <= MuHi^j g. The mass of
+// T'^j g is a_(N0+j)/(N0+j)! (every permutation of length n is counted
+// once in G_n, and a coefficient G_n[p][a] carries mass G_n[p][a]/n!), so
+// with n = N0 + j, a_n/n! lies between MuLo^j and MuHi^j times
+// a_N0/N0!.
 type AllN struct {
 	N0         int
 	AN0        *big.Int // a_{N0}

@@ -1,8 +1,13 @@
 package bounds
 
 import (
+	"slices"
+
 	"context"
 	"fmt"
+	"gonum.org/v1/gonum/graph"
+	"gonum.org/v1/gonum/graph/simple"
+	"gonum.org/v1/gonum/graph/topo"
 	"math/big"
 	"time"
 
@@ -14,9 +19,9 @@ import (
 // Event reports progress: after every step and after every bracket.
 type Event struct {
 	Block   int      // the block stepped (0 for Run)
-	K       int      // the degree of that block's newest iterate
+	N       int      // the length n of that block's newest iterate
 	Bracket *Bracket // the bracket just taken, or nil after a plain step
-	NextK   int      // the k planned for that block's next bracket
+	NextN   int      // the n planned for that block's next bracket
 	// Lambda is the certified enclosure so far (Lo 0 and Hi nil before
 	// every block has a bracket).
 	Lambda Enclosure
@@ -26,119 +31,186 @@ type Event struct {
 // bracket search and must not block for long.
 type Progress func(Event)
 
-// Run brackets the growth rate of the system (usually transfer.FromSet of a
-// pattern set) until the target in opts is met or a budget stops it. A
+// Run brackets the growth rate of the whole system (transfer.Whole of a
+// set's states) until the target in opts is met or a budget stops it. A
 // budget stop is not an error: the result then holds the best certified
 // bracket found and says why it stopped. Errors are bad options, a memory
 // budget too small for even the first bracket, and a stop before any
 // bracket was taken.
-func Run(ctx context.Context, sys transfer.System, opts Options, progress Progress) (*Result, error) {
+func Run(ctx context.Context, st *transfer.States, opts Options, progress Progress) (*Result, error) {
 	if err := opts.validate(true); err != nil {
 		return nil, err
 	}
-	return drive(ctx, []*runner{wholeRunner(sys, opts)}, opts, targetGoal{opts.Digits, opts.Width}, progress)
+	r, err := newRunner(ctx, 0, transfer.Whole(st), opts.step())
+	if err != nil {
+		return nil, err
+	}
+	return drive(ctx, []*runner{r}, opts, targetGoal{opts.Digits, opts.Width}, progress)
 }
 
-// RunBlocks brackets each block's restricted system (System.Restrict,
-// start vector 1 on the block's cells) and reports lambda in
-// [max lo_C, max hi_C] (method note, section 5b).
+// RunBlocks brackets lambda block by block over a partition of the states
+// (nil: Blocks(st), the strongly connected components of the state
+// digraph) and reports [max lo, max hi] (method note, section 5b;
+// docs/prefix-states.md, "The bracket"):
+//   - upper end: every block C is iterated with start ones;
+//     lambda(T'_C)^d <= hi_C. The blocks partition the states and no move
+//     leads back from a later block to an earlier one (RunBlocks checks
+//     both), so T' is block-triangular and lambda <= max hi_C^(1/d).
+//   - lower end: every block with a move inside it is also iterated with
+//     start whole; lo_C <= lambda^d, because that start is at most the
+//     whole iterate and T' >= T'_C on non-negative functions.
 //
-// The blocks must partition the cells, and no cycle of allowed windows may
-// pass through two blocks (so T is block-triangular; the strongly
-// connected components of the window digraph qualify). RunBlocks checks
-// both, and that the start vector is 1 on every cell with an allowed window
-// (true for every system from transfer.FromSet). Then:
-//   - lower end: T >= T_C (dropping windows drops nonnegative terms) and
-//     g0 >= 1 on the cells of C that have windows, so a_n/n! grows at least
-//     like T_C^n 1_C, hence lambda >= lo_C for every C;
-//   - upper end: a bracket of C bounds T_C^(dj) g_{C,k} <= hi_C^j g_{C,k}
-//     pointwise, so T_C^n f grows at most like hi_C^(n/d) for every bounded
-//     f >= 0 on C; T^n g0 is a finite sum over the block paths of such
-//     terms, hence lambda <= max hi_C.
-//
-// Blocks whose upper end falls below another block's lower end stop
-// early; the others are advanced largest upper end first.
-func RunBlocks(ctx context.Context, sys transfer.System, blocks [][]int, opts Options, progress Progress) (*Result, error) {
+// Blocks whose ends cannot change the enclosure stop early; the others are
+// advanced widest first.
+func RunBlocks(ctx context.Context, st *transfer.States, blocks [][]int, opts Options, progress Progress) (*Result, error) {
 	if err := opts.validate(true); err != nil {
 		return nil, err
 	}
-	runners, err := blockRunners(sys, blocks, opts)
+	runners, err := blockRunners(ctx, st, blocks, opts)
 	if err != nil {
 		return nil, err
 	}
 	return drive(ctx, runners, opts, targetGoal{opts.Digits, opts.Width}, progress)
 }
 
-func wholeRunner(sys transfer.System, opts Options) *runner {
-	cells := make([]int, sys.Cells())
-	for c := range cells {
-		cells[c] = c
-	}
-	return newRunner(0, sys, cells, true, opts.step())
-}
-
-func blockRunners(sys transfer.System, blocks [][]int, opts Options) ([]*runner, error) {
+// blockRunners returns the runners of a bracket: the whole system for nil
+// blocks, else a ones runner for every block and a whole-start runner for
+// every block with a move inside it.
+func blockRunners(ctx context.Context, st *transfer.States, blocks [][]int, opts Options) ([]*runner, error) {
 	if blocks == nil {
-		return []*runner{wholeRunner(sys, opts)}, nil
+		r, err := newRunner(ctx, 0, transfer.Whole(st), opts.step())
+		if err != nil {
+			return nil, err
+		}
+		return []*runner{r}, nil
 	}
-	if err := checkBlocks(sys, blocks); err != nil {
+	if err := checkBlocks(st, blocks); err != nil {
 		return nil, err
 	}
-	runners := make([]*runner, len(blocks))
+	if len(blocks) == 1 {
+		return blockRunners(ctx, st, nil, opts) // one block is the whole system
+	}
+	inside := map[int]bool{}
+	blockOf := make([]int, st.Len())
 	for i, b := range blocks {
-		mask := make([]bool, sys.Cells())
-		for _, c := range b {
-			mask[c] = true
+		for _, p := range b {
+			blockOf[p] = i
 		}
-		runners[i] = newRunner(i, sys.Restrict(mask), append([]int(nil), b...), false, opts.step())
+	}
+	for _, e := range st.Edges() {
+		if blockOf[e.From] == blockOf[e.To] {
+			inside[blockOf[e.From]] = true
+		}
+	}
+	var runners []*runner
+	for i, b := range blocks {
+		starts := []transfer.Start{transfer.StartOnes}
+		if inside[i] {
+			starts = append(starts, transfer.StartWhole)
+		}
+		for _, start := range starts {
+			sys, err := st.Restrict(b, start)
+			if err != nil {
+				return nil, err
+			}
+			r, err := newRunner(ctx, i, sys, opts.step())
+			if err != nil {
+				return nil, err
+			}
+			runners = append(runners, r)
+		}
 	}
 	return runners, nil
 }
 
-// checkBlocks verifies what RunBlocks's bound rests on.
-func checkBlocks(sys transfer.System, blocks [][]int) error {
-	cells := sys.Cells()
-	if len(blocks) == 0 {
-		return fmt.Errorf("bounds: no blocks given; pass the strongly connected components of the window digraph, or use Run")
+// Blocks returns the strongly connected components of the state digraph
+// (gonum topo.TarjanSCC), each sorted, in a topological order of the
+// component digraph (moves only lead from a block to itself or a later
+// block), ties broken by the least state.
+func Blocks(st *transfer.States) [][]int {
+	g := simple.NewDirectedGraph()
+	for p := range st.Len() {
+		g.AddNode(simple.Node(p))
 	}
-	blockOf := make([]int, cells)
-	for c := range blockOf {
-		blockOf[c] = -1
+	for _, e := range st.Edges() {
+		if e.From != e.To { // simple graphs refuse self-loops; they do not change components
+			g.SetEdge(simple.Edge{F: simple.Node(e.From), T: simple.Node(e.To)})
+		}
+	}
+	var comps [][]int
+	for _, nodes := range topo.TarjanSCC(g) {
+		c := make([]int, len(nodes))
+		for i, n := range nodes {
+			c[i] = int(n.ID())
+		}
+		slices.Sort(c)
+		comps = append(comps, c)
+	}
+	slices.SortFunc(comps, func(a, b []int) int { return a[0] - b[0] })
+	of := make([]int, st.Len())
+	for i, c := range comps {
+		for _, p := range c {
+			of[p] = i
+		}
+	}
+	cond := simple.NewDirectedGraph()
+	for i := range comps {
+		cond.AddNode(simple.Node(i))
+	}
+	for _, e := range st.Edges() {
+		if a, b := of[e.From], of[e.To]; a != b && !cond.HasEdgeFromTo(int64(a), int64(b)) {
+			cond.SetEdge(simple.Edge{F: simple.Node(a), T: simple.Node(b)})
+		}
+	}
+	order, err := topo.SortStabilized(cond, func(ns []graph.Node) {
+		slices.SortFunc(ns, func(a, b graph.Node) int { return int(a.ID() - b.ID()) })
+	})
+	if err != nil {
+		panic("bounds: the component digraph has a cycle: " + err.Error())
+	}
+	out := make([][]int, len(order))
+	for i, n := range order {
+		out[i] = comps[n.ID()]
+	}
+	return out
+}
+
+// checkBlocks verifies what RunBlocks's upper end rests on: the blocks
+// partition the states and the moves between blocks form no cycle.
+func checkBlocks(st *transfer.States, blocks [][]int) error {
+	if len(blocks) == 0 {
+		return fmt.Errorf("bounds: no blocks given; pass Blocks(states), or use Run")
+	}
+	blockOf := make([]int, st.Len())
+	for p := range blockOf {
+		blockOf[p] = -1
 	}
 	for i, b := range blocks {
 		if len(b) == 0 {
 			return fmt.Errorf("bounds: block %d is empty", i)
 		}
-		for _, c := range b {
-			if c < 0 || c >= cells {
-				return fmt.Errorf("bounds: block %d names cell %d, outside 0..%d", i, c, cells-1)
+		for _, p := range b {
+			if p < 0 || p >= st.Len() {
+				return fmt.Errorf("bounds: block %d names state %d, outside 0..%d", i, p, st.Len()-1)
 			}
-			if blockOf[c] >= 0 {
-				return fmt.Errorf("bounds: cell %d is in blocks %d and %d; blocks must partition the cells", c, blockOf[c], i)
+			if blockOf[p] >= 0 {
+				return fmt.Errorf("bounds: state %d is in blocks %d and %d; blocks must partition the states", p, blockOf[p], i)
 			}
-			blockOf[c] = i
+			blockOf[p] = i
 		}
 	}
-	for c, b := range blockOf {
+	for p, b := range blockOf {
 		if b < 0 {
-			return fmt.Errorf("bounds: cell %d is in no block; blocks must partition the cells", c)
+			return fmt.Errorf("bounds: state %d is in no block; blocks must partition the states", p)
 		}
 	}
-	// Edges between blocks must form an acyclic graph.
 	succ := make([]map[int]bool, len(blocks))
 	for i := range succ {
 		succ[i] = map[int]bool{}
 	}
-	for w, ok := range sys.Allowed {
-		if !ok {
-			continue
-		}
-		from, to := sys.Ends(w)
-		if !sys.Start[from] {
-			return fmt.Errorf("bounds: the start vector is 0 on cell %d although a window leaves it; RunBlocks needs a system from transfer.FromSet", from)
-		}
-		if blockOf[from] != blockOf[to] {
-			succ[blockOf[from]][blockOf[to]] = true
+	for _, e := range st.Edges() {
+		if blockOf[e.From] != blockOf[e.To] {
+			succ[blockOf[e.From]][blockOf[e.To]] = true
 		}
 	}
 	state := make([]int, len(blocks)) // 0 new, 1 on the path, 2 done
@@ -148,7 +220,7 @@ func checkBlocks(sys transfer.System, blocks [][]int) error {
 		for c := range succ[b] {
 			switch state[c] {
 			case 1:
-				return fmt.Errorf("bounds: windows form a cycle through blocks %d and %d; blocks must be unions of strongly connected components in which no cycle crosses blocks", b, c)
+				return fmt.Errorf("bounds: moves form a cycle through blocks %d and %d; blocks must be unions of strongly connected components in which no cycle crosses blocks", b, c)
 			case 0:
 				if err := visit(c); err != nil {
 					return err
@@ -168,21 +240,27 @@ func checkBlocks(sys transfer.System, blocks [][]int) error {
 	return nil
 }
 
-// combined returns [max lo_C, max hi_C] over the runners' best brackets.
+// upper and lower report which ends of a runner's brackets bound lambda.
+func (r *runner) upper() bool { return r.sys.Start != transfer.StartWhole }
+func (r *runner) lower() bool { return r.sys.Start != transfer.StartOnes }
+
+// combined returns [max lo, max hi] over the runners' best brackets: lower
+// ends from the whole system and start whole, upper ends from the whole
+// system and start ones.
 func combined(runners []*runner) Enclosure {
 	var l Enclosure
 	bounded := true
 	for _, r := range runners {
-		if r.best == nil || r.best.Lambda.Hi == nil {
+		if r.upper() && (r.best == nil || r.best.Lambda.Hi == nil) {
 			bounded = false
 		}
 		if r.best == nil {
 			continue
 		}
-		if l.Lo == nil || r.best.Lambda.Lo.Cmp(l.Lo) > 0 {
+		if r.lower() && (l.Lo == nil || r.best.Lambda.Lo.Cmp(l.Lo) > 0) {
 			l.Lo = r.best.Lambda.Lo
 		}
-		if bounded && (l.Hi == nil || r.best.Lambda.Hi.Cmp(l.Hi) > 0) {
+		if r.upper() && bounded && (l.Hi == nil || r.best.Lambda.Hi.Cmp(l.Hi) > 0) {
 			l.Hi = r.best.Lambda.Hi
 		}
 	}
@@ -236,52 +314,60 @@ func drive(ctx context.Context, runners []*runner, opts Options, g goal, progres
 	return finish(runners, e, stop, detail, start)
 }
 
-// checkFirstMemory refuses a memory budget that cannot hold the first
-// bracket of every block, and lowers the first k when that helps.
+// checkFirstMemory plans the first bracket of every runner and refuses a
+// memory budget that cannot hold them, lowering the first n when that
+// helps.
 func checkFirstMemory(runners []*runner, opts Options) error {
-	k0 := firstK
-	if opts.MaxK > 0 {
-		k0 = min(k0, opts.MaxK)
-	}
-	for _, r := range runners {
-		r.next = k0
-	}
-	if opts.MaxMemory == 0 {
-		return nil
-	}
-	for ; k0 >= 0; k0-- {
+	for above := firstAbove; above >= 0; above-- {
 		var need int64
 		for _, r := range runners {
-			need += r.firstNeed(k0)
-		}
-		if need <= opts.MaxMemory {
-			for _, r := range runners {
-				r.next = k0
+			r.next = r.first() + above
+			if opts.MaxN > 0 {
+				r.next = max(min(r.next, opts.MaxN), r.first())
 			}
+			need += r.firstNeed(r.next)
+		}
+		if opts.MaxMemory == 0 || need <= opts.MaxMemory {
 			return nil
 		}
-		if k0 == 0 {
-			return fmt.Errorf("bounds: the memory budget of %s is below the %s needed for a first bracket (k = 0); raise it", bytesize.Format(opts.MaxMemory), bytesize.Format(need))
+		if above == 0 {
+			return fmt.Errorf("bounds: the memory budget of %s is below the %s needed for a first bracket; raise it", bytesize.Format(opts.MaxMemory), bytesize.Format(need))
 		}
 	}
 	return nil
 }
 
-// pick returns the runner to advance: the unfinished one with the largest
-// upper end (unbounded first, then no bracket yet).
+// pick returns the runner to advance: an unfinished one without a
+// bracket, else the unfinished one whose bracket is widest (unbounded
+// first).
 func pick(runners []*runner) *runner {
 	var best *runner
 	for _, r := range runners {
 		if r.finished {
 			continue
 		}
-		if best == nil || higher(r, best) {
+		if best == nil || wider(r, best) {
 			best = r
 		}
 	}
 	return best
 }
 
+func wider(r, s *runner) bool {
+	switch {
+	case r.best == nil:
+		return s.best != nil
+	case s.best == nil:
+		return false
+	case r.best.Lambda.Hi == nil:
+		return s.best.Lambda.Hi != nil
+	case s.best.Lambda.Hi == nil:
+		return false
+	}
+	return r.best.Lambda.Width().Cmp(s.best.Lambda.Width()) > 0
+}
+
+// higher orders runners by their upper ends (unbounded and none first).
 func higher(r, s *runner) bool {
 	switch {
 	case r.best == nil:
@@ -296,21 +382,21 @@ func higher(r, s *runner) bool {
 	return r.best.Lambda.Hi.Cmp(s.best.Lambda.Hi) > 0
 }
 
-// dropDominated finishes the blocks whose upper end is at most another
-// block's lower end (they cannot change the enclosure) and frees the
-// iterates of every finished block. Two blocks can only dominate each other
-// when both brackets are the same single point.
+// dropDominated finishes the runners that cannot change the enclosure any
+// more and frees their iterates: a block whose upper end (an estimate of
+// its own growth rate from above) is at most the enclosure's lower end
+// cannot raise the lower end or set the upper end above it.
 func dropDominated(runners []*runner, digests bool) {
+	if len(runners) < 2 {
+		return
+	}
+	l := combined(runners)
 	for _, r := range runners {
-		if r.cur == nil || r.best == nil || r.best.Lambda.Hi == nil {
+		if r.finished || r.cur == nil || r.best == nil || r.best.Lambda.Hi == nil {
 			continue
 		}
-		for _, s := range runners {
-			if s != r && s.best != nil && r.best.Lambda.Hi.Cmp(s.best.Lambda.Lo) <= 0 {
-				r.finished = true
-			}
-		}
-		if r.finished {
+		if r.best.Lambda.Hi.Cmp(l.Lo) < 0 || (r.upper() && r.best.Lambda.Hi.Cmp(l.Lo) == 0) {
+			r.finished = true
 			r.release(digests)
 		}
 	}
@@ -345,9 +431,9 @@ func finish(runners []*runner, e *env, stop StopReason, detail string, start tim
 	res.Estimates.Rate = top.rate()
 	if r := runners[0]; len(runners) == 1 && r.whole {
 		b := r.best
-		res.Estimates.C = estimateC(b.Sum, b.N0(), res.Lambda)
+		res.Estimates.C = estimateC(b.Sum, b.N, res.Lambda)
 		if b.Step == 1 && b.Hi != nil {
-			res.Explicit = &AllN{N0: b.N0(), AN0: b.Sum, MuLo: b.Lambda.Lo, MuHi: b.Lambda.Hi}
+			res.Explicit = &AllN{N0: b.N, AN0: b.Sum, MuLo: b.Lambda.Lo, MuHi: b.Lambda.Hi}
 		}
 	}
 	res.Elapsed = time.Since(start)

@@ -10,17 +10,16 @@ import (
 
 	"avoidcert/interval"
 	"avoidcert/pattern"
-	"avoidcert/structure"
 	"avoidcert/transfer"
 )
 
-func system(t testing.TB, set string) (pattern.Set, transfer.System) {
+func system(t testing.TB, set string) (pattern.Set, *transfer.States) {
 	t.Helper()
 	s, err := pattern.ParseSet([]string{set})
 	if err != nil {
 		t.Fatal(err)
 	}
-	return s, transfer.FromSet(s)
+	return s, transfer.NewStates(s)
 }
 
 // checkContains fails unless the certified enclosure holds the reference
@@ -138,22 +137,24 @@ func TestExtremalPatterns(t *testing.T) {
 	}
 }
 
-// TestWidthAtFixedK compares the exact bracket width at k = 30 with the
-// figures seen in a quick exact prototype (method note, section 4: 123
-// about 3.5e-9, 132 about 1.7e-12), to within a factor of ten.
-func TestWidthAtFixedK(t *testing.T) {
+// TestWidthAtFixedN compares the exact bracket width at n = 32 with the
+// figures a quick exact prototype saw in the cell form at k = 30, the same
+// n (method note, section 4: 123 about 3.5e-9, 132 about 1.7e-12): on
+// prefix states the bracket is as tight or tighter (section 8), and not
+// absurdly so.
+func TestWidthAtFixedN(t *testing.T) {
 	for _, c := range []struct {
 		set  string
 		seen float64
 	}{{"123", 3.5e-9}, {"132", 1.7e-12}} {
 		_, sys := system(t, c.set)
-		b, err := BracketAt(context.Background(), sys, 30, 1, 64)
+		b, err := BracketAt(context.Background(), transfer.Whole(sys), 32, 1, 64)
 		if err != nil {
 			t.Fatal(err)
 		}
 		w, _ := new(big.Rat).Sub(b.Hi, b.Lo).Float64()
-		if w < c.seen/10 || w > c.seen*10 {
-			t.Errorf("%s: width %.2g at k = 30, prototype saw about %.2g", c.set, w, c.seen)
+		if w < c.seen/1e4 || w > c.seen*10 {
+			t.Errorf("%s: width %.2g at n = 32, the cell-form prototype saw about %.2g", c.set, w, c.seen)
 		}
 	}
 }
@@ -208,20 +209,20 @@ func TestBudgetStops(t *testing.T) {
 	_, sys123 := system(t, "123")
 	_, sys1234 := system(t, "1234")
 
-	t.Run("max-k", func(t *testing.T) {
-		res, err := Run(context.Background(), sys123, Options{Digits: 80, MaxK: 20}, nil)
+	t.Run("max-n", func(t *testing.T) {
+		res, err := Run(context.Background(), sys123, Options{Digits: 80, MaxN: 22}, nil)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if res.Stop != StopMaxK || res.Brackets[0].K != 20 {
-			t.Fatalf("stop %s at k = %d, want max-k at 20", res.Stop, res.Brackets[0].K)
+		if res.Stop != StopMaxN || res.Brackets[0].N != 22 {
+			t.Fatalf("stop %s at n = %d, want max-n at 22", res.Stop, res.Brackets[0].N)
 		}
 		checkContains(t, "123", res, ref123)
 	})
 	t.Run("memory", func(t *testing.T) {
 		const budget = 40 << 20
-		var peakK int
-		res, err := Run(context.Background(), sys1234, Options{Digits: 80, MaxMemory: budget}, func(e Event) { peakK = max(peakK, e.K) })
+		var peakN int
+		res, err := Run(context.Background(), sys1234, Options{Digits: 80, MaxMemory: budget}, func(e Event) { peakN = max(peakN, e.N) })
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -230,11 +231,11 @@ func TestBudgetStops(t *testing.T) {
 		}
 		checkContains(t, "1234", res, ref1234)
 		// The last bracket is taken from the last iterates the budget allows.
-		if k := res.Brackets[0].K; k+1 != peakK {
-			t.Errorf("last bracket at k = %d, but iterates reached %d", k, peakK)
+		if n := res.Brackets[0].N; n+1 != peakN {
+			t.Errorf("last bracket at n = %d, but iterates reached %d", n, peakN)
 		}
-		if peak := transfer.New(sys1234).Footprint(peakK - 1); peak > 3*budget/2 {
-			t.Errorf("reached G_%d with footprint %d, far over the budget %d", peakK, peak, budget)
+		if peak := transfer.New(transfer.Whole(sys1234)).Footprint(peakN - 1); peak > 3*budget/2 {
+			t.Errorf("reached G_%d with footprint %d, far over the budget %d", peakN, peak, budget)
 		}
 	})
 	t.Run("memory refused", func(t *testing.T) {
@@ -263,7 +264,7 @@ func TestBudgetStops(t *testing.T) {
 		ctx, cancel := context.WithCancel(context.Background())
 		defer cancel()
 		res, err := Run(ctx, sys123, Options{Digits: 200}, func(e Event) {
-			if e.Bracket != nil && e.Bracket.K >= 16 {
+			if e.Bracket != nil && e.Bracket.N >= 18 {
 				cancel()
 			}
 		})
@@ -287,7 +288,7 @@ func TestBudgetStops(t *testing.T) {
 
 func TestBadOptions(t *testing.T) {
 	_, sys := system(t, "123")
-	for _, o := range []Options{{}, {Digits: -1}, {Digits: 5, Step: -1}, {Width: new(big.Rat)}, {Digits: 5, MaxK: -2}} {
+	for _, o := range []Options{{}, {Digits: -1}, {Digits: 5, Step: -1}, {Width: new(big.Rat)}, {Digits: 5, MaxN: -2}} {
 		if _, err := Run(context.Background(), sys, o, nil); err == nil {
 			t.Errorf("options %+v were accepted", o)
 		}
@@ -308,7 +309,7 @@ func TestWidthTarget(t *testing.T) {
 	checkContains(t, "132", res, interval.Lambda132(200)) // Elizalde-Noy 2003
 }
 
-// reducible is a set whose window digraph has two strongly connected
+// reducible is a set whose state digraph has two strongly connected
 // components with cycles and, as its brackets show, different growth
 // rates (found by a search over random sets of length-4 patterns; no
 // published source).
@@ -317,42 +318,42 @@ const reducible = "1243,1342,2314,2413,3421,4132"
 // TestRunBlocks brackets a reducible set block by block and checks the
 // result against the whole-system bracket, an independent computation.
 func TestRunBlocks(t *testing.T) {
-	_, sys := system(t, reducible)
-	d := structure.WindowDigraph(sys)
-	var blocks [][]int
+	_, st := system(t, reducible)
+	blocks := Blocks(st)
 	cyclic := 0
-	for _, c := range d.Components {
-		blocks = append(blocks, c.Cells)
-		if c.Cyclic && len(c.Cells) > 1 {
+	for _, b := range blocks {
+		if len(b) > 1 {
 			cyclic++
 		}
 	}
 	if cyclic < 2 {
-		t.Fatalf("%s has %d cyclic blocks; the test needs a reducible set", reducible, cyclic)
+		t.Fatalf("%s has %d blocks of several states (%v); the test needs a reducible set", reducible, cyclic, blocks)
 	}
-	res, err := RunBlocks(context.Background(), sys, blocks, Options{Digits: 12}, nil)
+	res, err := RunBlocks(context.Background(), st, blocks, Options{Digits: 12}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if res.Stop != StopTarget || len(res.Brackets) != len(blocks) || res.Explicit != nil {
-		t.Fatalf("stop %s, %d brackets for %d blocks, explicit %v", res.Stop, len(res.Brackets), len(blocks), res.Explicit)
+	if res.Stop != StopTarget || res.Explicit != nil {
+		t.Fatalf("stop %s, explicit %v", res.Stop, res.Explicit)
 	}
-	// The enclosure is [max lo_C, max hi_C], here set by one block.
-	lo, hi := res.Brackets[0].Lambda.Lo, res.Brackets[0].Lambda.Hi
-	for _, b := range res.Brackets[1:] {
-		if b.Lambda.Lo.Cmp(lo) > 0 {
+	// The enclosure is [max lo over whole starts, max hi over ones starts].
+	var lo, hi *big.Rat
+	for _, b := range res.Brackets {
+		if b.Lower() && (lo == nil || b.Lambda.Lo.Cmp(lo) > 0) {
 			lo = b.Lambda.Lo
 		}
-		if b.Lambda.Hi.Cmp(hi) > 0 {
+		if b.Upper && (hi == nil || b.Lambda.Hi.Cmp(hi) > 0) {
 			hi = b.Lambda.Hi
+		}
+		if b.Start == transfer.StartEmpty {
+			t.Errorf("a block bracket has the whole system's start")
 		}
 	}
 	if res.Lambda.Lo.Cmp(lo) != 0 || res.Lambda.Hi.Cmp(hi) != 0 {
 		t.Errorf("enclosure %s is not [max lo, max hi] of the blocks", res.Lambda.String(15))
 	}
-	// The whole system converges slowly here (method note, section 5b) but
-	// its bracket is certified too, so the two must meet.
-	whole, err := Run(context.Background(), sys, Options{Digits: 6, MaxK: 40}, nil)
+	// The whole system is certified too, so the two must meet.
+	whole, err := Run(context.Background(), st, Options{Digits: 6, MaxN: 40}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -368,19 +369,21 @@ func TestRunBlocks(t *testing.T) {
 		"cycle":     splitCycle(blocks),
 	}
 	for name, bl := range bad {
-		if _, err := RunBlocks(context.Background(), sys, bl, Options{Digits: 5}, nil); err == nil {
+		if _, err := RunBlocks(context.Background(), st, bl, Options{Digits: 5}, nil); err == nil {
 			t.Errorf("%s blocks %v were accepted", name, bl)
 		}
 	}
 }
 
-// splitCycle splits the first block with several cells in two, which cuts
-// a cycle between blocks.
+// splitCycle splits the first block with several states in two, which
+// cuts a cycle between blocks.
 func splitCycle(blocks [][]int) [][]int {
 	var out [][]int
+	split := false
 	for _, b := range blocks {
-		if len(b) > 1 && len(out) == 0 {
+		if len(b) > 1 && !split {
 			out = append(out, b[:1], b[1:])
+			split = true
 			continue
 		}
 		out = append(out, b)
@@ -403,7 +406,8 @@ func TestContextErrorsAreStops(t *testing.T) {
 // TestZeroGrowth covers sets with lambda = 0: the pattern 1 (no avoiders
 // of length >= 1: the bracket is exactly [0, 0] and the radius infinite)
 // and {123, 231, 312, 321}, whose upper end only creeps down (method note,
-// section 5b: hi = 0.12 at k = 30 seen in a prototype).
+// section 5b: hi = 0.12 at k = 30 seen in a cell-form prototype; on
+// prefix states it creeps down too, and stays below that).
 func TestZeroGrowth(t *testing.T) {
 	_, sys := system(t, "1")
 	res, err := Run(context.Background(), sys, Options{Digits: 5}, nil)
@@ -414,26 +418,26 @@ func TestZeroGrowth(t *testing.T) {
 		t.Errorf("pattern 1: stop %s, lambda %s, radius %s", res.Stop, res.Lambda.String(5), res.Radius.String(5))
 	}
 	_, sys = system(t, "123,231,312,321")
-	res, err = Run(context.Background(), sys, Options{Digits: 5, MaxK: 30}, nil)
+	res, err = Run(context.Background(), sys, Options{Digits: 5, MaxN: 32}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
 	hi, _ := res.Lambda.Hi.Float64()
-	if res.Stop != StopMaxK || res.Lambda.Lo.Sign() != 0 || hi < 0.1 || hi > 0.14 || res.Radius.Hi != nil {
+	if res.Stop != StopMaxN || res.Lambda.Lo.Sign() != 0 || hi <= 0 || hi > 0.14 || res.Radius.Hi != nil {
 		t.Errorf("{123,231,312,321}: stop %s, lambda %s, radius %s", res.Stop, res.Lambda.String(5), res.Radius.String(5))
 	}
 }
 
-// TestPeriodicMaxK stops a Step 2 run of {123, 321} at k = 10 and checks
+// TestPeriodicMaxN stops a Step 2 run of {123, 321} at n = 12 and checks
 // the bracket still holds 2/pi (Andre 1879).
-func TestPeriodicMaxK(t *testing.T) {
+func TestPeriodicMaxN(t *testing.T) {
 	_, sys := system(t, "123,321")
-	res, err := Run(context.Background(), sys, Options{Digits: 30, Step: 2, MaxK: 10}, nil)
+	res, err := Run(context.Background(), sys, Options{Digits: 30, Step: 2, MaxN: 12}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if b := res.Brackets[0]; res.Stop != StopMaxK || b.K != 10 || b.Step != 2 || res.Explicit != nil {
-		t.Fatalf("stop %s at k = %d, step %d, explicit %v", res.Stop, b.K, b.Step, res.Explicit)
+	if b := res.Brackets[0]; res.Stop != StopMaxN || b.N != 12 || b.Step != 2 || res.Explicit != nil {
+		t.Fatalf("stop %s at n = %d, step %d, explicit %v", res.Stop, b.N, b.Step, res.Explicit)
 	}
 	checkContains(t, "123,321", res, interval.LambdaAlternating(200))
 }

@@ -14,41 +14,40 @@ import (
 	"avoidcert/transfer"
 )
 
-// firstK is the k of the first bracket: cheap, and past the start-up
-// transient of most sets.
-const firstK = 4
+// firstAbove is how far above the system's start (and its longest state)
+// the first bracket is taken: cheap, and past the start-up transient of
+// most sets.
+const firstAbove = 4
 
 // runner iterates one system (the whole set or one block) and takes its
 // brackets on a schedule. Steps consume their input (transfer's Advance,
-// recycling storage) except the step from the G_k of a planned bracket,
-// which keeps G_k as the base until G_{k+d} is reached.
+// recycling storage) except the step from the G_n of a planned bracket,
+// which keeps G_n as the base until G_(n+d) is reached.
 type runner struct {
 	block int
 	sys   transfer.System
 	eng   *transfer.Engine
-	cells []int // the cells scanned
-	whole bool  // the system is the whole set: Sum is a count a_n
+	whole bool // the system is the whole set: Sum is a count a_n
 	d     int
 
 	cur    *transfer.Iterate // the newest iterate
-	base   *transfer.Iterate // G_k of the pending bracket, or nil
-	spare  *transfer.Iterate // consumed storage for the next output, or nil
-	pinned *transfer.Iterate // G_k of best, kept for its digest
-	sizes  []int64           // bytes of G_K by K, as far as needed
+	base   *transfer.Iterate // G_n of the pending bracket, or nil
+	spare  *transfer.Iterate // storage to recycle for the next output, or nil
+	pinned *transfer.Iterate // G_n of best, kept for its digest
 
-	next      int // k of the next planned bracket
-	evaluated int // k of the newest bracket, -1 before the first
+	next      int // n of the next planned bracket
+	evaluated int // n of the newest bracket, -1 before the first
 	best      *Bracket
 	widths    []widthPoint // finite brackets of positive width
 	finished  bool         // exact, or dominated by another block
 
 	stepDur, evalDur time.Duration
 	stepFoot         int64 // Footprint of the timed step
-	evalBytes        int64 // bytes of G_{k+d} at the timed bracket
+	evalBytes        int64 // bytes of G_(n+d) at the timed bracket
 }
 
 type widthPoint struct {
-	k    int
+	n    int
 	log2 float64 // log2 of the width of the lambda enclosure
 }
 
@@ -63,23 +62,29 @@ type env struct {
 	elsewhere func() int64
 }
 
-func newRunner(block int, sys transfer.System, cells []int, whole bool, d int) *runner {
+func newRunner(ctx context.Context, block int, sys transfer.System, d int) (*runner, error) {
 	eng := transfer.New(sys)
-	g0 := eng.Start()
-	return &runner{block: block, sys: sys, eng: eng, cells: cells, whole: whole, d: d,
-		cur: g0, sizes: []int64{g0.Bytes()}, evaluated: -1, next: firstK}
+	g0, err := eng.Start(ctx)
+	if err != nil {
+		return nil, err
+	}
+	r := &runner{block: block, sys: sys, eng: eng, whole: sys.IsWhole(), d: d, cur: g0, evaluated: -1}
+	r.next = r.first()
+	return r, nil
 }
 
-// size returns the bytes of G_K. transfer.Engine.Footprint(K) counts G_K
-// twice (the input and its prefix sums) and G_{K+1} once, which gives the
-// sizes one after another from G_0.
-func (r *runner) size(K int) int64 {
-	for len(r.sizes) <= K {
-		j := len(r.sizes) - 1
-		r.sizes = append(r.sizes, r.eng.Footprint(j)-2*r.sizes[j])
+// first returns the earliest n a bracket may be taken at: the system's
+// start, and no state longer than n.
+func (r *runner) first() int {
+	n := r.sys.StartN()
+	for _, p := range r.sys.Members {
+		n = max(n, r.sys.States.Length(p))
 	}
-	return r.sizes[K]
+	return n
 }
+
+// size returns the bytes of G_n.
+func (r *runner) size(n int) int64 { return r.eng.IterateBytes(n) }
 
 func bytesOf(g *transfer.Iterate) int64 {
 	if g == nil {
@@ -106,37 +111,36 @@ func (r *runner) pinnedExtra() int64 {
 	return bytesOf(r.pinned)
 }
 
-// evalNeed returns the workspace of a bracket at k beyond the iterates.
-func (r *runner) evalNeed(k int) int64 {
-	ix := transfer.NewIndexer(r.sys.M, k+r.d)
-	limbs := r.size(k)/int64(8*r.sys.Cells()*ix.Count(k)) + int64(r.d) + 1
-	tasks := int64(len(r.cells)) * int64((ix.Count(k+r.d)+chunk-1)/chunk)
-	n := 8 * limbs * (4*tasks + 16*int64(runtime.GOMAXPROCS(0)))
+// evalNeed returns the workspace of a bracket at n beyond the iterates:
+// the tallies and scratch of the tasks, and for d > 1 two raised tables.
+func (r *runner) evalNeed(n int) int64 {
+	limbs := int64(r.eng.Limbs(n+r.d)) + int64(r.d) + 1
+	tasks := r.size(n+r.d)/(8*int64(r.eng.Limbs(n+r.d))*chunk) + int64(len(r.sys.Members))
+	need := 8 * limbs * (4*tasks + 16*int64(runtime.GOMAXPROCS(0)))
 	if r.d > 1 {
-		n += 2 * 8 * limbs * int64(r.sys.Cells()) * int64(ix.Count(k+r.d-1))
+		need += 2 * r.size(n+r.d-1) * limbs / int64(r.eng.Limbs(n+r.d-1))
 	}
-	return n
+	return need
 }
 
 // baseNeed returns the peak bytes of a bracket with base G_j, reached from
 // G_j with nothing else of this runner held but other bytes: the step that
-// keeps G_j (G_j, its prefix sums, G_{j+1}), the consuming steps up to
-// G_{j+d} with G_j held, and the bracket itself.
+// keeps G_j, the steps up to G_(j+d) with G_j held, and the bracket itself.
 func (r *runner) baseNeed(j int, other int64) int64 {
-	peak := other + 2*r.size(j) + r.size(j+1)
+	peak := other + r.eng.Footprint(j)
 	for i := 1; i < r.d; i++ {
-		peak = max(peak, other+r.size(j)+r.size(j+i)+r.size(j+i+1))
+		peak = max(peak, other+r.size(j)+r.eng.Footprint(j+i))
 	}
 	return max(peak, other+r.size(j)+r.size(j+r.d)+r.evalNeed(j))
 }
 
-// firstNeed returns the peak bytes up to the first bracket at k0.
-func (r *runner) firstNeed(k0 int) int64 {
+// firstNeed returns the peak bytes up to the first bracket at n0.
+func (r *runner) firstNeed(n0 int) int64 {
 	var peak int64
-	for K := 0; K < k0; K++ {
-		peak = max(peak, r.size(K)+2*r.size(K+1))
+	for n := r.cur.N; n < n0; n++ {
+		peak = max(peak, r.eng.Footprint(n)+r.size(n+1))
 	}
-	return max(peak, r.baseNeed(k0, 0))
+	return max(peak, r.baseNeed(n0, 0))
 }
 
 // advance steps until the next bracket is taken (and returns "") or a
@@ -147,25 +151,25 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 	budget := e.opts.MaxMemory
 	for {
 		cur := r.cur
-		if r.base != nil && cur.K == r.base.K+r.d {
-			k := r.base.K
+		if r.base != nil && cur.N == r.base.N+r.d {
+			k := r.base.N
 			if need := r.held() + r.evalNeed(k) + e.elsewhere(); budget > 0 && need > budget {
-				return StopMemory, fmt.Sprintf("the bracket at k = %d would need about %s, over the memory budget of %s", k, bytesize.Format(need), bytesize.Format(budget)), nil
+				return StopMemory, fmt.Sprintf("the bracket at n = %d would need about %s, over the memory budget of %s", k, bytesize.Format(need), bytesize.Format(budget)), nil
 			}
 			if err := r.evaluate(ctx, e); err != nil {
 				return stopFor(err)
 			}
 			return "", "", nil
 		}
-		K := cur.K
+		K := cur.N
 		if r.base == nil {
-			// The earliest bracket still possible has base G_K.
-			if e.opts.MaxK > 0 && K > e.opts.MaxK {
-				return StopMaxK, fmt.Sprintf("reached the largest k allowed (%d)", e.opts.MaxK), nil
+			// The earliest bracket still possible has base G_n.
+			if e.opts.MaxN > 0 && K > e.opts.MaxN {
+				return StopMaxN, fmt.Sprintf("reached the largest n allowed (%d)", e.opts.MaxN), nil
 			}
 			other := e.elsewhere() + r.pinnedExtra()
 			if need := r.baseNeed(K, other); budget > 0 && need > budget {
-				return StopMemory, fmt.Sprintf("a bracket at k = %d would need about %s, over the memory budget of %s", K, bytesize.Format(need), bytesize.Format(budget)), nil
+				return StopMemory, fmt.Sprintf("a bracket at n = %d would need about %s, over the memory budget of %s", K, bytesize.Format(need), bytesize.Format(budget)), nil
 			}
 			if left, ok := timeLeft(ctx); ok && left < r.bracketTime(K) {
 				return StopTimeout, fmt.Sprintf("stopped at G_%d: a further bracket would not finish before the deadline", K), nil
@@ -211,7 +215,7 @@ func (r *runner) step(ctx context.Context, e *env, keep bool) error {
 		}
 		return err
 	}
-	r.stepDur, r.stepFoot = time.Since(t0), r.eng.Footprint(cur.K)
+	r.stepDur, r.stepFoot = time.Since(t0), r.eng.Footprint(cur.N)
 	if keep {
 		r.base = cur
 	} else {
@@ -219,7 +223,7 @@ func (r *runner) step(ctx context.Context, e *env, keep bool) error {
 	}
 	r.cur = next
 	if e.progress != nil {
-		e.progress(Event{Block: r.block, K: next.K, NextK: r.next, Lambda: e.combined()})
+		e.progress(Event{Block: r.block, N: next.N, NextN: r.next, Lambda: e.combined()})
 	}
 	return nil
 }
@@ -230,7 +234,7 @@ func timeLeft(ctx context.Context) (time.Duration, bool) {
 	return time.Until(d), ok
 }
 
-// bracketTime estimates the time to take a bracket with base G_K from G_K:
+// bracketTime estimates the time to take a bracket with base G_n from G_n:
 // d steps and the bracket.
 func (r *runner) bracketTime(K int) time.Duration {
 	var t time.Duration
@@ -251,7 +255,7 @@ func stopFor(err error) (StopReason, string, error) {
 	return "", "", err
 }
 
-// stepEstimate scales the last step's time to the step from G_K.
+// stepEstimate scales the last step's time to the step from G_n.
 func (r *runner) stepEstimate(K int) time.Duration {
 	if r.stepFoot == 0 {
 		return 0
@@ -259,7 +263,7 @@ func (r *runner) stepEstimate(K int) time.Duration {
 	return time.Duration(float64(r.stepDur) * float64(r.eng.Footprint(K)) / float64(r.stepFoot))
 }
 
-// evalEstimate scales the last bracket's time to one whose G_{k+d} is G_K.
+// evalEstimate scales the last bracket's time to one whose G_(n+d) is G_n.
 func (r *runner) evalEstimate(K int) time.Duration {
 	if r.evalBytes == 0 {
 		return 2 * r.stepEstimate(K)
@@ -267,21 +271,22 @@ func (r *runner) evalEstimate(K int) time.Duration {
 	return time.Duration(float64(r.evalDur) * float64(r.size(K)) / float64(r.evalBytes))
 }
 
-// evaluate takes the bracket at k = cur.K - d.
+// evaluate takes the bracket at k = cur.N - d.
 func (r *runner) evaluate(ctx context.Context, e *env) error {
 	cur, gk := r.cur, r.base
 	t0 := time.Now()
-	res, err := extremes(ctx, ratioProblem{m: r.sys.M, k: gk.K, d: r.d, cells: r.cells, num: cur, base: gk, numLimbs: cur.Limbs, baseLimbs: gk.Limbs})
+	res, err := extremes(ctx, ratioProblem{st: r.sys.States, n: gk.N, d: r.d, states: r.sys.Members, num: cur, base: gk, numLimbs: cur.Limbs, baseLimbs: gk.Limbs})
 	if err != nil {
 		return err
 	}
 	r.evalDur, r.evalBytes = time.Since(t0), cur.Bytes()
-	b := Bracket{Cells: r.cells, M: r.sys.M, K: gk.K, Step: r.d, Lo: res.lo, Hi: res.hi, Sum: gk.Sum()}
+	b := Bracket{States: r.sys.Members, Start: r.sys.Start, Step: r.d, N: gk.N, Lo: res.lo, Hi: res.hi,
+		Upper: r.sys.Start != transfer.StartWhole, Sum: gk.Sum()}
 	b.Prec = e.goal.prec(res.hi)
 	b.Lambda = lambdaOf(res.lo, res.hi, r.d, b.Prec)
-	r.evaluated = gk.K
+	r.evaluated = gk.N
 	if w := b.Lambda.Width(); w != nil && w.Sign() > 0 {
-		r.widths = append(r.widths, widthPoint{k: gk.K, log2: log2Rat(w)})
+		r.widths = append(r.widths, widthPoint{n: gk.N, log2: log2Rat(w)})
 	}
 	if better(&b, r.best) {
 		r.best = &b
@@ -298,7 +303,7 @@ func (r *runner) evaluate(ctx context.Context, e *env) error {
 	}
 	r.next = r.plan(e)
 	if e.progress != nil {
-		e.progress(Event{Block: r.block, K: cur.K, Bracket: &b, NextK: r.next, Lambda: e.combined()})
+		e.progress(Event{Block: r.block, N: cur.N, Bracket: &b, NextN: r.next, Lambda: e.combined()})
 	}
 	return nil
 }
@@ -341,22 +346,26 @@ func better(b, best *Bracket) bool {
 // current k (predictions from small k are rough), and 1.5 times the
 // current k while no decay has been seen.
 func (r *runner) plan(e *env) int {
-	k := r.evaluated
+	// k counts the steps above the first possible bracket, as n - m did
+	// in the cell form.
+	origin := r.first()
+	k := r.evaluated - origin
 	next := max(k+1, int(math.Ceil(1.5*float64(k))))
-	if n := len(r.widths); n >= 2 {
-		p, q := r.widths[n-2], r.widths[n-1]
-		if q.k == k && q.k > p.k {
-			rate := (q.log2 - p.log2) / float64(q.k-p.k)
+	if w := len(r.widths); w >= 2 {
+		p, q := r.widths[w-2], r.widths[w-1]
+		if q.n == r.evaluated && q.n > p.n {
+			rate := (q.log2 - p.log2) / float64(q.n-p.n)
 			if rate < -1e-3 {
 				steps := math.Ceil((e.goal.targetLog2(e.combined()) - q.log2) / rate)
 				next = k + int(min(max(steps, 1), float64(k+4)))
 			}
 		}
 	}
-	if e.opts.MaxK > 0 {
-		next = min(next, e.opts.MaxK)
+	next += origin
+	if e.opts.MaxN > 0 {
+		next = min(next, e.opts.MaxN)
 	}
-	return max(next, k+r.d) // the base of a bracket is at or after G_{k+d}
+	return max(next, r.evaluated+r.d) // the base of a bracket is at or after G_(n+d)
 }
 
 // rate returns the observed width decay per unit of k (estimate).
@@ -366,10 +375,10 @@ func (r *runner) rate() float64 {
 		return 0
 	}
 	p, q := r.widths[n-2], r.widths[n-1]
-	return math.Exp2((q.log2 - p.log2) / float64(q.k-p.k))
+	return math.Exp2((q.log2 - p.log2) / float64(q.n-p.n))
 }
 
-// digest fills in the digest of the best bracket's G_k, if wanted, and
+// digest fills in the digest of the best bracket's G_n, if wanted, and
 // releases it.
 func (r *runner) digest(wanted bool) {
 	if wanted && r.best != nil && r.pinned != nil {

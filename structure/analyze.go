@@ -5,7 +5,6 @@ import (
 	"fmt"
 
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // Class names what the structure pass proved about a set.
@@ -126,7 +125,7 @@ func (r *Report) say(format string, args ...any) {
 // joint-pattern test (m <= 5), the decision of lambda > 0, and the
 // classification with its evidence. It returns ctx's error if cancelled.
 func Analyze(ctx context.Context, s pattern.Set, opts Options) (*Report, error) {
-	sys := transfer.FromSet(s)
+	sys := WindowsOf(s)
 	m := sys.M
 	opts = opts.withDefaults(m)
 	d := WindowDigraph(sys)
@@ -216,7 +215,7 @@ type jointRun struct {
 // runJoint computes R_m, R_{m+1}, ... until one is the domain, one
 // repeats, or MaxSteps is reached. Along the way it finds the least k
 // whose R_k holds a closable joint pattern.
-func runJoint(ctx context.Context, sys transfer.System, opts Options) (*jointRun, error) {
+func runJoint(ctx context.Context, sys Windows, opts Options) (*jointRun, error) {
 	js := newJointSpace(sys)
 	m := sys.M
 	run := &jointRun{js: js, closeK: -1, witnesses: opts.Witnesses}
@@ -289,7 +288,7 @@ func runJoint(ctx context.Context, sys transfer.System, opts Options) (*jointRun
 // is one cell, its only loops are monotone windows, so the closed walk of
 // a cyclic avoider would be one monotone window repeated L times, and
 // p_1 < p_2 < ... < p_L < p_1 is impossible: there is none.
-func decideLambda(ctx context.Context, rep *Report, sys transfer.System, run *jointRun, opts Options) error {
+func decideLambda(ctx context.Context, rep *Report, sys Windows, run *jointRun, opts Options) error {
 	m := sys.M
 	if run != nil {
 		short, err := findCyclic(ctx, sys, m+1, 2*m-1, 0)
@@ -401,7 +400,7 @@ func classify(rep *Report, run *jointRun) {
 		rep.Unreached = &CellPair{From: cellPerm(rep.M, from), To: cellPerm(rep.M, to)}
 		rep.say("reducible: no walk of the window digraph leads from cell %v to cell %v, so no avoiding permutation of length > %d starts with pattern %v and ends with %v; T maps the functions on the cells reached from %v (on %v itself if none is) into themselves, a proper invariant subspace (proved)",
 			rep.Unreached.From, rep.Unreached.To, rep.M, rep.Unreached.From, rep.Unreached.To, rep.Unreached.From, rep.Unreached.From)
-		rep.say("lambda is the largest over the blocks of the window digraph (bracket each with transfer.System.Restrict); whether a_n/n! ~ c lambda^n holds depends on the dominant blocks and is not proved here")
+		rep.say("lambda is the largest over the blocks (package bounds brackets each strongly connected block of the prefix-state digraph); whether a_n/n! ~ c lambda^n holds depends on the dominant blocks and is not proved here")
 		return
 	}
 	if run != nil && run.cycleLength > 0 {

@@ -7,8 +7,6 @@ import (
 	"gonum.org/v1/gonum/graph/multi"
 	"gonum.org/v1/gonum/graph/simple"
 	"gonum.org/v1/gonum/graph/topo"
-
-	"avoidcert/transfer"
 )
 
 // Digraph is the window digraph W_S of a system: one vertex per order
@@ -49,7 +47,7 @@ type Component struct {
 // WindowDigraph builds the window digraph of a system and its strongly
 // connected components (gonum topo.TarjanSCC), their periods and a
 // topological order of the blocks.
-func WindowDigraph(sys transfer.System) *Digraph {
+func WindowDigraph(sys Windows) *Digraph {
 	d := &Digraph{M: sys.M, Cells: sys.Cells(), start: sys.Start, g: multi.NewDirectedGraph()}
 	for c := range d.Cells {
 		d.g.AddNode(multi.Node(c))
@@ -167,16 +165,6 @@ func (d *Digraph) Graph() graph.Directed { return d.g }
 
 // ComponentOf returns the index of the component holding a cell.
 func (d *Digraph) ComponentOf(cell int) int { return d.component[cell] }
-
-// Mask returns the cells of component i as a table over all cells, the
-// argument transfer.System.Restrict takes to bracket that block.
-func (d *Digraph) Mask(i int) []bool {
-	mask := make([]bool, d.Cells)
-	for _, c := range d.Components[i].Cells {
-		mask[c] = true
-	}
-	return mask
-}
 
 // Acyclic reports whether no component holds a cycle.
 func (d *Digraph) Acyclic() bool {

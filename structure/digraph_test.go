@@ -4,13 +4,11 @@ import (
 	"avoidcert/internal/settest"
 	"math/rand/v2"
 	"testing"
-
-	"avoidcert/transfer"
 )
 
 // reachability returns reach[u][v]: a walk of one or more windows leads
 // from u to v (transitive closure of the window relation, Warshall).
-func reachability(sys transfer.System) [][]bool {
+func reachability(sys Windows) [][]bool {
 	n := sys.Cells()
 	reach := make([][]bool, n)
 	for u := range reach {
@@ -38,7 +36,7 @@ func reachability(sys transfer.System) [][]bool {
 // at the component's least cell that stay inside it (0 if none); every
 // simple cycle of length l gives closed walks of lengths a+b and a+l+b,
 // so these lengths already have the period as gcd.
-func closedWalkGCD(sys transfer.System, cells []int) int {
+func closedWalkGCD(sys Windows, cells []int) int {
 	in := map[int]bool{}
 	for _, c := range cells {
 		in[c] = true
@@ -70,7 +68,7 @@ func TestWindowDigraphAgainstClosure(t *testing.T) {
 	}
 	for _, arg := range sets {
 		s := settest.Must(t, arg)
-		sys := transfer.FromSet(s)
+		sys := WindowsOf(s)
 		d := WindowDigraph(sys)
 		reach := reachability(sys)
 		windows := 0
@@ -132,7 +130,7 @@ func TestWindowDigraphAgainstClosure(t *testing.T) {
 
 // A loop at a cell is kept: for 12 (m = 1) the one cell has the loop 21.
 func TestWindowDigraphKeepsLoops(t *testing.T) {
-	d := WindowDigraph(transfer.FromSet(settest.Must(t, "12")))
+	d := WindowDigraph(WindowsOf(settest.Must(t, "12")))
 	if d.Windows != 1 || !d.Components[0].Cyclic || d.Components[0].Period != 1 {
 		t.Fatalf("12: %+v", d.Components)
 	}

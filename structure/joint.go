@@ -6,7 +6,6 @@ import (
 	"slices"
 
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // The joint-pattern test.
@@ -51,7 +50,7 @@ type jointSpace struct {
 	m, n   int   // n = 2m
 	size   int   // n!
 	fact   []int // fact[i] = i!, i <= n
-	sys    transfer.System
+	sys    Windows
 	extend []bool // extend[cell*(m+1)+j]: window (y, z) allowed, y in cell, j of y below z
 	domain bitset // joint patterns whose two halves are start cells
 }
@@ -61,7 +60,7 @@ type jointSpace struct {
 // bits (60 MB) per step and about 6*10^9 transitions per step.
 const maxExactM = 5
 
-func newJointSpace(sys transfer.System) *jointSpace {
+func newJointSpace(sys Windows) *jointSpace {
 	m := sys.M
 	js := &jointSpace{m: m, n: 2 * m, sys: sys, fact: factorials(2 * m)}
 	js.size = js.fact[js.n]

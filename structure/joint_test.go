@@ -8,7 +8,6 @@ import (
 	"testing"
 
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // unrank agrees with pattern.Unrank, pattern.Rank needs no standardising,
@@ -63,7 +62,7 @@ func TestJointStepsMatchDefinition(t *testing.T) {
 	}
 	for _, args := range sets {
 		s := settest.Must(t, args...)
-		sys := transfer.FromSet(s)
+		sys := WindowsOf(s)
 		m := sys.M
 		js := newJointSpace(sys)
 		cur, err := js.initial(context.Background())
@@ -92,7 +91,7 @@ func TestJointStepsMatchDefinition(t *testing.T) {
 func TestDomain(t *testing.T) {
 	for _, args := range []string{"1324", "123,2143", "12,2341", "21,123"} {
 		s := settest.Must(t, args)
-		sys := transfer.FromSet(s)
+		sys := WindowsOf(s)
 		m := sys.M
 		js := newJointSpace(sys)
 		for r, p := range pattern.All(2 * m) {
@@ -109,7 +108,7 @@ func TestDomain(t *testing.T) {
 func TestPredecessorInvertsStep(t *testing.T) {
 	for _, args := range []string{"1324", "123,321", "2143,1234"} {
 		s := settest.Must(t, args)
-		sys := transfer.FromSet(s)
+		sys := WindowsOf(s)
 		m := sys.M
 		js := newJointSpace(sys)
 		prev, _ := js.initial(context.Background())

@@ -5,7 +5,6 @@ import (
 	"errors"
 
 	"avoidcert/pattern"
-	"avoidcert/transfer"
 )
 
 // errBudget reports that a bounded search ran out of nodes.
@@ -19,7 +18,7 @@ var errBudget = errors.New("structure: search budget exhausted")
 // children in increasing order of the new value.
 type walker struct {
 	ctx    context.Context
-	sys    transfer.System
+	sys    Windows
 	seq    []int
 	nodes  int64
 	budget int64 // 0: unlimited
@@ -27,7 +26,7 @@ type walker struct {
 	length int
 }
 
-func newWalker(ctx context.Context, sys transfer.System, budget int64) *walker {
+func newWalker(ctx context.Context, sys Windows, budget int64) *walker {
 	return &walker{ctx: ctx, sys: sys, budget: budget}
 }
 
@@ -90,7 +89,7 @@ func (w *walker) grow() (bool, error) {
 // closesCyclically reports whether the allowed sequence seq (length
 // L >= m+1) is a cyclic avoider: the m windows that wrap around the end
 // are allowed too.
-func closesCyclically(sys transfer.System, seq []int) bool {
+func closesCyclically(sys Windows, seq []int) bool {
 	m, L := sys.M, len(seq)
 	win := make([]int, m+1)
 	for s := L - m; s < L; s++ {
@@ -110,7 +109,7 @@ func closesCyclically(sys transfer.System, seq []int) bool {
 // window has distinct entries. Rotations count separately. By method.md
 // section 5b, this is L! tr(T^L).
 func CyclicAvoiders(ctx context.Context, s pattern.Set, L int) (int64, error) {
-	sys := transfer.FromSet(s)
+	sys := WindowsOf(s)
 	if L < sys.M+1 {
 		return 0, errors.New("structure: a cyclic avoider needs a length of at least the longest pattern's")
 	}
@@ -128,7 +127,7 @@ func CyclicAvoiders(ctx context.Context, s pattern.Set, L int) (int64, error) {
 // findCyclic searches the lengths lo..hi in order for a cyclic avoider and
 // returns the first one found (nil if none). With budget 0 the search of
 // each length is exhaustive, so nil means none exists at those lengths.
-func findCyclic(ctx context.Context, sys transfer.System, lo, hi int, budget int64) (pattern.Perm, error) {
+func findCyclic(ctx context.Context, sys Windows, lo, hi int, budget int64) (pattern.Perm, error) {
 	w := newWalker(ctx, sys, budget)
 	for L := lo; L <= hi; L++ {
 		var found pattern.Perm

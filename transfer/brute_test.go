@@ -49,6 +49,21 @@ func TestCountsRandomSetsMatchBruteForce(t *testing.T) {
 	}
 }
 
+// 40 random sets of one to four patterns of lengths 2..6 (mixed), against
+// direct enumeration up to n = 8.
+func TestCountsRandomMixedSetsToLength6MatchBruteForce(t *testing.T) {
+	rng := rand.New(rand.NewPCG(2026, 6))
+	for range 40 {
+		s := settest.Random(rng, 4, 6)
+		got := counts(t, s, 8)
+		for n := 0; n <= 8; n++ {
+			if want := brute.Count(n, s.Patterns()); got[n].Int64() != int64(want) {
+				t.Fatalf("%v: a_%d = %v, brute force counts %d", s, n, got[n], want)
+			}
+		}
+	}
+}
+
 // Patterns of length 6 and 7, beyond the census, against direct counting
 // up to n = 8.
 func TestCountsLongPatternsMatchBruteForce(t *testing.T) {

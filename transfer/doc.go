@@ -1,25 +1,43 @@
-// Package transfer runs the exact integer form of the transfer operator of
-// a consecutive-pattern set.
+// Package transfer runs the exact integer iteration of a consecutive-pattern
+// set on prefix states (docs/prefix-states.md; method note, section 8).
 //
-// For a set whose longest pattern has length w = m+1, the operator acts on
-// functions on the cube [0,1]^m, split into m! order cells (one per
-// permutation sigma of 1..m, indexed by pattern.Rank). On each cell a
-// polynomial of degree D is stored by its Bernstein coefficients, indexed
-// by compositions a = (a_0..a_m) of D: a_i is the weight of the i-th gap
-// between the sorted coordinates.
+// The states (NewStates) are the patterns of the proper prefixes of the
+// set's members, the empty one included, in the contract's order. After n
+// values a sequence that avoids the set is in state p, the pattern of its
+// longest suffix whose pattern is a state, with gaps a = (a_0..a_|p|): how
+// many of its other values lie between consecutive values of that suffix.
+// The iterate G_n holds, for every state p and every composition a of
+// n - |p|, the number G_n[p][a] of permutations of 1..n that avoid the set
+// and are in state p with gaps a; a_n is the sum of G_n. Patterns of
+// different lengths are handled as they are: nothing is lifted to one
+// window length.
 //
-// Iterate k holds G_k = k! T^k g0. Its coefficients are non-negative
-// integers with a combinatorial meaning that the tests check by
-// enumeration: G_k[sigma][a] is the number of avoiding permutations of
-// length m+k whose last m entries have pattern sigma and whose other k
-// values fall a_0, ..., a_m into the gaps of those entries. Hence
-// a_{m+k} is the sum of all coefficients of G_k.
+// One step (Engine.Next) puts the new value into every gap at every split,
+// refuses the moves that complete a member of the set, and forgets the
+// oldest values that no member can still need, merging the gaps beside
+// each. Each output coefficient is a sum along a line of the input (a
+// merged gap can be shared in several ways); running sums along those
+// lines make each coefficient of each move cost one look-up. A move that
+// forgets several values goes through intermediate arrays, one forgotten
+// value at a time.
 //
-// Guarantees: all arithmetic is exact (fixed-width multi-word integers
-// sized from (m+k)!, which bounds every coefficient and partial sum); the
-// result does not depend on GOMAXPROCS; an Iterate is not modified after it
-// is returned, so it may be read from several goroutines, with one
-// exception: Engine.Advance consumes the iterate it is given (and the one it
-// recycles), for runs that cannot afford to keep both. Engine methods may be
-// called concurrently on different iterates.
+// Systems (System): the whole system, or the moves among a subset of the
+// states with the start StartOnes or StartWhole; States.Edges is the state
+// digraph whose strongly connected components package bounds brackets
+// block by block.
+//
+// Guarantees:
+//   - all arithmetic is exact, in fixed-width words sized from a bound on
+//     the iterate's sum (limbsFor), so no carry is lost;
+//   - the results do not depend on GOMAXPROCS: every task writes its own
+//     coefficients and integer sums do not depend on their order;
+//   - Iterate.Digest is the SHA-256 of the byte stream of
+//     docs/prefix-states.md, which the independent checker recomputes;
+//   - Engine.Footprint and CountsFootprint are computed from the exact
+//     sizes of the arrays a step allocates, before any work.
+//
+// Aliasing: an Iterate is not modified after it is returned, so it may be
+// read from several goroutines, except the one passed to Engine.Advance as
+// storage to recycle. Engines and States are read-only and safe for
+// concurrent use.
 package transfer

@@ -7,346 +7,406 @@ import (
 
 	"avoidcert/internal/par"
 	"avoidcert/internal/words"
-	"avoidcert/pattern"
 )
 
-// move is one allowed way to extend cell sigma backwards: a new first
-// value t in gap j of sigma's sorted entries, giving an allowed window,
-// whose first m entries have cell tau.
-//
-// Writing l and r for the numbers of other values below and above t inside
-// gap j (l + r = a_j - 1), the index of the shorter permutation on tau is
-// b_i = a[src[0][i]] + a[src[1][i]] (the sigma gaps merged into tau's gap
-// i; index m+1 stands for none and reads 0), plus l at i = u-1 and r at
-// i = u, where u is t's rank in tau. Summing G_k[tau] along that line is
-// one or two lookups in its prefix sums along direction e_{u-1} - e_u.
-type move struct {
-	j   int
-	tau int
-	u   int
-	src [2][]int
+// Engine advances the iterates of one system. It is read-only after New
+// and safe for concurrent use.
+type Engine struct {
+	sys    System
+	st     *States
+	member []bool
+	scale  int64    // start weight factor of limbsFor
+	single [][]term // per target state: the moves of one op
+	multi  []term   // moves of several ops (several drops)
+	needs  []need   // running sums of G_n that single ops and first ops read
 }
 
-// Engine advances iterates of one System. It is read-only after New and safe
-// for concurrent use.
-type Engine struct {
-	sys   System
-	cells int
-	moves [][]move // per sigma
-	dirU  []int    // per tau: the rank of its first entry (the prefix-sum direction)
+// term is a move of the system with its ops resolved for pulling.
+type term struct {
+	mv   Move
+	ops  []resolved
+	need int // index into Engine.needs of ops[0]'s source, or -1 (G_n itself)
+}
+
+// resolved is an op whose "none" source coordinate points at a slot that
+// holds 0: a*_t = c[s0[t]] + c[s1[t]] + off[t], c padded by one zero.
+type resolved struct {
+	prefix bool
+	u, v   int
+	s0, s1 []int
+	off    []int
+}
+
+// need is one array of running sums of G_n: state p along (u, v).
+type need struct{ p, u, v int }
+
+func resolve(o op, dstParts int) resolved {
+	r := resolved{prefix: o.prefix, u: o.u, v: o.v, off: o.off,
+		s0: make([]int, len(o.src)), s1: make([]int, len(o.src))}
+	for t, s := range o.src {
+		r.s0[t], r.s1[t] = s[0], s[1]
+		if s[0] < 0 {
+			r.s0[t] = dstParts
+		}
+		if s[1] < 0 {
+			r.s1[t] = dstParts
+		}
+	}
+	return r
 }
 
 // New prepares the moves of a system.
 func New(sys System) *Engine {
-	m := sys.M
-	e := &Engine{sys: sys, cells: sys.Cells()}
-	e.moves = make([][]move, e.cells)
-	e.dirU = make([]int, e.cells)
-	for tau := range e.cells {
-		if m > 0 {
-			e.dirU[tau] = pattern.Unrank(m, tau)[0]
+	st := sys.States
+	e := &Engine{sys: sys, st: st, member: make([]bool, st.Len()), scale: 1,
+		single: make([][]term, st.Len())}
+	for _, p := range sys.Members {
+		e.member[p] = true
+	}
+	if sys.Start == StartOnes {
+		n := sys.StartN()
+		var k int64
+		for _, p := range sys.Members {
+			k += int64(NewIndexer(st.Length(p), n).Count(n - st.Length(p)))
 		}
+		e.scale = k
 	}
-	if m == 0 {
-		return e // only the pattern 1 has length 1: nothing is allowed
-	}
-	for sigma := range e.cells {
-		x := pattern.Unrank(m, sigma)
-		for j := 0; j <= m; j++ {
-			// window (t, x_1..x_m) with t above exactly j of the x's
-			win := make(pattern.Perm, m+1)
-			win[0] = j + 1
-			for i, v := range x {
-				win[i+1] = v
-				if v > j {
-					win[i+1] = v + 1
-				}
-			}
-			if !sys.Allowed[pattern.Rank(win)] {
+	needAt := map[need]int{}
+	for _, p := range sys.Members {
+		for _, mv := range st.Moves(p) {
+			if !e.member[mv.To] {
 				continue
 			}
-			e.moves[sigma] = append(e.moves[sigma], newMove(win, j, m))
+			t := term{mv: mv, need: -1}
+			for k, o := range mv.ops {
+				dstParts := len(o.src) // the split adds a gap, a drop takes one away
+				if k == 0 {
+					dstParts++
+				}
+				if o.prefix {
+					dstParts--
+				}
+				t.ops = append(t.ops, resolve(o, dstParts))
+			}
+			if o := mv.ops[0]; o.prefix {
+				key := need{p, o.u, o.v}
+				i, ok := needAt[key]
+				if !ok {
+					i = len(e.needs)
+					needAt[key] = i
+					e.needs = append(e.needs, key)
+				}
+				t.need = i
+			}
+			if len(mv.ops) == 1 {
+				e.single[mv.To] = append(e.single[mv.To], t)
+			} else {
+				e.multi = append(e.multi, t)
+			}
 		}
 	}
 	return e
 }
 
-// newMove derives the gap bookkeeping of one window. Around the sorted
-// values z_1 < ... < z_{m+1} of the window there are m+2 gaps: sigma's gaps
-// before j keep their index, gap j splits into the pieces below (L) and
-// above (R) t = z_{j+1}, later gaps shift by one. Dropping x_m = z_p merges
-// the two gaps beside it.
-func newMove(win pattern.Perm, j, m int) move {
-	const pieceL, pieceR = -1, -2
-	g := make([]int, m+2) // source of each gap: a sigma gap, or a piece
-	for i := range g {
-		switch {
-		case i < j:
-			g[i] = i
-		case i == j:
-			g[i] = pieceL
-		case i == j+1:
-			g[i] = pieceR
-		default:
-			g[i] = i - 1
-		}
-	}
-	p := win[m] // rank of x_m among the window
-	var h [][]int
-	for i := 0; i < m+2; i++ {
-		if i == p {
-			h[p-1] = append(h[p-1], g[i])
+// System returns the engine's system.
+func (e *Engine) System() System { return e.sys }
+
+// layout returns the blocks of an iterate at length n (no storage).
+func (e *Engine) layout(n int) ([]block, int, int) {
+	limbs := limbsFor(n, e.scale)
+	blocks := make([]block, e.st.Len())
+	total := 0
+	for _, p := range e.sys.Members {
+		L := e.st.Length(p)
+		if L > n {
 			continue
 		}
-		h = append(h, []int{g[i]})
+		c := NewIndexer(L, n-L).Count(n - L)
+		blocks[p] = block{l: L, deg: n - L, limbs: limbs, count: c}
+		total += c * limbs
 	}
-	mv := move{j: j, tau: pattern.Rank(pattern.Standardize(win[:m]))}
-	none := m + 1
-	for t := range mv.src {
-		mv.src[t] = []int{}
+	for p := range blocks {
+		if blocks[p].count == 0 {
+			blocks[p] = block{l: e.st.Length(p), deg: n - e.st.Length(p), limbs: limbs}
+		}
 	}
-	for i, srcs := range h {
-		merged := []int{none, none}
-		n := 0
-		for _, s := range srcs {
-			switch s {
-			case pieceL:
-				mv.u = i + 1
-			case pieceR:
-				if mv.u != i {
-					panic("transfer: pieces of the split gap are not adjacent")
-				}
-			default:
-				merged[n] = s
-				n++
+	return blocks, limbs, total
+}
+
+// headroomDiv sets the spare capacity of new storage, 1/headroomDiv of its
+// size, so that storage can be recycled for a step or two as it grows.
+const headroomDiv = 8
+
+// newIterate returns a zeroed iterate at length n, in the storage of
+// recycle when it is large enough.
+func (e *Engine) newIterate(n int, recycle *Iterate) *Iterate {
+	blocks, limbs, total := e.layout(n)
+	var w []big.Word
+	if recycle != nil && cap(recycle.words) >= total {
+		w = recycle.words[:total]
+		clear(w)
+	} else {
+		w = make([]big.Word, total, total+total/headroomDiv)
+	}
+	off := 0
+	for p := range blocks {
+		b := &blocks[p]
+		sz := b.count * limbs
+		b.words = w[off : off+sz : off+sz]
+		off += sz
+	}
+	return &Iterate{N: n, Limbs: limbs, states: e.st, blocks: blocks, words: w}
+}
+
+// IterateBytes returns the bytes of the coefficients of G_n.
+func (e *Engine) IterateBytes(n int) int64 {
+	_, _, total := e.layout(n)
+	return 8 * int64(total)
+}
+
+// Footprint estimates the peak bytes of Next from G_n: G_n, the running
+// sums it reads, G_(n+1), and the largest pair of intermediate arrays of a
+// move with several drops.
+func (e *Engine) Footprint(n int) int64 {
+	in, _, _ := e.layout(n)
+	limbs := limbsFor(n, e.scale)
+	var sums int64
+	for _, nd := range e.needs {
+		sums += int64(in[nd.p].count * limbs)
+	}
+	var chain int64
+	outLimbs := limbsFor(n+1, e.scale)
+	for _, t := range e.multi {
+		L := e.st.Length(t.mv.From)
+		if L > n {
+			continue
+		}
+		prev := int64(0)
+		for k := 0; k < len(t.ops)-1; k++ {
+			parts := len(t.ops[k+1].s0)
+			size := int64(scratchCount(parts, n-L+1+k)) * int64(outLimbs)
+			chain = max(chain, prev+size)
+			prev = size
+		}
+	}
+	return 8 * (int64(e.IterateBytes(n)/8) + sums + chain + e.IterateBytes(n+1)/8)
+}
+
+// scratchCount returns the number of compositions of deg into parts parts.
+func scratchCount(parts, deg int) int { return NewIndexer(parts-1, deg).Count(deg) }
+
+// Start returns the system's first iterate: G_0 for the whole system,
+// G_(n_s) for a restricted one.
+func (e *Engine) Start(ctx context.Context) (*Iterate, error) {
+	switch e.sys.Start {
+	case StartEmpty:
+		g := e.newIterate(0, nil)
+		g.blocks[0].at(0)[0] = 1
+		return g, nil
+	case StartOnes:
+		g := e.newIterate(e.sys.StartN(), nil)
+		for _, p := range e.sys.Members {
+			b := &g.blocks[p]
+			for r := range b.count {
+				b.at(r)[0] = 1
 			}
 		}
-		mv.src[0] = append(mv.src[0], merged[0])
-		mv.src[1] = append(mv.src[1], merged[1])
+		return g, nil
 	}
-	return mv
-}
-
-// Start returns G_0: one coefficient per cell, 1 where the start vector is
-// 1.
-func (e *Engine) Start() *Iterate {
-	g := newIterate(0, e.sys.M, e.cells, 1, limbsFor(e.sys.M, 0))
-	for c, ok := range e.sys.Start {
-		if ok {
-			g.Words(c, 0)[0] = 1
+	n := e.sys.StartN()
+	w := New(Whole(e.st))
+	whole, err := w.Start(ctx)
+	for err == nil && whole.N < n {
+		whole, err = w.Next(ctx, whole)
+	}
+	if err != nil {
+		return nil, err
+	}
+	g := e.newIterate(n, nil)
+	for _, p := range e.sys.Members {
+		b := &g.blocks[p]
+		for r := range b.count {
+			copy(b.at(r), whole.blocks[p].at(r))
 		}
 	}
-	return g
+	return g, nil
 }
 
-// IterateBytes returns the bytes of the coefficients of G_k.
-func (e *Engine) IterateBytes(k int) int64 {
-	m := e.sys.M
-	return 8 * int64(e.cells) * int64(NewIndexer(m, k).Count(k)) * int64(limbsFor(m, k))
-}
-
-// Footprint estimates the bytes Next needs to produce G_{k+1} from G_k:
-// the input, its prefix sums and the output. Advance needs two thirds of
-// it or less, since the prefix sums overwrite the input.
-func (e *Engine) Footprint(k int) int64 {
-	return 2*e.IterateBytes(k) + e.IterateBytes(k+1)
-}
-
-// CountsFootprint estimates the peak bytes of Counts(ctx, s, n): the last
-// two iterates, with the spare capacity that recycled storage keeps.
-func CountsFootprint(s pattern.Set, n int) int64 {
-	sys := FromSet(s)
-	if n <= sys.M {
-		return 0
-	}
-	e := New(sys)
-	k := n - sys.M
-	return (e.IterateBytes(k-1) + e.IterateBytes(k)) * (headroomDiv + 1) / headroomDiv
-}
-
-// chunk is the number of output coefficients one task computes.
-const chunk = 2048
-
-// Next returns G_{k+1} computed from g = G_k, leaving g unchanged. It stops
+// Next returns G_(n+1) computed from g = G_n, leaving g unchanged. It stops
 // early with the context's error when ctx is cancelled.
 func (e *Engine) Next(ctx context.Context, g *Iterate) (*Iterate, error) {
-	if err := e.owns(g); err != nil {
-		return nil, err
-	}
-	prefix := newIterate(g.K, g.M, g.Cells, g.PerCell, g.Limbs)
-	return e.step(ctx, g, prefix, nil)
+	return e.step(ctx, g, nil)
 }
 
-// Advance returns G_{k+1} like Next but consumes g: g's storage is
-// overwritten by its prefix sums, and the result reuses the storage of
-// recycle (an iterate of this engine that the caller no longer needs; nil
-// allocates). Holding two iterates instead of three is what lets long
-// counting runs fit in memory. After the call g and recycle must not be
-// used.
+// Advance returns G_(n+1) like Next, in the storage of recycle (an iterate
+// of this engine that the caller no longer needs; nil allocates). After
+// the call recycle must not be used; g is unchanged.
 func (e *Engine) Advance(ctx context.Context, g, recycle *Iterate) (*Iterate, error) {
-	if err := e.owns(g); err != nil {
-		return nil, err
+	if recycle == g {
+		return nil, fmt.Errorf("transfer: Advance cannot recycle its own input")
 	}
-	return e.step(ctx, g, g, recycle)
+	return e.step(ctx, g, recycle)
 }
 
-func (e *Engine) owns(g *Iterate) error {
-	if g.M != e.sys.M || g.Cells != e.cells {
-		return fmt.Errorf("transfer: iterate of cell length %d does not belong to this engine (cell length %d)", g.M, e.sys.M)
-	}
-	return nil
-}
+// chunk is the number of coefficients one task handles.
+const chunk = 2048
 
-// step writes the prefix sums of g into prefix (which may be g itself),
-// then fills the next iterate, in the storage of recycle when it is large
-// enough.
-func (e *Engine) step(ctx context.Context, g, prefix, recycle *Iterate) (*Iterate, error) {
-	m, k := e.sys.M, g.K
-	ix := NewIndexer(m, k+1)
-	out := reuseIterate(recycle, k+1, m, e.cells, ix.Count(k+1), limbsFor(m, k+1))
-	if m == 0 {
-		clear(out.words)
-		return out, nil
+func (e *Engine) step(ctx context.Context, g, recycle *Iterate) (*Iterate, error) {
+	if g.states != e.st || len(g.blocks) != e.st.Len() {
+		return nil, fmt.Errorf("transfer: the iterate does not belong to this engine's states")
 	}
-	err := par.Run(ctx, e.cells, func() func(int) {
-		return func(tau int) { e.prefixSums(ix, g, prefix, tau) }
-	})
-	if err != nil {
-		return nil, err
+	n := g.N
+	out := e.newIterate(n+1, recycle)
+	ixs := make([]*Indexer, e.st.MaxLength()+2)
+	for l := range ixs {
+		ixs[l] = NewIndexer(l, n+2)
 	}
-	perCellTasks := (out.PerCell + chunk - 1) / chunk
-	err = par.Run(ctx, e.cells*perCellTasks, func() func(int) {
-		return func(task int) {
-			sigma, part := task/perCellTasks, task%perCellTasks
-			lo := part * chunk
-			e.fill(ix, prefix, out, sigma, lo, min(lo+chunk, out.PerCell))
+	// Running sums of G_n, one array per need.
+	sums := make([]block, len(e.needs))
+	var tasks []func()
+	for i, nd := range e.needs {
+		src := g.blocks[nd.p]
+		if src.count == 0 {
+			continue
 		}
-	})
-	if err != nil {
+		sums[i] = block{l: src.l, deg: src.deg, limbs: src.limbs, count: src.count,
+			words: append([]big.Word(nil), src.words...)}
+		tasks = append(tasks, runningSumTasks(&sums[i], ixs[src.l], nd.u, nd.v)...)
+	}
+	if err := runAll(ctx, tasks); err != nil {
 		return nil, err
+	}
+	// Every move of one op pulls straight into G_(n+1).
+	tasks = tasks[:0]
+	for q := range e.single {
+		dst := &out.blocks[q]
+		terms := e.single[q]
+		if dst.count == 0 || len(terms) == 0 {
+			continue
+		}
+		srcs := make([]*block, len(terms))
+		for k, t := range terms {
+			if t.need >= 0 {
+				srcs[k] = &sums[t.need]
+			} else {
+				srcs[k] = &g.blocks[t.mv.From]
+			}
+		}
+		for lo := 0; lo < dst.count; lo += chunk {
+			hi := min(lo+chunk, dst.count)
+			tasks = append(tasks, func() {
+				for k, t := range terms {
+					pull(dst, srcs[k], t.ops[0], ixs, lo, hi)
+				}
+			})
+		}
+	}
+	if err := runAll(ctx, tasks); err != nil {
+		return nil, err
+	}
+	// Moves with several drops go through intermediate arrays, one drop at
+	// a time, one move after another.
+	limbs := out.Limbs
+	for _, t := range e.multi {
+		src := &sums[t.need]
+		if src.count == 0 {
+			continue
+		}
+		for k, o := range t.ops {
+			var dst *block
+			if k == len(t.ops)-1 {
+				dst = &out.blocks[t.mv.To]
+			} else {
+				parts := len(t.ops[k+1].s0)
+				deg := src.deg + 1
+				c := scratchCount(parts, deg)
+				dst = &block{l: parts - 1, deg: deg, limbs: limbs, count: c, words: make([]big.Word, c*limbs)}
+			}
+			if k > 0 {
+				if err := runAll(ctx, runningSumTasks(src, ixs[src.l], o.u, o.v)); err != nil {
+					return nil, err
+				}
+			}
+			if err := runAll(ctx, pullTasks(dst, src, o, ixs)); err != nil {
+				return nil, err
+			}
+			src = dst
+		}
 	}
 	return out, nil
 }
 
-// prefixSums writes P[b] = sum_{i=0}^{b_{u-1}} G[b - i e_{u-1} + i e_u] for
-// one cell (prefix may alias g). In storage order the point
-// b - e_{u-1} + e_u comes earlier, at rank r - C(s_{u-1}+u-2, u-1).
-func (e *Engine) prefixSums(ix *Indexer, g, prefix *Iterate, tau int) {
-	m, k := g.M, g.K
-	u := e.dirU[tau]
-	a := make([]int, m+1)
-	a[m] = k
-	inPlace := prefix == g
-	for r := 0; r < g.PerCell; r++ {
-		dst := prefix.Words(tau, r)
-		if !inPlace {
-			copy(dst, g.Words(tau, r))
-		}
-		if a[u-1] > 0 {
-			s := 0
-			for i := 0; i < u; i++ {
-				s += a[i]
-			}
-			words.Add(dst, prefix.Words(tau, r-ix.binom[s+u-2][u-1]))
-		}
-		ix.Next(a)
-	}
+func runAll(ctx context.Context, tasks []func()) error {
+	return par.Run(ctx, len(tasks), func() func(int) { return func(i int) { tasks[i]() } })
 }
 
-// fill computes output coefficients lo..hi-1 of cell sigma. For each move
-// it forms the partial sums s_i of the far end of the line (l = a_j - 1)
-// and its rank directly; the point just before the line (l = -1) differs
-// only in s_{u-1}, which is lower by a_j.
-func (e *Engine) fill(ix *Indexer, prefix, out *Iterate, sigma, lo, hi int) {
-	m := out.M
-	a := make([]int, m+2) // a[m+1] stays 0: the "no source" slot
-	ix.Unrank(out.K, lo, a[:m+1])
-	binom := ix.binom
+func pullTasks(dst, src *block, o resolved, ixs []*Indexer) []func() {
+	var tasks []func()
+	for lo := 0; lo < dst.count; lo += chunk {
+		hi := min(lo+chunk, dst.count)
+		tasks = append(tasks, func() { pull(dst, src, o, ixs, lo, hi) })
+	}
+	return tasks
+}
+
+// pull adds into dst's coefficients lo..hi-1 the source coefficients the
+// op maps them to.
+func pull(dst, src *block, o resolved, ixs []*Indexer, lo, hi int) {
+	if src.count == 0 {
+		return
+	}
+	c := make([]int, dst.l+2) // the last slot stays 0
+	ixs[dst.l].Unrank(dst.deg, lo, c[:dst.l+1])
+	binom := ixs[src.l].binom
+	sl := src.l
 	for r := lo; r < hi; r++ {
-		dst := out.Words(sigma, r)
-		empty := true // dst not yet written: the first term is stored, not added
-		for _, mv := range e.moves[sigma] {
-			aj := a[mv.j]
-			if aj == 0 {
-				continue
+		rank, s, ok := 0, 0, true
+		for t := 0; t < sl; t++ {
+			x := c[o.s0[t]] + c[o.s1[t]] + o.off[t]
+			if x < 0 {
+				ok = false
+				break
 			}
-			src0, src1 := mv.src[0][:m], mv.src[1][:m]
-			s, end, sU, base := 0, 0, 0, 0
-			for i := range m {
-				bi := a[src0[i]] + a[src1[i]]
-				if i == mv.u-1 {
-					base = bi
-					bi += aj - 1
-					s += bi
-					sU = s
-				} else {
-					s += bi
-				}
-				end += binom[s+i][i+1]
-			}
-			x := prefix.Words(mv.tau, end)
-			if base == 0 {
-				if empty {
-					copy(dst, x)
-					clear(dst[len(x):])
-				} else {
-					words.Add(dst, x)
-				}
-			} else {
-				u := mv.u
-				before := end - binom[sU+u-1][u] + binom[sU-aj+u-1][u]
-				y := prefix.Words(mv.tau, before)
-				if empty {
-					words.SubInto(dst, x, y)
-				} else {
-					words.AddSub(dst, x, y)
-				}
-			}
-			empty = false
+			s += x
+			rank += binom[s+t][t+1]
 		}
-		if empty {
-			clear(dst)
+		if ok && c[o.s0[sl]]+c[o.s1[sl]]+o.off[sl] >= 0 {
+			words.Add(dst.at(r), src.at(rank))
 		}
-		ix.Next(a[:m+1])
+		ixs[dst.l].Next(c[:dst.l+1])
 	}
 }
 
-// Progress is called after each iterate is produced, with its degree and
-// the last degree asked for.
-type Progress func(k, last int)
-
-// Counts returns a_0..a_N for the set: by enumeration below length m =
-// w-1, and from the iterates G_0..G_{N-m} from there on.
-func Counts(ctx context.Context, s pattern.Set, N int, progress Progress) ([]*big.Int, error) {
-	sys := FromSet(s)
-	counts := make([]*big.Int, 0, N+1)
-	for n := 0; n <= N && n < sys.M; n++ {
-		c := 0
-		for _, ok := range s.AvoidingPerms(n) {
-			if ok {
-				c++
+// runningSumTasks returns tasks that replace b by its running sums along
+// (u, v): P[a] = sum over t = 0..a_u of B[a - t e_u + t e_v]. Every line
+// {a_u + a_v fixed, other parts fixed} is summed by the task whose rank
+// range holds its start (a_u = 0), so tasks write disjoint coefficients.
+func runningSumTasks(b *block, ix *Indexer, u, v int) []func() {
+	var tasks []func()
+	for lo := 0; lo < b.count; lo += chunk {
+		hi := min(lo+chunk, b.count)
+		tasks = append(tasks, func() {
+			a := make([]int, b.l+1)
+			ix.Unrank(b.deg, lo, a)
+			w := make([]int, b.l+1)
+			for r := lo; r < hi; r++ {
+				if a[u] == 0 && a[v] > 0 {
+					copy(w, a)
+					prev := r
+					for w[v] > 0 {
+						w[u]++
+						w[v]--
+						cur := ix.Rank(w)
+						words.Add(b.at(cur), b.at(prev))
+						prev = cur
+					}
+				}
+				ix.Next(a)
 			}
-		}
-		counts = append(counts, big.NewInt(int64(c)))
+		})
 	}
-	if N < sys.M {
-		return counts, nil
-	}
-	e := New(sys)
-	g := e.Start()
-	var spare *Iterate
-	for {
-		counts = append(counts, g.Sum())
-		if progress != nil {
-			progress(g.K, N-sys.M)
-		}
-		if g.K == N-sys.M {
-			return counts, nil
-		}
-		next, err := e.Advance(ctx, g, spare)
-		if err != nil {
-			return nil, err
-		}
-		g, spare = next, g
-	}
+	return tasks
 }
+
+// Limbs returns the words per coefficient of the iterate G_n.
+func (e *Engine) Limbs(n int) int { return limbsFor(n, e.scale) }

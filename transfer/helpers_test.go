@@ -2,6 +2,7 @@ package transfer_test
 
 import (
 	"context"
+	"crypto/sha256"
 	"math/big"
 	"testing"
 
@@ -21,16 +22,20 @@ func counts(t testing.TB, s pattern.Set, N int) []*big.Int {
 	return c
 }
 
-// iterate returns G_k of the set's system, advanced with Next.
-func iterate(t testing.TB, sys transfer.System, k int) *transfer.Iterate {
+// iterate returns G_n of a system, advanced with Next from its start.
+func iterate(t testing.TB, sys transfer.System, n int) *transfer.Iterate {
 	t.Helper()
 	e := transfer.New(sys)
-	g := e.Start()
-	for g.K < k {
-		var err error
+	g, err := e.Start(context.Background())
+	if err != nil {
+		t.Fatal(err)
+	}
+	for g.N < n {
 		if g, err = e.Next(context.Background(), g); err != nil {
 			t.Fatal(err)
 		}
 	}
 	return g
 }
+
+func sha256Of(b []byte) [32]byte { return sha256.Sum256(b) }

@@ -4,58 +4,65 @@ import (
 	"crypto/sha256"
 	"encoding/binary"
 	"math/big"
+	"math/bits"
 
 	"avoidcert/internal/words"
 )
 
-// Iterate is G_k: for every cell, the integer Bernstein coefficients of
-// degree k, stored as fixed-width little-endian words. It is immutable
-// unless passed to Engine.Advance, which consumes it.
+// block is the coefficient array of one state (or a scratch array of the
+// same kind): the compositions of deg into l+1 parts in storage order,
+// limbs little-endian words each.
+type block struct {
+	l, deg, limbs int
+	count         int
+	words         []big.Word
+}
+
+// at returns the words of coefficient r (aliasing the block).
+func (b *block) at(r int) []big.Word {
+	off := r * b.limbs
+	return b.words[off : off+b.limbs : off+b.limbs]
+}
+
+// Iterate is G_n of one system: for every state of the system, the
+// coefficients G_n[p][a] over the compositions a of n - |p|, stored as
+// fixed-width words. States outside the system hold nothing (their
+// coefficients are 0). An Iterate is immutable unless passed to
+// Engine.Advance as the storage to recycle.
 type Iterate struct {
-	K       int // the degree k
-	M       int // cell length m
-	Cells   int // m!
-	PerCell int // coefficients per cell: C(k+m, m)
-	Limbs   int // words per coefficient
-	words   []big.Word
+	N      int // the length n
+	Limbs  int // words per coefficient
+	states *States
+	blocks []block // per state; empty outside the system or when |p| > n
+	words  []big.Word
 }
 
-func newIterate(k, m, cells, perCell, limbs int) *Iterate {
-	return &Iterate{K: k, M: m, Cells: cells, PerCell: perCell, Limbs: limbs,
-		words: make([]big.Word, cells*perCell*limbs)}
+// Count returns the number of coefficients stored for state p.
+func (g *Iterate) Count(p int) int { return g.blocks[p].count }
+
+// Words returns the words of coefficient r (storage order) of state p. The
+// slice aliases the iterate: callers must not modify it.
+func (g *Iterate) Words(p, r int) []big.Word { return g.blocks[p].at(r) }
+
+// Int returns coefficient r of state p as a new big.Int.
+func (g *Iterate) Int(p, r int) *big.Int {
+	return new(big.Int).SetBits(append([]big.Word(nil), g.Words(p, r)...))
 }
 
-// headroomDiv sets the spare capacity of new storage, 1/headroomDiv of its
-// size: the size grows by a factor of about (k+m+1)/(k+1) per step, and by
-// one word per coefficient now and then, so the spare room lets storage be
-// recycled for a step or two while costing little memory at the peak.
-const headroomDiv = 8
-
-// reuseIterate returns an iterate of the given shape, in the storage of old
-// when it is large enough. The words are not cleared: step writes every
-// coefficient.
-func reuseIterate(old *Iterate, k, m, cells, perCell, limbs int) *Iterate {
-	n := cells * perCell * limbs
-	if old == nil || cap(old.words) < n {
-		return &Iterate{K: k, M: m, Cells: cells, PerCell: perCell, Limbs: limbs,
-			words: make([]big.Word, n, n+n/headroomDiv)}
+// At returns G_n[p][a] for a composition a of n - |p| (0 outside the
+// system).
+func (g *Iterate) At(p int, a []int) *big.Int {
+	b := &g.blocks[p]
+	if b.count == 0 {
+		return new(big.Int)
 	}
-	return &Iterate{K: k, M: m, Cells: cells, PerCell: perCell, Limbs: limbs, words: old.words[:n]}
+	return g.Int(p, NewIndexer(b.l, b.deg).Rank(a))
 }
 
-// Words returns the words of coefficient r of a cell. The slice aliases the
-// iterate's storage: callers must not modify it.
-func (g *Iterate) Words(cell, r int) []big.Word {
-	off := (cell*g.PerCell + r) * g.Limbs
-	return g.words[off : off+g.Limbs : off+g.Limbs]
-}
+// States returns the states the iterate is indexed by.
+func (g *Iterate) States() *States { return g.states }
 
-// Int returns coefficient r of a cell as a new big.Int.
-func (g *Iterate) Int(cell, r int) *big.Int {
-	return new(big.Int).SetBits(append([]big.Word(nil), g.Words(cell, r)...))
-}
-
-// Sum returns the sum of all coefficients: a_{m+k}.
+// Sum returns the sum of all coefficients: a_n for the whole system.
 func (g *Iterate) Sum() *big.Int {
 	acc := make([]big.Word, g.Limbs+1)
 	for off := 0; off < len(g.words); off += g.Limbs {
@@ -64,11 +71,12 @@ func (g *Iterate) Sum() *big.Int {
 	return new(big.Int).SetBits(acc)
 }
 
-// CellSum returns the sum of the coefficients of one cell.
-func (g *Iterate) CellSum(cell int) *big.Int {
+// StateSum returns the sum of the coefficients of state p.
+func (g *Iterate) StateSum(p int) *big.Int {
 	acc := make([]big.Word, g.Limbs+1)
-	for r := range g.PerCell {
-		words.Add(acc, g.Words(cell, r))
+	b := &g.blocks[p]
+	for r := range b.count {
+		words.Add(acc, b.at(r))
 	}
 	return new(big.Int).SetBits(acc)
 }
@@ -76,30 +84,38 @@ func (g *Iterate) CellSum(cell int) *big.Int {
 // Bytes returns the memory held by the coefficients.
 func (g *Iterate) Bytes() int64 { return int64(len(g.words)) * 8 }
 
-// DigestHeader starts the canonical byte stream of an iterate; see
-// docs/certificate.md.
-const DigestHeader = "avoidcert-iterate-v1\n"
+// DigestHeader starts the byte stream of an iterate
+// (docs/prefix-states.md).
+const DigestHeader = "avoidcert-iterate-v3\n"
 
-// Digest returns the SHA-256 of the canonical byte stream of G_k:
-// DigestHeader, uvarint(m), uvarint(k), then for every cell in pattern.Rank
-// order and every composition a of k in lexicographic order of
-// (a_0, ..., a_m), uvarint(len(b)) followed by b, the big-endian magnitude
-// of the coefficient without leading zero bytes (empty for zero).
+// Digest returns the SHA-256 of the iterate's byte stream
+// (docs/prefix-states.md): DigestHeader, uvarint(number of states),
+// uvarint(n), then for every state in state order (all states of the set)
+// with |p| <= n, and every composition a of n - |p| in lexicographic order,
+// uvarint(len(b)) and b, the big-endian bytes of G_n[p][a] without leading
+// zeros (empty for 0, which is every coefficient outside the system).
 func (g *Iterate) Digest() [32]byte {
 	h := sha256.New()
 	h.Write([]byte(DigestHeader))
 	var buf [binary.MaxVarintLen64]byte
-	h.Write(buf[:binary.PutUvarint(buf[:], uint64(g.M))])
-	h.Write(buf[:binary.PutUvarint(buf[:], uint64(g.K))])
-	ix := NewIndexer(g.M, g.K)
-	a := make([]int, g.M+1)
+	h.Write(buf[:binary.PutUvarint(buf[:], uint64(g.states.Len()))])
+	h.Write(buf[:binary.PutUvarint(buf[:], uint64(g.N))])
 	var x big.Int
-	for cell := range g.Cells {
-		forEachLex(a, 0, g.K, func() {
-			x.SetBits(g.Words(cell, ix.Rank(a)))
-			b := x.Bytes()
-			h.Write(buf[:binary.PutUvarint(buf[:], uint64(len(b)))])
-			h.Write(b)
+	for p := range g.states.Len() {
+		L := g.states.Length(p)
+		if L > g.N {
+			continue
+		}
+		b := &g.blocks[p]
+		ix := NewIndexer(L, g.N-L)
+		a := make([]int, L+1)
+		forEachLex(a, 0, g.N-L, func() {
+			var mag []byte
+			if b.count > 0 {
+				mag = x.SetBits(b.at(ix.Rank(a))).Bytes()
+			}
+			h.Write(buf[:binary.PutUvarint(buf[:], uint64(len(mag)))])
+			h.Write(mag)
 		})
 	}
 	var out [32]byte
@@ -107,16 +123,16 @@ func (g *Iterate) Digest() [32]byte {
 	return out
 }
 
-// forEachLex calls fn for every composition of rest into a[i:], in
-// lexicographic order.
-func forEachLex(a []int, i, rest int, fn func()) {
-	if i == len(a)-1 {
-		a[i] = rest
-		fn()
-		return
-	}
-	for v := 0; v <= rest; v++ {
-		a[i] = v
-		forEachLex(a, i+1, rest-v, fn)
-	}
+// limbsFor returns the words per coefficient of arrays in the step from
+// G_(n-1) to G_n, for a system whose start has total weight at most
+// scale * n_s! at n_s: enough for scale * n!. Each coefficient at n_s
+// reaches at most n!/n_s! sequences of length n (a state with gaps a at
+// length k has exactly k+1 moves and splits), so scale * n! bounds the sum
+// of G_n, hence every coefficient, every running sum of G_n along a line,
+// and every intermediate array of that step (each sums distinct terms of
+// G_n's successors).
+func limbsFor(n int, scale int64) int {
+	f := new(big.Int).MulRange(1, int64(max(n, 1)))
+	f.Mul(f, big.NewInt(max(scale, 1)))
+	return f.BitLen()/bits.UintSize + 1
 }

@@ -1,46 +1,101 @@
 package transfer
 
-import "avoidcert/pattern"
+import (
+	"fmt"
+	"slices"
+)
 
-// System is what the iteration needs to know of a pattern set: the cell
-// length m, which windows of length m+1 are allowed, and the start vector.
-// A window (t, x_1..x_m) leads from the cell of (t, x_1..x_{m-1}) to the
-// cell of (x_1..x_m).
+// Start names how a system's iteration begins (docs/prefix-states.md,
+// "Systems").
+type Start string
+
+// The starts. The whole system starts from the empty state at n = 0; a
+// restricted system starts at n_s = the longest member's length, with 1
+// on every coefficient of its states (StartOnes: a positive density, which
+// an upper bound of a block needs) or with the whole system's G_(n_s) on
+// its states (StartWhole: at most the whole iterate, which a lower bound
+// needs).
+const (
+	StartEmpty Start = "empty"
+	StartOnes  Start = "ones"
+	StartWhole Start = "whole"
+)
+
+// System is a set of states, the moves between them and a start.
 type System struct {
-	M       int    // cell length m = w-1
-	Allowed []bool // over permutations of 1..m+1, by pattern.Rank
-	Start   []bool // over permutations of 1..m, by pattern.Rank: g0 = 1 there
+	States  *States
+	Members []int // increasing state indices; all states for the whole system
+	Start   Start
 }
 
-// FromSet returns the system of a pattern set: windows of length w that
-// avoid it are allowed, and g0 = 1 on cells whose pattern avoids the
-// shorter members.
-func FromSet(s pattern.Set) System {
-	w := s.Window()
-	return System{M: w - 1, Allowed: s.AvoidingPerms(w), Start: s.AvoidingPerms(w - 1)}
+// Whole returns the whole system of a set of states.
+func Whole(st *States) System {
+	members := make([]int, st.Len())
+	for i := range members {
+		members[i] = i
+	}
+	return System{States: st, Members: members, Start: StartEmpty}
 }
 
-// Cells returns m!, the number of order cells.
-func (s System) Cells() int { return pattern.Factorial(s.M) }
-
-// Ends returns the source and target cells of the window with the given
-// rank.
-func (s System) Ends(window int) (from, to int) {
-	p := pattern.Unrank(s.M+1, window)
-	return pattern.Rank(pattern.Standardize(p[:s.M])), pattern.Rank(pattern.Standardize(p[1:]))
+// Restrict returns the system on the given states (any order; they are
+// sorted) keeping only the moves between them, with start ones or whole.
+// All states with start empty is the whole system.
+func (st *States) Restrict(members []int, start Start) (System, error) {
+	ms := slices.Clone(members)
+	slices.Sort(ms)
+	ms = slices.Compact(ms)
+	if len(ms) == 0 {
+		return System{}, fmt.Errorf("transfer: a restricted system needs at least one state")
+	}
+	if ms[0] < 0 || ms[len(ms)-1] >= st.Len() {
+		return System{}, fmt.Errorf("transfer: state indices must lie in 0..%d", st.Len()-1)
+	}
+	switch start {
+	case StartOnes, StartWhole:
+	case StartEmpty:
+		if len(ms) != st.Len() {
+			return System{}, fmt.Errorf("transfer: start %q is the whole system's; a proper subset of the states starts %q or %q", start, StartOnes, StartWhole)
+		}
+	default:
+		return System{}, fmt.Errorf("transfer: unknown start %q (want %q, %q or %q)", start, StartEmpty, StartOnes, StartWhole)
+	}
+	return System{States: st, Members: ms, Start: start}, nil
 }
 
-// Restrict returns the system restricted to a set of cells: only windows
-// with both ends in the set stay allowed, and g0 = 1 on exactly those
-// cells. The spectral radius of the whole system is the largest over its
-// strongly connected blocks, each bracketed on its own.
-func (s System) Restrict(cells []bool) System {
-	r := System{M: s.M, Allowed: make([]bool, len(s.Allowed)), Start: append([]bool(nil), cells...)}
-	for w, ok := range s.Allowed {
-		if ok {
-			from, to := s.Ends(w)
-			r.Allowed[w] = cells[from] && cells[to]
+// IsWhole reports whether the system is the whole system.
+func (s System) IsWhole() bool { return s.Start == StartEmpty }
+
+// StartN returns the n at which the system starts: 0 for the whole system,
+// the longest member's length for a restricted one.
+func (s System) StartN() int {
+	if s.IsWhole() {
+		return 0
+	}
+	n := 0
+	for _, p := range s.Members {
+		n = max(n, s.States.Length(p))
+	}
+	return n
+}
+
+// Edge is an edge of the state digraph: some allowed move leads from
+// state From to state To.
+type Edge struct{ From, To int }
+
+// Edges returns the edges of the whole system's state digraph, each once,
+// sorted (self-loops included).
+func (st *States) Edges() []Edge {
+	var out []Edge
+	for p := range st.Len() {
+		for _, mv := range st.moves[p] {
+			out = append(out, Edge{mv.From, mv.To})
 		}
 	}
-	return r
+	slices.SortFunc(out, func(a, b Edge) int {
+		if a.From != b.From {
+			return a.From - b.From
+		}
+		return a.To - b.To
+	})
+	return slices.Compact(out)
 }

@@ -6,7 +6,6 @@ package produce
 
 import (
 	"context"
-	"errors"
 	"math/big"
 
 	"avoidcert/bounds"
@@ -53,27 +52,50 @@ func Structure(rep *structure.Report) *certify.Structure {
 	return st
 }
 
-// Certificate turns a bracket result for the set of rep (iterated as sys,
-// whole or by blocks) into a certificate whose ranges are printed with the
-// given significant digits. Every bracket the enclosure rests on carries
-// the upper bound; the explicit all-n bounds need a whole-system step-1
-// bracket, taken here when the run did not have one (periodic or
-// reducible sets). res must come from a run with Options.Digests.
-func Certificate(ctx context.Context, tool string, rep *structure.Report, sys transfer.System, res *bounds.Result, digits int) (*certify.Certificate, error) {
+// Certificate turns a bracket result for the set of rep (bracketed on the
+// prefix states st, whole or by blocks) into a format version 3
+// certificate whose ranges are printed with the given significant digits.
+// Every bracket of the result is listed with its states, start, step, N
+// and digest; those marked upper carry the upper bound (the whole system,
+// or the ones-start blocks that partition the states). The explicit all-n
+// bounds need a whole-system step-1 bracket, taken here when the run did
+// not have one (periodic or reducible sets). res must come from a run
+// with Options.Digests.
+func Certificate(ctx context.Context, tool string, rep *structure.Report, st *transfer.States, res *bounds.Result, digits int) (*certify.Certificate, error) {
 	set := rep.Set
 	c := &certify.Certificate{Tool: tool, Structure: Structure(rep)}
-	st := &c.Statement
-	st.Given = set.Given()
-	st.Lambda = certify.Range{Lo: res.Lambda.Lo, Hi: res.Lambda.Hi, Digits: digits}
-	st.Radius = certify.Range{Lo: res.Radius.Lo, Hi: res.Radius.Hi, Digits: digits}
-	if st.Radius.Lo == nil {
-		st.Radius.Lo = new(big.Rat) // lambda = 0 exactly: the format has no infinite lower end
+	stmt := &c.Statement
+	stmt.Given = set.Given()
+	stmt.Lambda = certify.Range{Lo: res.Lambda.Lo, Hi: res.Lambda.Hi, Digits: digits}
+	stmt.Radius = certify.Range{Lo: res.Radius.Lo, Hi: res.Radius.Hi, Digits: digits}
+	if stmt.Radius.Lo == nil {
+		stmt.Radius.Lo = new(big.Rat) // lambda = 0 exactly: the format has no infinite lower end
 	}
-	// Format version 3 names brackets on prefix states (States, Start, N);
-	// the engine's results are still on order cells, so no valid
-	// certificate can be assembled until bounds/ gives prefix-state
-	// brackets (the engine's side of issue 8). Refuse loudly rather than
-	// write a certificate the checker would reject.
-	_, _ = ctx, sys
-	return nil, errors.New("certify/produce: certificate format version 3 needs prefix-state brackets from bounds/, which it does not give yet; no certificate written")
+	for _, br := range res.Brackets {
+		c.Evidence.Brackets = append(c.Evidence.Brackets, bracket(br, br.Upper))
+	}
+	explicit := res.Explicit
+	if explicit == nil {
+		n := st.MaxLength()
+		if len(res.Brackets) > 0 {
+			n = max(n, res.Brackets[0].N)
+		}
+		whole, err := bounds.BracketAt(ctx, transfer.Whole(st), n, 1, res.Prec)
+		if err != nil {
+			return nil, err
+		}
+		c.Evidence.Brackets = append(c.Evidence.Brackets, bracket(*whole, false))
+		explicit = &bounds.AllN{N0: whole.N, AN0: whole.Sum, MuLo: whole.Lo, MuHi: whole.Hi}
+	}
+	stmt.AllN = certify.AllN{N0: explicit.N0, AN0: explicit.AN0, MuLo: explicit.MuLo, MuHi: explicit.MuHi}
+	if err := certify.Derive(c); err != nil {
+		return nil, err
+	}
+	return c, nil
+}
+
+// bracket states one bracket of the engine in the certificate's terms.
+func bracket(br bounds.Bracket, upper bool) certify.Bracket {
+	return certify.Bracket{States: append([]int(nil), br.States...), Start: certify.Start(br.Start), Step: br.Step,
+		N: br.N, Lo: br.Lo, Hi: br.Hi, Upper: upper, IterateDigest: br.Digest}
 }

@@ -28,26 +28,22 @@ func TestCertificatesPassTheChecker(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		sys := transfer.FromSet(set)
+		st := transfer.NewStates(set)
 		opts := bounds.Options{Digits: 8, Digests: true, Step: 1}
 		var res *bounds.Result
 		switch rep.Class {
 		case structure.Periodic:
 			opts.Step = rep.Period
-			res, err = bounds.Run(ctx, sys, opts, nil)
+			res, err = bounds.Run(ctx, st, opts, nil)
 		case structure.Reducible:
-			var blocks [][]int
-			for _, i := range rep.Digraph.Order {
-				blocks = append(blocks, rep.Digraph.Components[i].Cells)
-			}
-			res, err = bounds.RunBlocks(ctx, sys, blocks, opts, nil)
+			res, err = bounds.RunBlocks(ctx, st, bounds.Blocks(st), opts, nil)
 		default:
-			res, err = bounds.Run(ctx, sys, opts, nil)
+			res, err = bounds.Run(ctx, st, opts, nil)
 		}
 		if err != nil {
 			t.Fatal(err)
 		}
-		c, err := produce.Certificate(ctx, "produce test", rep, sys, res, 10)
+		c, err := produce.Certificate(ctx, "produce test", rep, st, res, 10)
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -117,7 +117,7 @@ func (b *budget) reporter(e *env) bounds.Progress {
 	}
 	return func(ev bounds.Event) {
 		if ev.Bracket != nil {
-			fmt.Fprintf(e.stderr, "block %d k=%d lambda in %s\n", ev.Block, ev.K, ev.Lambda.String(12))
+			fmt.Fprintf(e.stderr, "block %d n=%d lambda in %s\n", ev.Block, ev.N, ev.Lambda.String(12))
 		}
 	}
 }
@@ -125,7 +125,7 @@ func (b *budget) reporter(e *env) bounds.Progress {
 // plan is how a set is bracketed, decided from its structure.
 type plan struct {
 	rep    *structure.Report
-	sys    transfer.System
+	states *transfer.States
 	step   int
 	blocks [][]int // nil: the whole system
 }
@@ -136,14 +136,12 @@ func planFor(ctx context.Context, set pattern.Set) (*plan, error) {
 	if err != nil {
 		return nil, err
 	}
-	p := &plan{rep: rep, sys: transfer.FromSet(set), step: 1}
+	p := &plan{rep: rep, states: transfer.NewStates(set), step: 1}
 	switch rep.Class {
 	case structure.Periodic:
 		p.step = rep.Period
 	case structure.Reducible:
-		for _, i := range rep.Digraph.Order {
-			p.blocks = append(p.blocks, rep.Digraph.Components[i].Cells)
-		}
+		p.blocks = bounds.Blocks(p.states) // the components of the state digraph
 	}
 	return p, nil
 }
@@ -159,7 +157,7 @@ func runBound(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	opts := bounds.Options{Digits: *digits, MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Digests: true}
+	opts := bounds.Options{Digits: *digits, MaxMemory: int64(b.maxMemory), Digests: true}
 	switch {
 	case *digits < 0 || *digits > certify.MaxDigits-5:
 		return failure(e, usagef("bound: --digits must be between 1 and %d", certify.MaxDigits-5))
@@ -188,11 +186,12 @@ func runBound(ctx context.Context, e *env, args []string) int {
 	}
 	defer cancel()
 	opts.Step = p.step
+	opts.MaxN = p.maxN(b.maxK)
 	res, err := p.bracket(ctx, opts, b.reporter(e))
 	if err != nil {
 		return failure(e, err)
 	}
-	cert, err := produce.Certificate(ctx, "avoidcert "+version, p.rep, p.sys, res, printDigits(opts))
+	cert, err := produce.Certificate(ctx, "avoidcert "+version, p.rep, p.states, res, printDigits(opts))
 	if err != nil {
 		return failure(e, err)
 	}
@@ -223,13 +222,20 @@ func printDigits(opts bounds.Options) int {
 // has lambda = 0 proved: only a short run for the explicit upper bound.
 func (p *plan) bracket(ctx context.Context, opts bounds.Options, progress bounds.Progress) (*bounds.Result, error) {
 	if p.rep.Class == structure.Subexponential {
-		opts.MaxK = min(opts.MaxK, 40)
+		opts.MaxN = min(opts.MaxN, p.maxN(40))
 	}
 	if p.blocks != nil {
-		return bounds.RunBlocks(ctx, p.sys, p.blocks, opts, progress)
+		return bounds.RunBlocks(ctx, p.states, p.blocks, opts, progress)
 	}
-	return bounds.Run(ctx, p.sys, opts, progress)
+	return bounds.Run(ctx, p.states, opts, progress)
 }
+
+// maxN turns --max-k (steps above the longest state, k = n - m) into the
+// largest n of a bracket, within what a certificate checker accepts.
+func (p *plan) maxN(maxK int) int { return min(maxK+p.states.MaxLength(), certify.MaxN) }
+
+// k returns a bracket's n - m, the steps above the longest state.
+func (p *plan) k(br bounds.Bracket) int { return br.N - p.states.MaxLength() }
 
 func stopWords(res *bounds.Result) string {
 	switch res.Stop {
@@ -255,7 +261,7 @@ func writeBoundText(e *env, set pattern.Set, p *plan, res *bounds.Result, path s
 	fmt.Fprintf(w, "lambda   in %s  (%s)\n", res.Lambda.String(digits), digitWords(res))
 	fmt.Fprintf(w, "1/lambda in %s\n", res.Radius.String(digits))
 	for _, br := range res.Brackets {
-		fmt.Fprintf(w, "bracket: k = %d, step %d, on %d of %d cells\n", br.K, br.Step, len(br.Cells), p.sys.Cells())
+		fmt.Fprintf(w, "bracket: n = %d, step %d, start %s, on %d of %d prefix states\n", br.N, br.Step, br.Start, len(br.States), p.states.Len())
 	}
 	if x := res.Explicit; x != nil && x.AN0.Sign() > 0 {
 		writeExplicit(w, x, digits)
@@ -268,7 +274,7 @@ func writeBoundText(e *env, set pattern.Set, p *plan, res *bounds.Result, path s
 	}
 	if p.rep.Class == structure.Subexponential {
 		fmt.Fprintf(w, "stopped: upper bound taken at k = %d (lambda = 0 is proved; the bracket only bounds the decay) after %.1f s\n",
-			res.Brackets[0].K, res.Elapsed.Seconds())
+			p.k(res.Brackets[0]), res.Elapsed.Seconds())
 	} else {
 		fmt.Fprintf(w, "stopped: %s after %.1f s\n", stopWords(res), res.Elapsed.Seconds())
 	}
@@ -325,7 +331,7 @@ func writeBoundJSON(e *env, set pattern.Set, p *plan, res *bounds.Result, path s
 	}
 	k := 0
 	if len(res.Brackets) > 0 {
-		k = res.Brackets[0].K
+		k = p.k(res.Brackets[0])
 	}
 	writeJSON(e, struct {
 		Patterns    []string `json:"patterns"`

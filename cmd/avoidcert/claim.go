@@ -60,8 +60,8 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 		return failure(e, err)
 	}
 	defer cancel()
-	opts := bounds.Options{Step: p.step, MaxK: b.maxK, MaxMemory: int64(b.maxMemory)}
-	verdict, res, err := bounds.JudgeBlocks(ctx, p.sys, p.blocks, claimed, quantity, opts, b.reporter(e))
+	opts := bounds.Options{Step: p.step, MaxN: p.maxN(b.maxK), MaxMemory: int64(b.maxMemory)}
+	verdict, res, err := bounds.JudgeBlocks(ctx, p.states, p.blocks, claimed, quantity, opts, b.reporter(e))
 	if err != nil {
 		return failure(e, err)
 	}
@@ -71,7 +71,7 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	}
 	digits := claimDigits(claimed)
 	fmt.Fprintf(e.stdout, "claim: %s(%s) in %s\n", quantity, set, claimed.String(digits))
-	fmt.Fprintf(e.stdout, "certified: %s in %s (k = %d)\n", quantity, shown.String(digits), res.Brackets[0].K)
+	fmt.Fprintf(e.stdout, "certified: %s in %s (k = %d)\n", quantity, shown.String(digits), p.k(res.Brackets[0]))
 	switch verdict {
 	case bounds.Proved:
 		fmt.Fprintln(e.stdout, "proved: the certified interval lies inside the claim")

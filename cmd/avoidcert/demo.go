@@ -143,8 +143,8 @@ func checkGrowthClaim(ctx context.Context, set pattern.Set, c demoClaim) (string
 	if err != nil {
 		return "", false, err
 	}
-	verdict, res, err := bounds.JudgeBlocks(ctx, p.sys, p.blocks, claimed, quantity,
-		bounds.Options{Step: p.step, MaxK: 200}, nil)
+	verdict, res, err := bounds.JudgeBlocks(ctx, p.states, p.blocks, claimed, quantity,
+		bounds.Options{Step: p.step, MaxN: p.maxN(200)}, nil)
 	if err != nil {
 		return "", false, err
 	}
