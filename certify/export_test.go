@@ -10,29 +10,6 @@ import (
 // producer of real certificates is the engine's (certify/produce), and the
 // engine's agreement with the checker is tested in internal/conformance.
 
-// Canonical exposes the checker's own irredundant set and its symmetry
-// representative of the given tokens.
-func Canonical(given []string) (patterns, canonical []string, err error) {
-	s, err := parseSet(given)
-	if err != nil {
-		return nil, nil, err
-	}
-	return s.strings(), s.canonical().strings(), nil
-}
-
-// StateStrings returns the prefix states of the set, in state order.
-func StateStrings(given []string) ([]string, error) {
-	s, err := parseSet(given)
-	if err != nil {
-		return nil, err
-	}
-	var out []string
-	for _, p := range newStateSpace(s).states {
-		out = append(out, "("+formatPerm(p)+")")
-	}
-	return out, nil
-}
-
 // Iterate returns G_n of the system on states (nil: whole) with the given
 // start, as one slice of coefficients per state (nil outside the system or
 // for states longer than n), its digest and its sum.
