@@ -5,6 +5,7 @@ import (
 	"crypto/sha256"
 	"encoding/binary"
 	"math/big"
+	"runtime"
 )
 
 // This file computes the iterates G_n on prefix states (docs/prefix-states.md)
@@ -22,6 +23,7 @@ type system struct {
 	bin     binomials
 	in      []bool     // per state: part of the system
 	inbound [][]inMove // per state q: the moves of the system that lead to q
+	scratch []scratch  // per goroutine of eachState
 }
 
 type inMove struct {
@@ -40,7 +42,7 @@ type iterate struct {
 // maxN bounds the n that will be reached.
 func newSystem(sp *stateSpace, states []int, maxN int) *system {
 	sys := &system{sp: sp, bin: newBinomials(maxN+2*MaxPatternLength+2, wordsFor(maxN)), in: make([]bool, len(sp.states)),
-		inbound: make([][]inMove, len(sp.states))}
+		inbound: make([][]inMove, len(sp.states)), scratch: make([]scratch, runtime.GOMAXPROCS(0))}
 	if states == nil {
 		for p := range sys.in {
 			sys.in[p] = true
@@ -104,8 +106,8 @@ func (sys *system) restrict(g *iterate) *iterate {
 // stops it between states.
 func (sys *system) next(ctx context.Context, g *iterate) (*iterate, error) {
 	out := &iterate{n: g.n + 1, tables: make([]*table, len(sys.in))}
-	err := eachState(ctx, len(sys.in), func(q int) error {
-		out.tables[q] = sys.pull(g, q)
+	err := eachState(ctx, len(sys.scratch), len(sys.in), func(worker, q int) error {
+		out.tables[q] = sys.pull(&sys.scratch[worker], g, q)
 		return nil
 	})
 	if err != nil {
@@ -114,8 +116,9 @@ func (sys *system) next(ctx context.Context, g *iterate) (*iterate, error) {
 	return out, nil
 }
 
-// pull computes G_(n+1)[q] from the moves into q.
-func (sys *system) pull(g *iterate, q int) *table {
+// pull computes G_(n+1)[q] from the moves into q, with sc for its
+// temporary tables.
+func (sys *system) pull(sc *scratch, g *iterate, q int) *table {
 	L := len(sys.sp.states[q])
 	if !sys.in[q] || L > g.n+1 {
 		return nil
@@ -135,24 +138,29 @@ func (sys *system) pull(g *iterate, q int) *table {
 		var t *table
 		switch r, i := mv.drops[0], mv.gap; {
 		case r == i:
-			t = sys.bin.insertMerge(src, i, -1)
+			t = sys.bin.insertMerge(sc, src, i, -1)
 		case r == i+2:
-			t = sys.bin.insertMerge(src, i, +1)
+			t = sys.bin.insertMerge(sc, src, i, +1)
 		case r < i: // merge a_(r-1) and a_r first; gap i is then gap i-1
-			merged := sys.bin.merge(src, r-1)
-			t = sys.bin.newTable(merged.parts+1, merged.degree)
+			merged := sys.bin.merge(sc, src, r-1)
+			t = sc.table(sys.bin, merged.parts+1, merged.degree)
 			sys.bin.spreadAdd(t, merged, i-1)
+			sc.release(merged)
 		default: // r > i+2: a_(r-2) and a_(r-1)
-			merged := sys.bin.merge(src, r-2)
-			t = sys.bin.newTable(merged.parts+1, merged.degree)
+			merged := sys.bin.merge(sc, src, r-2)
+			t = sc.table(sys.bin, merged.parts+1, merged.degree)
 			sys.bin.spreadAdd(t, merged, i)
+			sc.release(merged)
 		}
 		for _, r := range mv.drops[1:] {
-			t = sys.bin.merge(t, r-1)
+			merged := sys.bin.merge(sc, t, r-1)
+			sc.release(t)
+			t = merged
 		}
 		// one pass over the flat words: no coefficient overflows its
 		// width (wordsFor), so no carry crosses into the next one
 		addWords(dst.w, t.w)
+		sc.release(t)
 	}
 	return dst
 }

@@ -133,6 +133,54 @@ func (b binomials) newTable(K, D int) *table {
 	return &table{parts: K, degree: D, words: b.words, w: make([]uint64, b.count(K, D)*b.words)}
 }
 
+// scratch recycles the temporary tables of one goroutine's steps, so
+// that a step does not allocate (and the garbage collector does not
+// clear) fresh memory for every move.
+type scratch struct {
+	free  [][]uint64
+	links []int
+}
+
+// table returns a zeroed table of K parts and degree D in the smallest
+// recycled buffer that holds it, or a new one.
+func (sc *scratch) table(b binomials, K, D int) *table {
+	n := b.count(K, D) * b.words
+	best := -1
+	for i, buf := range sc.free {
+		if cap(buf) >= n && (best < 0 || cap(buf) < cap(sc.free[best])) {
+			best = i
+		}
+	}
+	if best < 0 {
+		return b.newTable(K, D)
+	}
+	buf := sc.free[best][:n]
+	sc.free[best] = sc.free[len(sc.free)-1]
+	sc.free = sc.free[:len(sc.free)-1]
+	clear(buf)
+	return &table{parts: K, degree: D, words: b.words, w: buf}
+}
+
+// keptBuffers is how many released buffers a scratch keeps: a move holds
+// at most three temporary tables at once.
+const keptBuffers = 3
+
+// release returns a temporary table's memory for reuse, keeping the
+// largest keptBuffers buffers (the tables grow with n).
+func (sc *scratch) release(t *table) {
+	sc.free = append(sc.free, t.w)
+	if len(sc.free) > keptBuffers {
+		least := 0
+		for i, buf := range sc.free {
+			if cap(buf) < cap(sc.free[least]) {
+				least = i
+			}
+		}
+		sc.free[least] = sc.free[len(sc.free)-1]
+		sc.free = sc.free[:len(sc.free)-1]
+	}
+}
+
 // firstComposition sets a to (0, .., 0, D).
 func firstComposition(a []int, D int) {
 	clear(a)
@@ -179,8 +227,8 @@ func (b binomials) spreadAdd(dst, src *table, i int) {
 // merge drops the value between gaps j and j+1 of src (K parts, degree
 // D): the result (K-1 parts, degree D+1) has the one gap a_j + a_(j+1) + 1
 // in their place and sums every src entry that lands there.
-func (b binomials) merge(src *table, j int) *table {
-	out := b.newTable(src.parts-1, src.degree+1)
+func (b binomials) merge(sc *scratch, src *table, j int) *table {
+	out := sc.table(b, src.parts-1, src.degree+1)
 	a := make([]int, src.parts)
 	e := make([]int, out.parts)
 	firstComposition(a, src.degree)
@@ -212,13 +260,16 @@ func (b binomials) merge(src *table, j int) *table {
 //	out[.., u, v, ..] = src[.., u, v-1, ..] + out[.., u+1, v-1, ..].
 //
 // Every entry costs O(1) additions.
-func (b binomials) insertMerge(src *table, i, side int) *table {
-	out := b.newTable(src.parts, src.degree+1)
+func (b binomials) insertMerge(sc *scratch, src *table, i, side int) *table {
+	out := sc.table(b, src.parts, src.degree+1)
 	lo := i - 1 // the two parts (u, v) of out that the sum runs along
 	if side > 0 {
 		lo = i
 	}
-	partner := make([]int, out.size()) // the entry the running sum continues, or -1
+	if cap(sc.links) < out.size() {
+		sc.links = make([]int, out.size())
+	}
+	partner := sc.links[:out.size()] // the entry the running sum continues, or -1
 	e := make([]int, out.parts)
 	firstComposition(e, out.degree)
 	for r := 0; ; r++ {
