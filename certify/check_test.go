@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"math/big"
+	"runtime"
 	"strings"
 	"testing"
 
@@ -368,5 +369,36 @@ func BenchmarkCheck(b *testing.B) {
 			}
 			_ = total
 		})
+	}
+}
+
+// TestSameVerdictOnAnyCores: the iteration's goroutines never change a
+// verdict or a message.
+func TestSameVerdictOnAnyCores(t *testing.T) {
+	good := wholeCert(t, "1342", 12)
+	bad := wholeCert(t, "1342", 12)
+	bad.Evidence.Brackets[0].Hi = new(big.Rat).Mul(bad.Evidence.Brackets[0].Hi, big.NewRat(999999, 1000000))
+	bad.Statement.Lambda.Hi, bad.Statement.AllN.MuHi = bad.Evidence.Brackets[0].Hi, bad.Evidence.Brackets[0].Hi
+	bad.Statement.Radius.Lo = new(big.Rat).Inv(bad.Evidence.Brackets[0].Hi)
+	if err := certify.Derive(bad); err != nil {
+		t.Fatal(err)
+	}
+	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(0))
+	var messages []string
+	for _, procs := range []int{1, 2, 3, 7} {
+		runtime.GOMAXPROCS(procs)
+		if err := certify.Check(bg, good, certify.CheckOptions{}); err != nil {
+			t.Fatalf("GOMAXPROCS %d: %v", procs, err)
+		}
+		err := certify.Check(bg, bad, certify.CheckOptions{})
+		if err == nil {
+			t.Fatalf("GOMAXPROCS %d: a lowered hi accepted", procs)
+		}
+		messages = append(messages, err.Error())
+	}
+	for _, m := range messages[1:] {
+		if m != messages[0] {
+			t.Fatalf("messages differ with the number of goroutines: %q and %q", messages[0], m)
+		}
 	}
 }
