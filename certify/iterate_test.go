@@ -287,3 +287,50 @@ func TestParseNumbersStrict(t *testing.T) {
 		}
 	}
 }
+
+// TestElevationWidth elevates small iterates MaxStep times in the
+// checker's words and compares with plain big.Int arithmetic: the width
+// wordsFor(N+d) must hold every entry (a short N with the longest step
+// grows the entries most).
+func TestElevationWidth(t *testing.T) {
+	for _, given := range [][]string{{"123"}, {"1342"}, {"12"}} {
+		set, _ := parseSet(given)
+		sp := newStateSpace(set)
+		N := sp.maxLen
+		sys := newSystem(sp, nil, N+MaxStep)
+		g := sys.emptyStart()
+		for g.n < N {
+			g, _ = sys.next(context.Background(), g)
+		}
+		for p, tb := range g.tables {
+			want := make([]*big.Int, tb.size())
+			for r := range want {
+				want[r] = toBig(tb.at(r))
+			}
+			got := tb
+			a := make([]int, tb.parts)
+			for D := tb.degree; D < tb.degree+MaxStep; D++ {
+				got = sys.bin.elevate(got)
+				next := make([]*big.Int, sys.bin.count(tb.parts, D+1))
+				firstComposition(a, D+1)
+				for r := range next {
+					next[r] = new(big.Int)
+					for j := range a {
+						if a[j] > 0 {
+							a[j]--
+							next[r].Add(next[r], new(big.Int).Mul(big.NewInt(int64(a[j]+1)), want[sys.bin.rank(a)]))
+							a[j]++
+						}
+					}
+					nextComposition(a)
+				}
+				want = next
+			}
+			for r := range want {
+				if toBig(got.at(r)).Cmp(want[r]) != 0 {
+					t.Fatalf("%v state %d: entry %d of the %d-fold elevation is %s, want %s", given, p, r, MaxStep, toBig(got.at(r)), want[r])
+				}
+			}
+		}
+	}
+}

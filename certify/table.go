@@ -27,11 +27,15 @@ func (t *table) at(r int) []uint64 { return t.w[r*t.words : (r+1)*t.words] }
 func (t *table) size() int { return len(t.w) / t.words }
 
 // wordsFor returns the width that holds every number of an iteration up to
-// n = top: every coefficient of G_n is at most a_n <= n! (the restricted
-// starts count weighted paths bounded by their number of coefficients
-// times that), a running sum is a partial sum of one output, and the
-// d-fold elevation of G_N sums to (N+1)...(N+d) times G_N's sum. Two words
-// beyond (top)! cover the starts' factor and the elevation's.
+// n = top. Every coefficient of G_n of the whole system counts some of the
+// avoiding permutations of length n, so it is at most n!; from start ones
+// each of at most C(12, 6) = 924 coefficients of G_(n_s) = 1 has at most
+// n!/n_s! descendants at n, so the coefficients stay below 2^10 n!. A
+// running sum is a partial sum of one output and a merge sums entries of
+// one iterate. One elevation of a table of degree D gives each entry at
+// most (D+1) times the largest, and D <= N, so the d-fold elevation of G_N
+// stays below 2^10 (N+d)! as well. Two words beyond (top)! are a margin
+// over the factor 2^10.
 func wordsFor(top int) int {
 	f := new(big.Int).MulRange(1, int64(max(top, 1)))
 	return f.BitLen()/64 + 3
