@@ -53,3 +53,37 @@ func SubInto(dst, x, y []big.Word) {
 	}
 	clear(dst[len(x):])
 }
+
+// AddInto sets dst = x + y, zero-extended (len(x) = len(y) <= len(dst)).
+// dst may alias x or y.
+func AddInto(dst, x, y []big.Word) {
+	var c uint
+	i := 0
+	for ; i < len(x); i++ {
+		var s uint
+		s, c = bits.Add(uint(x[i]), uint(y[i]), c)
+		dst[i] = big.Word(s)
+	}
+	if i < len(dst) {
+		dst[i] = big.Word(c)
+		clear(dst[i+1:])
+	}
+}
+
+// Sub subtracts src from dst modulo 2^(W len(dst)) (len(src) <= len(dst)):
+// a borrow out of dst is dropped, so sums of signed terms come out right
+// whenever the final value fits.
+func Sub(dst, src []big.Word) {
+	var b uint
+	i := 0
+	for ; i < len(src); i++ {
+		var d uint
+		d, b = bits.Sub(uint(dst[i]), uint(src[i]), b)
+		dst[i] = big.Word(d)
+	}
+	for ; b != 0 && i < len(dst); i++ {
+		var d uint
+		d, b = bits.Sub(uint(dst[i]), 0, b)
+		dst[i] = big.Word(d)
+	}
+}

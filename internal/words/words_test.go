@@ -43,5 +43,16 @@ func TestAgainstBigInt(t *testing.T) {
 		if diff := new(big.Int).Sub(toInt(x), toInt(y)); toInt(dst).Cmp(diff) != 0 {
 			t.Fatalf("SubInto: got %v, want %v", toInt(dst), diff)
 		}
+		AddInto(dst, x, y)
+		if sum := new(big.Int).Add(toInt(x), toInt(y)); toInt(dst).Cmp(sum) != 0 {
+			t.Fatalf("AddInto: got %v, want %v", toInt(dst), sum)
+		}
+		// Sub wraps modulo 2^(64 len(dst)): adding src back restores dst.
+		before := toInt(dst)
+		Sub(dst, y)
+		mod := new(big.Int).Lsh(big.NewInt(1), uint(64*len(dst)))
+		if want := new(big.Int).Mod(new(big.Int).Sub(before, toInt(y)), mod); toInt(dst).Cmp(want) != 0 {
+			t.Fatalf("Sub: got %v, want %v", toInt(dst), want)
+		}
 	}
 }
