@@ -58,7 +58,7 @@ func (e *Engine) give(ws ...[]big.Word) {
 }
 
 // maxSpare is how many scratch arrays an engine keeps between steps.
-const maxSpare = 8
+const maxSpare = 3
 
 // term is a move of the system with its ops resolved for pulling.
 type term struct {
@@ -440,12 +440,24 @@ func (e *Engine) split(g, out *Iterate) ([]pushGroup, []term) {
 // summed along the segments' direction (low, low+1), is the moves'
 // contribution. Modular sums are exact because the result fits.
 func (e *Engine) push(ctx context.Context, g *Iterate, dst *block, terms []term, ixs []*Indexer, low int) error {
-	type span struct{ term, lo, hi int }
+	// One pass over each source state serves all its moves in the group.
+	type span struct {
+		from, lo, hi int
+		terms        []term
+	}
+	bySource := map[int][]term{}
+	var froms []int
+	for _, t := range terms {
+		if _, ok := bySource[t.mv.From]; !ok {
+			froms = append(froms, t.mv.From)
+		}
+		bySource[t.mv.From] = append(bySource[t.mv.From], t)
+	}
 	var spans []span
-	for k, t := range terms {
-		count := g.blocks[t.mv.From].count
+	for _, p := range froms {
+		count := g.blocks[p].count
 		for lo := 0; lo < count; lo += chunk {
-			spans = append(spans, span{k, lo, min(lo+chunk, count)})
+			spans = append(spans, span{p, lo, min(lo+chunk, count), bySource[p]})
 		}
 	}
 	var mu sync.Mutex
@@ -461,27 +473,28 @@ func (e *Engine) push(ctx context.Context, g *Iterate, dst *block, terms []term,
 		ox := ixs[dst.l]
 		return func(task int) {
 			sp := spans[task]
-			t := terms[sp.term]
-			src := &g.blocks[t.mv.From]
-			gm := t.mv.groups
+			src := &g.blocks[sp.from]
 			a := a[:src.l+1]
 			ix := ixs[src.l]
 			ix.Unrank(src.deg, sp.lo, a)
 			for r := sp.lo; r < sp.hi; r++ {
-				copy(x, gm.extra)
-				for s, j := range gm.of {
-					if j >= 0 {
-						x[j] += a[s]
-					}
-				}
-				ai := a[t.mv.Gap]
-				x[low+1] += ai
 				w := src.at(r)
-				words.Add(d.at(ox.Rank(x)), w)
-				if x[low+1] > ai { // the point past b = a_i exists
-					x[low] += ai + 1
-					x[low+1] -= ai + 1
-					words.Sub(d.at(ox.Rank(x)), w)
+				for _, t := range sp.terms {
+					gm := &t.mv.groups
+					copy(x, gm.extra)
+					for s, j := range gm.of {
+						if j >= 0 {
+							x[j] += a[s]
+						}
+					}
+					ai := a[t.mv.Gap]
+					x[low+1] += ai
+					words.Add(d.at(ox.Rank(x)), w)
+					if x[low+1] > ai { // the point past b = a_i exists
+						x[low] += ai + 1
+						x[low+1] -= ai + 1
+						words.Sub(d.at(ox.Rank(x)), w)
+					}
 				}
 				ix.Next(a)
 			}

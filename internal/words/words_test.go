@@ -22,7 +22,7 @@ func TestAgainstBigInt(t *testing.T) {
 	}
 	toInt := func(w []big.Word) *big.Int { return new(big.Int).SetBits(append([]big.Word(nil), w...)) }
 	for range 2000 {
-		n := 1 + rng.IntN(5)
+		n := 1 + rng.IntN(12) // several groups of four words and a tail
 		x, y := random(n), random(n)
 		if toInt(x).Cmp(toInt(y)) < 0 {
 			x, y = y, x
