@@ -477,8 +477,9 @@ func (e *Engine) push(ctx context.Context, g *Iterate, dst *block, terms []term,
 			a := a[:src.l+1]
 			ix := ixs[src.l]
 			ix.Unrank(src.deg, sp.lo, a)
+			var adds, subs []int
 			for r := sp.lo; r < sp.hi; r++ {
-				w := src.at(r)
+				adds, subs = adds[:0], subs[:0]
 				for _, t := range sp.terms {
 					gm := &t.mv.groups
 					copy(x, gm.extra)
@@ -489,11 +490,28 @@ func (e *Engine) push(ctx context.Context, g *Iterate, dst *block, terms []term,
 					}
 					ai := a[t.mv.Gap]
 					x[low+1] += ai
-					words.Add(d.at(ox.Rank(x)), w)
+					adds = append(adds, ox.Rank(x))
 					if x[low+1] > ai { // the point past b = a_i exists
 						x[low] += ai + 1
 						x[low+1] -= ai + 1
-						words.Sub(d.at(ox.Rank(x)), w)
+						subs = append(subs, ox.Rank(x))
+					}
+				}
+				// Segments of neighbouring gaps meet end to start (the
+				// lower piece of gap i+1 begins just past the upper piece
+				// of gap i): an addition and a subtraction at one place
+				// cancel and are skipped.
+				w := src.at(r)
+				for _, p := range adds {
+					if k := slices.Index(subs, p); k >= 0 {
+						subs[k] = -1
+						continue
+					}
+					words.Add(d.at(p), w)
+				}
+				for _, p := range subs {
+					if p >= 0 {
+						words.Sub(d.at(p), w)
 					}
 				}
 				ix.Next(a)
