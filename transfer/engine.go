@@ -405,8 +405,9 @@ type pushGroup struct {
 
 // pushFactor decides between pushing and chaining a move with several
 // drops: it is pushed when its target's array, once per goroutine, is at
-// most 1/pushFactor of its source's.
-const pushFactor = 4
+// most 1/pushFactor of its source's. (A variable so that tests can force
+// either way.)
+var pushFactor int64 = 4
 
 // split sorts the moves with several drops into pushed groups (in a fixed
 // order) and chained moves.
