@@ -43,3 +43,7 @@ func BenchmarkRun132Digits100(b *testing.B)  { benchRun(b, "132", 100) }
 func BenchmarkRun1342Digits50(b *testing.B)  { benchRun(b, "1342", 50) }
 func BenchmarkRun12345Digits30(b *testing.B) { benchRun(b, "12345", 30) }
 func BenchmarkRun1234Digits30(b *testing.B)  { benchRun(b, "1234", 30) }
+
+func BenchmarkRun1342Digits100(b *testing.B)  { benchRun(b, "1342", 100) }
+func BenchmarkRun12345Digits50(b *testing.B)  { benchRun(b, "12345", 50) }
+func BenchmarkRun123456Digits30(b *testing.B) { benchRun(b, "123456", 30) }

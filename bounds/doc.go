@@ -1,39 +1,47 @@
-// Package bounds turns the exact iterates of package transfer into
-// certified brackets for the growth rate lambda of a consecutive-pattern
-// set, to a digit or width target within time and memory budgets.
+// Package bounds turns the exact prefix-state iterates of package transfer
+// into certified brackets for the growth rate lambda of a
+// consecutive-pattern set, to a digit or width target within time and
+// memory budgets.
 //
 // # The bracket
 //
-// Write g_k = T^k g0 = G_k/k! (method note, sections 2-3). For a step d >= 1
-// and every index a of degree k+d on every cell, let D_a be G_k raised d
-// degrees (H_0 = G_k, H_{i+1}[a] = sum_t a_t H_i[a-e_t], D_a = H_d[a]) and
-// R_a = G_{k+d}[a] / D_a. D_a/(k+d)! and G_{k+d}[a]/(k+d)! are the
-// Bernstein coefficients of g_k and of T^d g_k in degree k+d, so with
-// lo = min R_a and hi = max R_a over the indices with D_a > 0 (and
-// G_{k+d}[a] = 0 wherever D_a = 0; otherwise hi is infinite at this k),
-// lo g_k <= T^d g_k <= hi g_k pointwise: the Bernstein basis is nonnegative
-// on its cell. T is positive, so lo^j g_k <= T^(dj) g_k <= hi^j g_k.
+// For a system of prefix states (docs/prefix-states.md), a step d >= 1 and
+// an n at or above the system's start and its longest state: at every
+// state p of the system and every composition a of n+d-|p|, let H be
+// G_n[p] raised d degrees (H_0 = G_n[p], H_(i+1)[a] = sum_t a_t H_i[a-e_t])
+// and R = G_(n+d)[p][a] / H. H/(n+d-|p|)! and G_(n+d)[p][a]/(n+d-|p|)! are
+// the Bernstein coefficients of g and of T'^d g in degree n+d-|p| on the
+// cell of p, g being the density of G_n (method note, section 8). With
+// lo = min R and hi = max R over the indices with H > 0 (and
+// G_(n+d)[p][a] = 0 wherever H = 0; otherwise hi is infinite at this n),
+// lo g <= T'^d g <= hi g pointwise, since the Bernstein basis is
+// nonnegative on its cell, and T' is positive.
 //
 // # What is proved
 //
-//   - Bracket.Lo and Bracket.Hi are the exact rational extremes of R_a,
+//   - Bracket.Lo and Bracket.Hi are the exact rational extremes of R,
 //     found by a floating-point screen whose every doubtful call is settled
-//     by exact integer cross-multiplication. The screen only decides
-//     comparisons whose floating-point error bound cannot change the answer.
-//   - lambda^d lies in [Lo, Hi], for lambda = lim (a_n/n!)^(1/n): a_n/n! =
-//     <T^(n-m) g0, 1>, so for every r the subsequence n = m+k+r+dj grows
-//     between lo^(1/d) and hi^(1/d) per step (using T^r lo g_k <=
-//     T^(r+d) g_k); the lower end needs a_{m+k+r} > 0, which holds whenever
-//     lo > 0 and a_n > 0 for all n.
-//   - Result.Lambda is [max lo_C, max hi_C] over the blocks C (one block for
-//     Run), each end taken to the d-th root outward (interval.RootDown,
-//     RootUp) and rounded outward to a dyadic rational of Result.Prec bits,
-//     about 3.33 (Digits+10) bits for a digit target: rounding only widens.
-//     Result.Radius is its outward reciprocal. For RunBlocks the proof of
-//     the combination is on RunBlocks; its conditions are checked.
+//     by exact integer cross-multiplication.
+//   - Run (the whole system, started from the empty state): lambda^d lies
+//     in [Lo, Hi]. The mass of T'^j g_n is a_(n+j)/(n+j)!, so the
+//     subsequences n + dj grow between lo^(1/d) and hi^(1/d) per step.
+//   - RunBlocks (blocks: the strongly connected components of the state
+//     digraph, Blocks): every block C is iterated alone with start ones,
+//     which proves lambda(T'_C)^d <= hi_C; since the blocks partition the
+//     states and moves between blocks form no cycle (checked), T' is
+//     block-triangular and lambda <= max hi_C^(1/d). Every block with a
+//     move inside it is also iterated with start whole (the whole
+//     iterate at n_s on C), which proves lo_C <= lambda^d because that
+//     start is at most the whole iterate and T' >= T'_C on nonnegative
+//     functions. Bracket.Upper and Bracket.Lower say which end of a
+//     bracket is used.
+//   - Result.Lambda is [max lo, max hi] over the brackets whose ends prove
+//     something, each end taken to the d-th root outward (interval.RootDown,
+//     RootUp) and rounded outward to a dyadic rational of Result.Prec bits.
+//     Result.Radius is its outward reciprocal.
 //   - Result.Explicit (Run with Step 1 and a finite bracket): for every
-//     n >= n0 = m+k, A MuLo^(n-n0) <= a_n/n! <= A MuHi^(n-n0) with
-//     A = a_{n0}/n0!; the proof is on AllN, and AllN.At evaluates both
+//     n >= n0 = N, A MuLo^(n-n0) <= a_n/n! <= A MuHi^(n-n0) with
+//     A = a_(n0)/n0!; the proof is on AllN, and AllN.At evaluates both
 //     sides outward.
 //   - Judge's Proved and Refuted rest on the same certified enclosure.
 //
@@ -46,13 +54,14 @@
 // estimates too, but they only decide how much work is done, never what is
 // claimed.
 //
-// # Cost
+// # Cost and budgets
 //
-// Brackets are taken at k = 4, 6, then where the observed width decay
-// predicts the target (at most about twice the last k), so their cost
-// stays a small part of counting to the same k; each costs about one or two
-// counting steps. Steps consume their input (transfer.Engine.Advance)
-// except from the G_k of a planned bracket.
+// Brackets are taken 4 steps above the first possible n, then where the
+// observed width decay predicts the target (at most about twice the
+// distance so far), so their cost stays a small part of counting to the
+// same n. Options.MaxN caps n; Options.MaxMemory is compared with
+// transfer.Engine.Footprint and this package's workspace before every
+// step; a context deadline stops the run in time to keep a bracket.
 //
 // Aliasing: the package only reads transfer iterates; results are fresh
 // and owned by the caller. Functions are safe for concurrent use on

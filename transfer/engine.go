@@ -4,6 +4,9 @@ import (
 	"context"
 	"fmt"
 	"math/big"
+	"runtime"
+	"slices"
+	"sync"
 
 	"avoidcert/internal/par"
 	"avoidcert/internal/words"
@@ -19,7 +22,43 @@ type Engine struct {
 	single [][]term // per target state: the moves of one op
 	multi  []term   // moves of several ops (several drops)
 	needs  []need   // running sums of G_n that single ops and first ops read
+
+	mu    sync.Mutex
+	spare [][]big.Word // scratch storage of earlier steps, for reuse
 }
+
+// take returns scratch storage of n words, reused from an earlier step
+// when one is large enough; its contents are arbitrary.
+func (e *Engine) take(n int) []big.Word {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	for i, w := range e.spare {
+		if cap(w) >= n {
+			e.spare = append(e.spare[:i], e.spare[i+1:]...)
+			return w[:n]
+		}
+	}
+	return make([]big.Word, n, n+n/headroomDiv)
+}
+
+// give returns scratch storage for reuse; only the largest few are kept.
+func (e *Engine) give(ws ...[]big.Word) {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	for _, w := range ws {
+		if w != nil {
+			e.spare = append(e.spare, w)
+		}
+	}
+	slices.SortFunc(e.spare, func(a, b []big.Word) int { return cap(b) - cap(a) })
+	if len(e.spare) > maxSpare {
+		clear(e.spare[maxSpare:])
+		e.spare = e.spare[:maxSpare]
+	}
+}
+
+// maxSpare is how many scratch arrays an engine keeps between steps.
+const maxSpare = 3
 
 // term is a move of the system with its ops resolved for pulling.
 type term struct {
@@ -137,14 +176,13 @@ func (e *Engine) layout(n int) ([]block, int, int) {
 // size, so that storage can be recycled for a step or two as it grows.
 const headroomDiv = 8
 
-// newIterate returns a zeroed iterate at length n, in the storage of
-// recycle when it is large enough.
+// newIterate returns an iterate at length n, in the storage of recycle
+// when it is large enough (then its words are left as they were).
 func (e *Engine) newIterate(n int, recycle *Iterate) *Iterate {
 	blocks, limbs, total := e.layout(n)
 	var w []big.Word
 	if recycle != nil && cap(recycle.words) >= total {
-		w = recycle.words[:total]
-		clear(w)
+		w = recycle.words[:total] // not cleared: Next writes every coefficient
 	} else {
 		w = make([]big.Word, total, total+total/headroomDiv)
 	}
@@ -165,31 +203,36 @@ func (e *Engine) IterateBytes(n int) int64 {
 }
 
 // Footprint estimates the peak bytes of Next from G_n: G_n, the running
-// sums it reads, G_(n+1), and the largest pair of intermediate arrays of a
-// move with several drops.
+// sums it reads, G_(n+1), the arrays of differences of pushed moves (one
+// per goroutine) and the largest pair of intermediate arrays of a chained
+// move.
 func (e *Engine) Footprint(n int) int64 {
-	in, _, _ := e.layout(n)
-	limbs := limbsFor(n, e.scale)
-	var sums int64
+	in, limbs, _ := e.layout(n)
+	out, outLimbs, _ := e.layout(n + 1)
+	var words int64
 	for _, nd := range e.needs {
-		sums += int64(in[nd.p].count * limbs)
+		words += int64(in[nd.p].count * limbs)
 	}
-	var chain int64
-	outLimbs := limbsFor(n+1, e.scale)
+	procs := int64(runtime.GOMAXPROCS(0))
+	var chain, push int64
 	for _, t := range e.multi {
 		L := e.st.Length(t.mv.From)
-		if L > n {
+		src, dst := int64(in[t.mv.From].count), int64(out[t.mv.To].count)
+		if src == 0 || dst == 0 {
+			continue
+		}
+		if dst*procs*pushFactor <= src {
+			push += procs * dst * int64(outLimbs) // at most one group at a time; counted per move, an overestimate
 			continue
 		}
 		prev := int64(0)
 		for k := 0; k < len(t.ops)-1; k++ {
-			parts := len(t.ops[k+1].s0)
-			size := int64(scratchCount(parts, n-L+1+k)) * int64(outLimbs)
+			size := int64(scratchCount(len(t.ops[k+1].s0), n-L+1+k)) * int64(outLimbs)
 			chain = max(chain, prev+size)
 			prev = size
 		}
 	}
-	return 8 * (int64(e.IterateBytes(n)/8) + sums + chain + e.IterateBytes(n+1)/8)
+	return e.IterateBytes(n) + e.IterateBytes(n+1) + 8*(words+max(chain, push))
 }
 
 // scratchCount returns the number of compositions of deg into parts parts.
@@ -261,29 +304,40 @@ func (e *Engine) step(ctx context.Context, g, recycle *Iterate) (*Iterate, error
 	for l := range ixs {
 		ixs[l] = NewIndexer(l, n+2)
 	}
-	// Running sums of G_n, one array per need.
+	pushed, chained := e.split(g, out)
+	// Running sums of G_n, one array per need still read.
+	used := make([]bool, len(e.needs))
+	for q, terms := range e.single {
+		for _, t := range terms {
+			if t.need >= 0 && out.blocks[q].count > 0 {
+				used[t.need] = true
+			}
+		}
+	}
+	for _, t := range chained {
+		used[t.need] = true
+	}
 	sums := make([]block, len(e.needs))
 	var tasks []func()
 	for i, nd := range e.needs {
-		src := g.blocks[nd.p]
-		if src.count == 0 {
+		src := &g.blocks[nd.p]
+		if src.count == 0 || !used[i] {
 			continue
 		}
 		sums[i] = block{l: src.l, deg: src.deg, limbs: src.limbs, count: src.count,
-			words: append([]big.Word(nil), src.words...)}
-		tasks = append(tasks, runningSumTasks(&sums[i], ixs[src.l], nd.u, nd.v)...)
+			words: e.take(len(src.words))} // every word is written
+		tasks = append(tasks, runningSumTasks(&sums[i], src, ixs[src.l], nd.u, nd.v)...)
 	}
 	if err := runAll(ctx, tasks); err != nil {
 		return nil, err
 	}
-	// Every move of one op pulls straight into G_(n+1).
+	// Every move of one op pulls straight into G_(n+1); this pass also
+	// writes every coefficient of G_(n+1) once (so its storage need not be
+	// cleared first).
 	tasks = tasks[:0]
 	for q := range e.single {
 		dst := &out.blocks[q]
 		terms := e.single[q]
-		if dst.count == 0 || len(terms) == 0 {
-			continue
-		}
 		srcs := make([]*block, len(terms))
 		for k, t := range terms {
 			if t.need >= 0 {
@@ -294,24 +348,17 @@ func (e *Engine) step(ctx context.Context, g, recycle *Iterate) (*Iterate, error
 		}
 		for lo := 0; lo < dst.count; lo += chunk {
 			hi := min(lo+chunk, dst.count)
-			tasks = append(tasks, func() {
-				for k, t := range terms {
-					pull(dst, srcs[k], t.ops[0], ixs, lo, hi)
-				}
-			})
+			tasks = append(tasks, func() { pullTerms(dst, srcs, terms, ixs, lo, hi) })
 		}
 	}
 	if err := runAll(ctx, tasks); err != nil {
 		return nil, err
 	}
-	// Moves with several drops go through intermediate arrays, one drop at
-	// a time, one move after another.
+	// Moves with several drops into a large state go through intermediate
+	// arrays, one drop at a time, one move after another.
 	limbs := out.Limbs
-	for _, t := range e.multi {
+	for _, t := range chained {
 		src := &sums[t.need]
-		if src.count == 0 {
-			continue
-		}
 		for k, o := range t.ops {
 			var dst *block
 			if k == len(t.ops)-1 {
@@ -320,20 +367,177 @@ func (e *Engine) step(ctx context.Context, g, recycle *Iterate) (*Iterate, error
 				parts := len(t.ops[k+1].s0)
 				deg := src.deg + 1
 				c := scratchCount(parts, deg)
-				dst = &block{l: parts - 1, deg: deg, limbs: limbs, count: c, words: make([]big.Word, c*limbs)}
+				dst = &block{l: parts - 1, deg: deg, limbs: limbs, count: c, words: e.take(c * limbs)}
+				clear(dst.words)
 			}
 			if k > 0 {
-				if err := runAll(ctx, runningSumTasks(src, ixs[src.l], o.u, o.v)); err != nil {
+				if err := runAll(ctx, runningSumTasks(src, src, ixs[src.l], o.u, o.v)); err != nil {
 					return nil, err
 				}
 			}
 			if err := runAll(ctx, pullTasks(dst, src, o, ixs)); err != nil {
 				return nil, err
 			}
+			if k > 0 {
+				e.give(src.words)
+			}
 			src = dst
 		}
 	}
+	// Moves with several drops into a small state are pushed.
+	for _, grp := range pushed {
+		if err := e.push(ctx, g, &out.blocks[grp.to], grp.terms, ixs, grp.low); err != nil {
+			return nil, err
+		}
+	}
+	for i := range sums {
+		e.give(sums[i].words)
+	}
 	return out, nil
+}
+
+// pushGroup is the moves with several drops into one small state whose
+// split gap lands at the same place: they share one array of differences.
+type pushGroup struct {
+	to, low int
+	terms   []term
+}
+
+// pushFactor decides between pushing and chaining a move with several
+// drops: it is pushed when its target's array, once per goroutine, is at
+// most 1/pushFactor of its source's. (A variable so that tests can force
+// either way.)
+var pushFactor int64 = 4
+
+// split sorts the moves with several drops into pushed groups (in a fixed
+// order) and chained moves.
+func (e *Engine) split(g, out *Iterate) ([]pushGroup, []term) {
+	procs := int64(runtime.GOMAXPROCS(0))
+	var groups []pushGroup
+	var chained []term
+	for _, t := range e.multi {
+		src, dst := g.blocks[t.mv.From].count, out.blocks[t.mv.To].count
+		if src == 0 || dst == 0 {
+			continue
+		}
+		if int64(dst)*procs*pushFactor > int64(src) {
+			chained = append(chained, t)
+			continue
+		}
+		k := slices.IndexFunc(groups, func(p pushGroup) bool { return p.to == t.mv.To && p.low == t.mv.groups.low })
+		if k < 0 {
+			groups = append(groups, pushGroup{to: t.mv.To, low: t.mv.groups.low})
+			k = len(groups) - 1
+		}
+		groups[k].terms = append(groups[k].terms, t)
+	}
+	return groups, chained
+}
+
+// push adds the moves of one group into dst. Each goroutine adds every
+// source coefficient G_n[p][a] at the first output of its segment (the
+// split b = 0) and subtracts it just past the last (b = a_i), modulo the
+// word size, into its own array of differences; the sum of those arrays,
+// summed along the segments' direction (low, low+1), is the moves'
+// contribution. Modular sums are exact because the result fits.
+func (e *Engine) push(ctx context.Context, g *Iterate, dst *block, terms []term, ixs []*Indexer, low int) error {
+	// One pass over each source state serves all its moves in the group.
+	type span struct {
+		from, lo, hi int
+		terms        []term
+	}
+	bySource := map[int][]term{}
+	var froms []int
+	for _, t := range terms {
+		if _, ok := bySource[t.mv.From]; !ok {
+			froms = append(froms, t.mv.From)
+		}
+		bySource[t.mv.From] = append(bySource[t.mv.From], t)
+	}
+	var spans []span
+	for _, p := range froms {
+		count := g.blocks[p].count
+		for lo := 0; lo < count; lo += chunk {
+			spans = append(spans, span{p, lo, min(lo+chunk, count), bySource[p]})
+		}
+	}
+	var mu sync.Mutex
+	var diffs []*block
+	err := par.Run(ctx, len(spans), func() func(int) {
+		d := &block{l: dst.l, deg: dst.deg, limbs: dst.limbs, count: dst.count, words: e.take(len(dst.words))}
+		clear(d.words)
+		mu.Lock()
+		diffs = append(diffs, d)
+		mu.Unlock()
+		a := make([]int, e.st.MaxLength()+1)
+		x := make([]int, dst.l+1)
+		ox := ixs[dst.l]
+		return func(task int) {
+			sp := spans[task]
+			src := &g.blocks[sp.from]
+			a := a[:src.l+1]
+			ix := ixs[src.l]
+			ix.Unrank(src.deg, sp.lo, a)
+			var adds, subs []int
+			for r := sp.lo; r < sp.hi; r++ {
+				adds, subs = adds[:0], subs[:0]
+				for _, t := range sp.terms {
+					gm := &t.mv.groups
+					copy(x, gm.extra)
+					for s, j := range gm.of {
+						if j >= 0 {
+							x[j] += a[s]
+						}
+					}
+					ai := a[t.mv.Gap]
+					x[low+1] += ai
+					adds = append(adds, ox.Rank(x))
+					if x[low+1] > ai { // the point past b = a_i exists
+						x[low] += ai + 1
+						x[low+1] -= ai + 1
+						subs = append(subs, ox.Rank(x))
+					}
+				}
+				// Segments of neighbouring gaps meet end to start (the
+				// lower piece of gap i+1 begins just past the upper piece
+				// of gap i): an addition and a subtraction at one place
+				// cancel and are skipped.
+				w := src.at(r)
+				for _, p := range adds {
+					if k := slices.Index(subs, p); k >= 0 {
+						subs[k] = -1
+						continue
+					}
+					words.Add(d.at(p), w)
+				}
+				for _, p := range subs {
+					if p >= 0 {
+						words.Sub(d.at(p), w)
+					}
+				}
+				ix.Next(a)
+			}
+		}
+	})
+	if err != nil || len(diffs) == 0 {
+		return err
+	}
+	acc := diffs[0]
+	for _, d := range diffs[1:] {
+		for r := range d.count {
+			words.Add(acc.at(r), d.at(r)) // modulo the width of one coefficient
+		}
+	}
+	if err := runAll(ctx, runningSumTasks(acc, acc, ixs[dst.l], low, low+1)); err != nil {
+		return err
+	}
+	for r := range dst.count {
+		words.Add(dst.at(r), acc.at(r))
+	}
+	for _, d := range diffs {
+		e.give(d.words)
+	}
+	return nil
 }
 
 func runAll(ctx context.Context, tasks []func()) error {
@@ -349,6 +553,53 @@ func pullTasks(dst, src *block, o resolved, ixs []*Indexer) []func() {
 	return tasks
 }
 
+// pullTerms writes dst's coefficients lo..hi-1: the sum over the terms of
+// the source coefficients each maps them to (0 when none does).
+func pullTerms(dst *block, srcs []*block, terms []term, ixs []*Indexer, lo, hi int) {
+	c := make([]int, dst.l+2) // the last slot stays 0
+	ixs[dst.l].Unrank(dst.deg, lo, c[:dst.l+1])
+	for r := lo; r < hi; r++ {
+		out := dst.at(r)
+		empty := true
+		for k, t := range terms {
+			src := srcs[k]
+			if src.count == 0 {
+				continue
+			}
+			rank, ok := lookup(c, t.ops[0], ixs[src.l].binom, src.l)
+			if !ok {
+				continue
+			}
+			if empty {
+				copy(out, src.at(rank))
+				clear(out[src.limbs:])
+				empty = false
+			} else {
+				words.Add(out, src.at(rank))
+			}
+		}
+		if empty {
+			clear(out)
+		}
+		ixs[dst.l].Next(c[:dst.l+1])
+	}
+}
+
+// lookup returns the source rank the op maps composition c to, or false
+// when a part would be negative.
+func lookup(c []int, o resolved, binom [][]int, sl int) (int, bool) {
+	rank, s := 0, 0
+	for t := 0; t < sl; t++ {
+		x := c[o.s0[t]] + c[o.s1[t]] + o.off[t]
+		if x < 0 {
+			return 0, false
+		}
+		s += x
+		rank += binom[s+t][t+1]
+	}
+	return rank, c[o.s0[sl]]+c[o.s1[sl]]+o.off[sl] >= 0
+}
+
 // pull adds into dst's coefficients lo..hi-1 the source coefficients the
 // op maps them to.
 func pull(dst, src *block, o resolved, ixs []*Indexer, lo, hi int) {
@@ -357,47 +608,39 @@ func pull(dst, src *block, o resolved, ixs []*Indexer, lo, hi int) {
 	}
 	c := make([]int, dst.l+2) // the last slot stays 0
 	ixs[dst.l].Unrank(dst.deg, lo, c[:dst.l+1])
-	binom := ixs[src.l].binom
-	sl := src.l
 	for r := lo; r < hi; r++ {
-		rank, s, ok := 0, 0, true
-		for t := 0; t < sl; t++ {
-			x := c[o.s0[t]] + c[o.s1[t]] + o.off[t]
-			if x < 0 {
-				ok = false
-				break
-			}
-			s += x
-			rank += binom[s+t][t+1]
-		}
-		if ok && c[o.s0[sl]]+c[o.s1[sl]]+o.off[sl] >= 0 {
+		if rank, ok := lookup(c, o, ixs[src.l].binom, src.l); ok {
 			words.Add(dst.at(r), src.at(rank))
 		}
 		ixs[dst.l].Next(c[:dst.l+1])
 	}
 }
 
-// runningSumTasks returns tasks that replace b by its running sums along
-// (u, v): P[a] = sum over t = 0..a_u of B[a - t e_u + t e_v]. Every line
-// {a_u + a_v fixed, other parts fixed} is summed by the task whose rank
-// range holds its start (a_u = 0), so tasks write disjoint coefficients.
-func runningSumTasks(b *block, ix *Indexer, u, v int) []func() {
+// runningSumTasks returns tasks that write into dst the running sums of
+// src along (u, v): P[a] = sum over t = 0..a_u of S[a - t e_u + t e_v]
+// (dst may be src). Every line {a_u + a_v fixed, other parts fixed} is
+// summed by the task whose rank range holds its start (a_u = 0), so tasks
+// write disjoint coefficients.
+func runningSumTasks(dst, src *block, ix *Indexer, u, v int) []func() {
 	var tasks []func()
-	for lo := 0; lo < b.count; lo += chunk {
-		hi := min(lo+chunk, b.count)
+	for lo := 0; lo < src.count; lo += chunk {
+		hi := min(lo+chunk, src.count)
 		tasks = append(tasks, func() {
-			a := make([]int, b.l+1)
-			ix.Unrank(b.deg, lo, a)
-			w := make([]int, b.l+1)
+			a := make([]int, src.l+1)
+			ix.Unrank(src.deg, lo, a)
+			w := make([]int, src.l+1)
 			for r := lo; r < hi; r++ {
-				if a[u] == 0 && a[v] > 0 {
+				if a[u] == 0 {
+					if dst != src {
+						copy(dst.at(r), src.at(r))
+					}
 					copy(w, a)
 					prev := r
 					for w[v] > 0 {
 						w[u]++
 						w[v]--
 						cur := ix.Rank(w)
-						words.Add(b.at(cur), b.at(prev))
+						words.AddInto(dst.at(cur), dst.at(prev), src.at(cur))
 						prev = cur
 					}
 				}

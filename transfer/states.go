@@ -28,6 +28,20 @@ type Move struct {
 	// ops turn From's coefficients into To's: ops[0] reads From's array,
 	// each later op reads the previous op's output, the last writes To's.
 	ops []op
+	// groups is the same map in one piece: To's gap j collects the gaps
+	// of p+ in one group (used to push moves that drop several values).
+	groups groupMap
+}
+
+// groupMap says where the gaps of From end up in To: gap t of From (t not
+// the split gap) lies in To's gap of[t]; the split gap's lower piece lies
+// in To's gap low and its upper piece in gap low+1; To's gap j also holds
+// extra[j] forgotten values. So a'_j = extra[j] + sum of a_t over
+// of[t] = j, plus b in gap low and a_i - b in gap low+1.
+type groupMap struct {
+	of    []int // per From gap; -1 for the split gap
+	low   int
+	extra []int
 }
 
 // op is one pull: every destination coefficient at c' is the source's
@@ -140,7 +154,52 @@ func (st *States) move(from int, p pattern.Perm, i int) (Move, bool) {
 	to := st.index[pattern.Standardize(plus[L+1-keep:]).String()]
 	mv := Move{From: from, Gap: i, To: to, Drops: L + 1 - keep}
 	mv.ops = chain(plus, i, mv.Drops)
+	mv.groups = groups(plus, i, mv.Drops)
 	return mv, true
+}
+
+// groups follows the gaps of p+ through the drops (see groupMap).
+func groups(plus pattern.Perm, i, drops int) groupMap {
+	L := len(plus) - 1
+	type gap struct {
+		from      []int // From gaps wholly inside
+		low, high bool  // holds the lower or upper piece of the split gap
+		forgotten int
+	}
+	gaps := make([]gap, L+2)
+	for t := range gaps {
+		switch {
+		case t < i:
+			gaps[t].from = []int{t}
+		case t == i:
+			gaps[t].low = true
+		case t == i+1:
+			gaps[t].high = true
+		default:
+			gaps[t].from = []int{t - 1}
+		}
+	}
+	cur := plus
+	for range drops {
+		r := cur[0]
+		cur = pattern.Standardize(cur[1:])
+		a, b := gaps[r-1], gaps[r]
+		merged := gap{from: append(append([]int(nil), a.from...), b.from...), low: a.low || b.low,
+			high: a.high || b.high, forgotten: a.forgotten + b.forgotten + 1}
+		gaps = append(append(gaps[:r-1:r-1], merged), gaps[r+1:]...)
+	}
+	g := groupMap{of: make([]int, L+1), extra: make([]int, len(gaps))}
+	for j, x := range gaps {
+		for _, t := range x.from {
+			g.of[t] = j
+		}
+		if x.low {
+			g.low = j
+		}
+		g.extra[j] = x.forgotten
+	}
+	g.of[i] = -1
+	return g
 }
 
 // Gap labels of p+ before any drop: a source coordinate t >= 0, or one of

@@ -22,7 +22,7 @@ func TestAgainstBigInt(t *testing.T) {
 	}
 	toInt := func(w []big.Word) *big.Int { return new(big.Int).SetBits(append([]big.Word(nil), w...)) }
 	for range 2000 {
-		n := 1 + rng.IntN(5)
+		n := 1 + rng.IntN(12) // several groups of four words and a tail
 		x, y := random(n), random(n)
 		if toInt(x).Cmp(toInt(y)) < 0 {
 			x, y = y, x
@@ -42,6 +42,17 @@ func TestAgainstBigInt(t *testing.T) {
 		SubInto(dst, x, y)
 		if diff := new(big.Int).Sub(toInt(x), toInt(y)); toInt(dst).Cmp(diff) != 0 {
 			t.Fatalf("SubInto: got %v, want %v", toInt(dst), diff)
+		}
+		AddInto(dst, x, y)
+		if sum := new(big.Int).Add(toInt(x), toInt(y)); toInt(dst).Cmp(sum) != 0 {
+			t.Fatalf("AddInto: got %v, want %v", toInt(dst), sum)
+		}
+		// Sub wraps modulo 2^(64 len(dst)): adding src back restores dst.
+		before := toInt(dst)
+		Sub(dst, y)
+		mod := new(big.Int).Lsh(big.NewInt(1), uint(64*len(dst)))
+		if want := new(big.Int).Mod(new(big.Int).Sub(before, toInt(y)), mod); toInt(dst).Cmp(want) != 0 {
+			t.Fatalf("Sub: got %v, want %v", toInt(dst), want)
 		}
 	}
 }
