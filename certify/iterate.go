@@ -41,7 +41,7 @@ type iterate struct {
 // newSystem builds the system on the given states (nil: the whole system).
 // maxN bounds the n that will be reached.
 func newSystem(sp *stateSpace, states []int, maxN int) *system {
-	sys := &system{sp: sp, bin: newBinomials(maxN+2*MaxPatternLength+2, wordsFor(maxN)), in: make([]bool, len(sp.states)),
+	sys := &system{sp: sp, bin: newBinomials(maxN + 2*MaxPatternLength + 2), in: make([]bool, len(sp.states)),
 		inbound: make([][]inMove, len(sp.states)), scratch: make([]scratch, runtime.GOMAXPROCS(0))}
 	if states == nil {
 		for p := range sys.in {
@@ -64,7 +64,7 @@ func newSystem(sp *stateSpace, states []int, maxN int) *system {
 // emptyStart returns the whole system's G_0: 1 on the empty state.
 func (sys *system) emptyStart() *iterate {
 	g := &iterate{n: 0, tables: make([]*table, len(sys.in))}
-	g.tables[0] = sys.bin.newTable(1, 0)
+	g.tables[0] = sys.bin.newTable(1, 0, wordsFor(0))
 	g.tables[0].at(0)[0] = 1
 	return g
 }
@@ -75,7 +75,7 @@ func (sys *system) onesStart(n int) *iterate {
 	g := &iterate{n: n, tables: make([]*table, len(sys.in))}
 	for p, ok := range sys.in {
 		if ok {
-			t := sys.bin.newTable(len(sys.sp.states[p])+1, n-len(sys.sp.states[p]))
+			t := sys.bin.newTable(len(sys.sp.states[p])+1, n-len(sys.sp.states[p]), wordsFor(n))
 			for r := range t.size() {
 				t.at(r)[0] = 1
 			}
@@ -86,16 +86,12 @@ func (sys *system) onesStart(n int) *iterate {
 }
 
 // restrict returns the part of g (an iterate of the whole system) on the
-// states of sys, in sys's coefficient width (at least g's).
+// states of sys; the tables are shared, and iterates are never modified.
 func (sys *system) restrict(g *iterate) *iterate {
 	out := &iterate{n: g.n, tables: make([]*table, len(sys.in))}
 	for p, ok := range sys.in {
-		if t := g.tables[p]; ok && t != nil {
-			wide := sys.bin.newTable(t.parts, t.degree)
-			for r := range t.size() {
-				copy(wide.at(r), t.at(r))
-			}
-			out.tables[p] = wide
+		if ok {
+			out.tables[p] = g.tables[p]
 		}
 	}
 	return out
@@ -123,7 +119,9 @@ func (sys *system) pull(sc *scratch, g *iterate, q int) *table {
 	if !sys.in[q] || L > g.n+1 {
 		return nil
 	}
-	dst := sys.bin.newTable(L+1, g.n+1-L)
+	words := wordsFor(g.n + 1)
+	dst := sys.bin.newTable(L+1, g.n+1-L, words)
+	var diff []uint64 // moves into a one-value state that drop old values
 	for _, mv := range sys.inbound[q] {
 		src := g.tables[mv.from]
 		if src == nil {
@@ -133,34 +131,50 @@ func (sys *system) pull(sc *scratch, g *iterate, q int) *table {
 			sys.bin.spreadAdd(dst, src, mv.gap)
 			continue
 		}
+		if L == 1 { // every old value is dropped: a range of dst per entry
+			if diff == nil {
+				diff = sc.words((dst.size() + 1) * words)
+			}
+			pushToOne(diff, words, src, mv.gap)
+			continue
+		}
 		// the first dropped value, of rank r among the L+1 values after
 		// the insertion (the new value has rank gap+1 and is never dropped)
 		var t *table
 		switch r, i := mv.drops[0], mv.gap; {
 		case r == i:
-			t = sys.bin.insertMerge(sc, src, i, -1)
+			t = sys.bin.insertMerge(sc, src, i, -1, words)
 		case r == i+2:
-			t = sys.bin.insertMerge(sc, src, i, +1)
+			t = sys.bin.insertMerge(sc, src, i, +1, words)
 		case r < i: // merge a_(r-1) and a_r first; gap i is then gap i-1
-			merged := sys.bin.merge(sc, src, r-1)
-			t = sc.table(sys.bin, merged.parts+1, merged.degree)
+			merged := sys.bin.merge(sc, src, r-1, words)
+			t = sc.table(sys.bin, merged.parts+1, merged.degree, words)
 			sys.bin.spreadAdd(t, merged, i-1)
 			sc.release(merged)
 		default: // r > i+2: a_(r-2) and a_(r-1)
-			merged := sys.bin.merge(sc, src, r-2)
-			t = sc.table(sys.bin, merged.parts+1, merged.degree)
+			merged := sys.bin.merge(sc, src, r-2, words)
+			t = sc.table(sys.bin, merged.parts+1, merged.degree, words)
 			sys.bin.spreadAdd(t, merged, i)
 			sc.release(merged)
 		}
 		for _, r := range mv.drops[1:] {
-			merged := sys.bin.merge(sc, t, r-1)
+			merged := sys.bin.merge(sc, t, r-1, words)
 			sc.release(t)
 			t = merged
 		}
-		// one pass over the flat words: no coefficient overflows its
-		// width (wordsFor), so no carry crosses into the next one
+		// one pass over the flat words (t and dst have one width): no
+		// coefficient overflows it (wordsFor), so no carry crosses into
+		// the next one
 		addWords(dst.w, t.w)
 		sc.release(t)
+	}
+	if diff != nil {
+		run := make([]uint64, words)
+		for x := range dst.size() {
+			addWords(run, diff[x*words:(x+1)*words]) // modulo 2^(64 words)
+			addWords(dst.at(x), run)
+		}
+		sc.releaseWords(diff)
 	}
 	return dst
 }

@@ -19,7 +19,7 @@ func perTermStep(sys *system, g *iterate) *iterate {
 	out := &iterate{n: g.n + 1, tables: make([]*table, len(sp.states))}
 	for q, st := range sp.states {
 		if sys.in[q] && len(st) <= g.n+1 {
-			out.tables[q] = sys.bin.newTable(len(st)+1, g.n+1-len(st))
+			out.tables[q] = sys.bin.newTable(len(st)+1, g.n+1-len(st), wordsFor(g.n+1))
 		}
 	}
 	for p, st := range sp.states {
@@ -84,7 +84,7 @@ func equalIterates(g, h *iterate) bool {
 		if x == nil {
 			continue
 		}
-		if x.parts != y.parts || x.degree != y.degree || !slices.Equal(x.w, y.w) {
+		if x.parts != y.parts || x.degree != y.degree || x.words != y.words || !slices.Equal(x.w, y.w) {
 			return false
 		}
 	}
@@ -199,7 +199,7 @@ func TestSmallStateSpaces(t *testing.T) {
 }
 
 func TestCompositionOrderAndRank(t *testing.T) {
-	bin := newBinomials(20, 1)
+	bin := newBinomials(20)
 	for K := 1; K <= 6; K++ {
 		for D := 0; D <= 7; D++ {
 			a := make([]int, K)
@@ -310,7 +310,7 @@ func TestElevationWidth(t *testing.T) {
 			got := tb
 			a := make([]int, tb.parts)
 			for D := tb.degree; D < tb.degree+MaxStep; D++ {
-				got = sys.bin.elevate(got)
+				got = sys.bin.elevate(got, wordsFor(N+MaxStep))
 				next := make([]*big.Int, sys.bin.count(tb.parts, D+1))
 				firstComposition(a, D+1)
 				for r := range next {

@@ -208,7 +208,7 @@ func (sys *system) elevated(ctx context.Context, g *iterate, d int) (*iterate, e
 	err := eachState(ctx, runtime.GOMAXPROCS(0), len(g.tables), func(_, p int) error {
 		if t := g.tables[p]; t != nil {
 			for range d {
-				t = sys.bin.elevate(t)
+				t = sys.bin.elevate(t, wordsFor(g.n+d))
 			}
 			out.tables[p] = t
 		}

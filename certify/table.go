@@ -11,9 +11,9 @@ import (
 // K = |p| + 1 and D = n - |p|. This is the order of the digest stream.
 //
 // Each coefficient is a fixed number of 64-bit words, least significant
-// first, all tables of a system sharing one width, large enough for every
-// number the system reaches (see wordsFor): adding two coefficients is a
-// loop over words with a carry, and no step allocates per coefficient.
+// first: every table of an iterate G_n has the width wordsFor(n), large
+// enough for every number at that n, so adding two coefficients is a loop
+// over words with a carry, and no step allocates per coefficient.
 type table struct {
 	parts, degree int
 	words         int
@@ -26,7 +26,7 @@ func (t *table) at(r int) []uint64 { return t.w[r*t.words : (r+1)*t.words] }
 // size returns the number of coefficients.
 func (t *table) size() int { return len(t.w) / t.words }
 
-// wordsFor returns the width that holds every number of an iteration up to
+// wordsFor returns the width that holds every number of an iteration at
 // n = top. Every coefficient of G_n of the whole system counts some of the
 // avoiding permutations of length n, so it is at most n!; from start ones
 // each of at most C(12, 6) = 924 coefficients of G_(n_s) = 1 has at most
@@ -41,22 +41,43 @@ func wordsFor(top int) int {
 	return f.BitLen()/64 + 3
 }
 
+// addWords adds src to dst (len(src) <= len(dst)), carrying into dst's
+// upper words.
 func addWords(dst, src []uint64) {
 	var c uint64
-	for i := range dst {
-		dst[i], c = bits.Add64(dst[i], src[i], c)
+	for i, x := range src {
+		dst[i], c = bits.Add64(dst[i], x, c)
+	}
+	for i := len(src); c != 0 && i < len(dst); i++ {
+		dst[i], c = bits.Add64(dst[i], 0, c)
 	}
 }
 
-// mulAddWords adds m times src to dst.
+// subWords subtracts src from dst (len(src) <= len(dst)) modulo
+// 2^(64 len(dst)): a difference table's entries may wrap below zero, and
+// its running sums come back to the true non-negative values.
+func subWords(dst, src []uint64) {
+	var b uint64
+	for i, x := range src {
+		dst[i], b = bits.Sub64(dst[i], x, b)
+	}
+	for i := len(src); b != 0 && i < len(dst); i++ {
+		dst[i], b = bits.Sub64(dst[i], 0, b)
+	}
+}
+
+// mulAddWords adds m times src to dst (len(src) <= len(dst)).
 func mulAddWords(dst, src []uint64, m uint64) {
 	var carry uint64
-	for i := range dst {
-		hi, lo := bits.Mul64(src[i], m)
+	for i, x := range src {
+		hi, lo := bits.Mul64(x, m)
 		lo, c := bits.Add64(lo, carry, 0)
 		hi += c
 		dst[i], c = bits.Add64(dst[i], lo, 0)
 		carry = hi + c
+	}
+	for i := len(src); carry != 0 && i < len(dst); i++ {
+		dst[i], carry = bits.Add64(dst[i], carry, 0)
 	}
 }
 
@@ -92,13 +113,10 @@ func toBig(x []uint64) *big.Int {
 
 // binomials is a table of binomial coefficients C(n, k) for n < len(c),
 // k <= maxK, enough to count and rank every composition the checker
-// indexes; words is the coefficient width of the tables it makes.
-type binomials struct {
-	c     [][]int64
-	words int
-}
+// indexes.
+type binomials struct{ c [][]int64 }
 
-func newBinomials(maxN, words int) binomials {
+func newBinomials(maxN int) binomials {
 	const maxK = MaxPatternLength + 1
 	c := make([][]int64, maxN+1)
 	for n := range c {
@@ -108,7 +126,7 @@ func newBinomials(maxN, words int) binomials {
 			c[n][k] = c[n-1][k-1] + c[n-1][k]
 		}
 	}
-	return binomials{c: c, words: words}
+	return binomials{c: c}
 }
 
 // count returns the number of compositions of D into K parts,
@@ -133,8 +151,8 @@ func (b binomials) rank(a []int) int {
 	return int(r)
 }
 
-func (b binomials) newTable(K, D int) *table {
-	return &table{parts: K, degree: D, words: b.words, w: make([]uint64, b.count(K, D)*b.words)}
+func (b binomials) newTable(K, D, words int) *table {
+	return &table{parts: K, degree: D, words: words, w: make([]uint64, b.count(K, D)*words)}
 }
 
 // scratch recycles the temporary tables of one goroutine's steps, so
@@ -145,10 +163,15 @@ type scratch struct {
 	links []int
 }
 
-// table returns a zeroed table of K parts and degree D in the smallest
-// recycled buffer that holds it, or a new one.
-func (sc *scratch) table(b binomials, K, D int) *table {
-	n := b.count(K, D) * b.words
+// table returns a zeroed table of K parts, degree D and the given width
+// in the smallest recycled buffer that holds it, or a new one.
+func (sc *scratch) table(b binomials, K, D, words int) *table {
+	return &table{parts: K, degree: D, words: words, w: sc.words(b.count(K, D) * words)}
+}
+
+// words returns n zeroed words from the smallest recycled buffer that
+// holds them, or new ones.
+func (sc *scratch) words(n int) []uint64 {
 	best := -1
 	for i, buf := range sc.free {
 		if cap(buf) >= n && (best < 0 || cap(buf) < cap(sc.free[best])) {
@@ -156,23 +179,26 @@ func (sc *scratch) table(b binomials, K, D int) *table {
 		}
 	}
 	if best < 0 {
-		return b.newTable(K, D)
+		return make([]uint64, n)
 	}
 	buf := sc.free[best][:n]
 	sc.free[best] = sc.free[len(sc.free)-1]
 	sc.free = sc.free[:len(sc.free)-1]
 	clear(buf)
-	return &table{parts: K, degree: D, words: b.words, w: buf}
+	return buf
 }
 
 // keptBuffers is how many released buffers a scratch keeps: a move holds
 // at most three temporary tables at once.
 const keptBuffers = 3
 
-// release returns a temporary table's memory for reuse, keeping the
-// largest keptBuffers buffers (the tables grow with n).
-func (sc *scratch) release(t *table) {
-	sc.free = append(sc.free, t.w)
+// release returns a temporary table's memory for reuse.
+func (sc *scratch) release(t *table) { sc.releaseWords(t.w) }
+
+// releaseWords returns words for reuse, keeping the largest keptBuffers
+// buffers (the tables grow with n).
+func (sc *scratch) releaseWords(buf []uint64) {
+	sc.free = append(sc.free, buf)
 	if len(sc.free) > keptBuffers {
 		least := 0
 		for i, buf := range sc.free {
@@ -210,9 +236,10 @@ func nextComposition(a []int) bool {
 	return false
 }
 
-// spreadAdd adds into dst (K+1 parts, degree D) the new value put into gap
-// i of src (K parts, degree D): dst[c] += src[a], a being c with c_i and
-// c_(i+1) joined into one gap. Each c has exactly one such a.
+// spreadAdd adds into dst (K+1 parts, degree D, at least src's width) the
+// new value put into gap i of src (K parts, degree D): dst[c] += src[a], a
+// being c with c_i and c_(i+1) joined into one gap. Each c has exactly one
+// such a.
 func (b binomials) spreadAdd(dst, src *table, i int) {
 	c := make([]int, dst.parts)
 	a := make([]int, src.parts)
@@ -229,10 +256,11 @@ func (b binomials) spreadAdd(dst, src *table, i int) {
 }
 
 // merge drops the value between gaps j and j+1 of src (K parts, degree
-// D): the result (K-1 parts, degree D+1) has the one gap a_j + a_(j+1) + 1
-// in their place and sums every src entry that lands there.
-func (b binomials) merge(sc *scratch, src *table, j int) *table {
-	out := sc.table(b, src.parts-1, src.degree+1)
+// D): the result (K-1 parts, degree D+1, the given width, at least src's)
+// has the one gap a_j + a_(j+1) + 1 in their place and sums every src
+// entry that lands there.
+func (b binomials) merge(sc *scratch, src *table, j, words int) *table {
+	out := sc.table(b, src.parts-1, src.degree+1, words)
 	a := make([]int, src.parts)
 	e := make([]int, out.parts)
 	firstComposition(a, src.degree)
@@ -252,7 +280,8 @@ func (b binomials) merge(sc *scratch, src *table, j int) *table {
 // insertMerge puts the new value into gap i of src (K parts, degree D) and
 // at once drops the value next to that gap, below it (side -1, the value
 // of rank i) or above it (side +1, rank i+1 before the insertion). The
-// result has K parts and degree D+1. Below: the gaps are
+// result has K parts, degree D+1 and the given width (at least src's).
+// Below: the gaps are
 // (.., a_(i-1) + b + 1, a_i - b, ..) over the splits b, so
 //
 //	out[.., u, v, ..] = sum_{b=0}^{u-1} src[.., u-1-b, v+b, ..]
@@ -264,8 +293,8 @@ func (b binomials) merge(sc *scratch, src *table, j int) *table {
 //	out[.., u, v, ..] = src[.., u, v-1, ..] + out[.., u+1, v-1, ..].
 //
 // Every entry costs O(1) additions.
-func (b binomials) insertMerge(sc *scratch, src *table, i, side int) *table {
-	out := sc.table(b, src.parts, src.degree+1)
+func (b binomials) insertMerge(sc *scratch, src *table, i, side, words int) *table {
+	out := sc.table(b, src.parts, src.degree+1, words)
 	lo := i - 1 // the two parts (u, v) of out that the sum runs along
 	if side > 0 {
 		lo = i
@@ -312,10 +341,38 @@ func (b binomials) insertMerge(sc *scratch, src *table, i, side int) *table {
 	return out
 }
 
+// pushToOne adds into diff what a move that drops every old value makes
+// of src (K parts, degree D): the new value, in gap i, is then the only
+// one kept, and its gaps are (below + b, rest - b) with below = a_0 + .. +
+// a_(i-1) + i (the other values and the old values under gap i) and b =
+// 0..a_i. Those are the consecutive entries below .. below + a_i of the
+// one-value state's table (its compositions (x, D+K-1-x) in order of x),
+// so the move adds src[a] at diff[below] and subtracts it at
+// diff[below + a_i + 1]; running sums of diff give the table.
+func pushToOne(diff []uint64, words int, src *table, i int) {
+	a := make([]int, src.parts)
+	firstComposition(a, src.degree)
+	for r := 0; ; r++ {
+		if x := src.at(r); !isZeroWords(x) {
+			below := i
+			for _, v := range a[:i] {
+				below += v
+			}
+			addWords(diff[below*words:(below+1)*words], x)
+			end := below + a[i] + 1
+			subWords(diff[end*words:(end+1)*words], x)
+		}
+		if !nextComposition(a) {
+			return
+		}
+	}
+}
+
 // elevate returns the integer degree elevation of t: out[a] = sum over
-// parts j with a_j > 0 of a_j t[a - e_j] (K parts, degree D+1).
-func (b binomials) elevate(t *table) *table {
-	out := b.newTable(t.parts, t.degree+1)
+// parts j with a_j > 0 of a_j t[a - e_j] (K parts, degree D+1, the given
+// width, at least t's).
+func (b binomials) elevate(t *table, words int) *table {
+	out := b.newTable(t.parts, t.degree+1, words)
 	a := make([]int, t.parts)
 	firstComposition(a, out.degree)
 	for r := 0; ; r++ {
