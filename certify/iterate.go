@@ -138,35 +138,7 @@ func (sys *system) pull(sc *scratch, g *iterate, q int) *table {
 			pushToOne(diff, words, src, mv.gap)
 			continue
 		}
-		// the first dropped value, of rank r among the L+1 values after
-		// the insertion (the new value has rank gap+1 and is never dropped)
-		var t *table
-		switch r, i := mv.drops[0], mv.gap; {
-		case r == i:
-			t = sys.bin.insertMerge(sc, src, i, -1, words)
-		case r == i+2:
-			t = sys.bin.insertMerge(sc, src, i, +1, words)
-		case r < i: // merge a_(r-1) and a_r first; gap i is then gap i-1
-			merged := sys.bin.merge(sc, src, r-1, words)
-			t = sc.table(sys.bin, merged.parts+1, merged.degree, words)
-			sys.bin.spreadAdd(t, merged, i-1)
-			sc.release(merged)
-		default: // r > i+2: a_(r-2) and a_(r-1)
-			merged := sys.bin.merge(sc, src, r-2, words)
-			t = sc.table(sys.bin, merged.parts+1, merged.degree, words)
-			sys.bin.spreadAdd(t, merged, i)
-			sc.release(merged)
-		}
-		for _, r := range mv.drops[1:] {
-			merged := sys.bin.merge(sc, t, r-1, words)
-			sc.release(t)
-			t = merged
-		}
-		// one pass over the flat words (t and dst have one width): no
-		// coefficient overflows it (wordsFor), so no carry crosses into
-		// the next one
-		addWords(dst.w, t.w)
-		sc.release(t)
+		sys.dropMove(sc, dst, src, mv.gap, mv.drops)
 	}
 	if diff != nil {
 		run := make([]uint64, words)
@@ -177,6 +149,89 @@ func (sys *system) pull(sc *scratch, g *iterate, q int) *table {
 		sc.releaseWords(diff)
 	}
 	return dst
+}
+
+// dropMove adds into dst what a move that drops old values makes of src
+// (the table of its source state, L values): the new value goes into gap
+// i and the drops merge runs of gaps. Dropping is associative, so the
+// runs of src's gaps that end up in one gap of dst away from the new value
+// are merged first, in src (each merge a pass that shrinks the table), and
+// so are the runs that join the gap just below the new value (X) or just
+// above it (Y). Then the new value goes in: a spread, or a running sum
+// along the line where X or Y meets its piece of gap i (insertMergeAdd),
+// and where both do, one running sum into a temporary table and one merge.
+func (sys *system) dropMove(sc *scratch, dst, src *table, i int, drops []int) {
+	L := src.parts - 1
+	// the final gaps as runs of the gaps c_0..c_(L+1) after the insertion
+	// (c_i and c_(i+1) are the two pieces of gap i)
+	runs := make([][2]int, L+2)
+	for t := range runs {
+		runs[t] = [2]int{t, t}
+	}
+	for _, r := range drops { // dropping the value of rank r joins runs r-1 and r
+		runs[r-1][1] = runs[r][1]
+		runs = append(runs[:r], runs[r+1:]...)
+	}
+	toA := func(t int) int { // the gap of src a c-gap other than c_i, c_(i+1) is
+		if t > i {
+			return t - 1
+		}
+		return t
+	}
+	var groups [][2]int // runs of src's gaps to merge, increasing
+	below, above := false, false
+	for _, run := range runs {
+		lo, hi := run[0], run[1]
+		switch {
+		case lo <= i && i <= hi: // ends with c_i: a_lo..a_(i-1) become X
+			below = lo < i
+			hi = i - 1
+		case lo <= i+1 && i+1 <= hi: // starts with c_(i+1): a_(i+1)..a_(hi-1) become Y
+			above = hi > i+1
+			lo, hi = i+1, hi-1
+		default:
+			lo, hi = toA(lo), toA(hi)
+		}
+		if hi > lo {
+			groups = append(groups, [2]int{lo, hi})
+		}
+	}
+	words := dst.words
+	t, gap := src, i
+	for g := len(groups) - 1; g >= 0; g-- { // from the right, so lower indices stay
+		lo, hi := groups[g][0], groups[g][1]
+		for range hi - lo {
+			merged := sys.bin.merge(sc, t, lo, words)
+			if t != src {
+				sc.release(t)
+			}
+			t = merged
+		}
+		if hi < i {
+			gap -= hi - lo
+		}
+	}
+	switch {
+	case below && above:
+		tmp := sc.table(sys.bin, t.parts, t.degree+1, words)
+		sys.bin.insertMergeAdd(tmp, t, gap, -1) // (.., X+b+1, a_i-b, Y, ..)
+		joined := sys.bin.merge(sc, tmp, gap, words)
+		sc.release(tmp)
+		// one pass over the flat words (joined and dst have one width): no
+		// coefficient overflows it (wordsFor), so no carry crosses into
+		// the next one
+		addWords(dst.w, joined.w)
+		sc.release(joined)
+	case below:
+		sys.bin.insertMergeAdd(dst, t, gap, -1)
+	case above:
+		sys.bin.insertMergeAdd(dst, t, gap, +1)
+	default:
+		sys.bin.spreadAdd(dst, t, gap)
+	}
+	if t != src {
+		sc.release(t)
+	}
 }
 
 // sum returns the sum of every coefficient of g.

@@ -80,20 +80,24 @@ func (ck *checker) limits() error {
 			work += stepWork(sys, n)
 			peak = max(peak, coefficients(sys, n)+coefficients(sys, n+1))
 		}
-		widest := 0.0 // the largest table: a goroutine's scratch holds about three, and a running sum's links
-		for p, ok := range sys.in {
-			if L := len(ck.sp.states[p]); ok && L <= gr.top {
-				widest = max(widest, float64(sys.bin.count(L+1, gr.top-L)))
+		widest := 0.0 // the largest temporary table (system.dropMove: a first merge of the source); a goroutine holds about two
+		for q, moves := range sys.inbound {
+			for _, mv := range moves {
+				Lp := len(ck.sp.states[mv.from])
+				adjacent := len(mv.drops) == 1 && (mv.drops[0] == mv.gap || mv.drops[0] == mv.gap+2)
+				if Lp <= gr.top && len(mv.drops) > 0 && !adjacent && len(ck.sp.states[q]) > 1 {
+					widest = max(widest, float64(sys.bin.count(Lp, gr.top+1-Lp)))
+				}
 			}
 		}
-		pending := 0.0
+		pending := 0.0 // the elevations waiting for their G_(N+d)
 		for _, i := range gr.brackets {
 			b := ck.c.Evidence.Brackets[i]
 			work += ck.bracketWork(sys, b)
 			pending += coefficients(sys, b.N+b.Step)
 		}
 		bytes := 8 * float64(wordsFor(gr.top)) // one coefficient
-		live := (peak+pending)*bytes + widest*(3*bytes+8)*float64(runtime.GOMAXPROCS(0))
+		live := (peak + pending + 2*widest*float64(runtime.GOMAXPROCS(0))) * bytes
 		// the garbage collector lets the heap grow to twice the live data
 		// (GOGC = 100) before it collects the iterates of past steps
 		memory = max(memory, 2*live)

@@ -159,8 +159,7 @@ func (b binomials) newTable(K, D, words int) *table {
 // that a step does not allocate (and the garbage collector does not
 // clear) fresh memory for every move.
 type scratch struct {
-	free  [][]uint64
-	links []int
+	free [][]uint64
 }
 
 // table returns a zeroed table of K parts, degree D and the given width
@@ -179,7 +178,9 @@ func (sc *scratch) words(n int) []uint64 {
 		}
 	}
 	if best < 0 {
-		return make([]uint64, n)
+		// room to grow: the tables of a state grow by a few percent per
+		// step, so the buffer serves the next steps too
+		return make([]uint64, n, n+n/8)
 	}
 	buf := sc.free[best][:n]
 	sc.free[best] = sc.free[len(sc.free)-1]
@@ -189,8 +190,8 @@ func (sc *scratch) words(n int) []uint64 {
 }
 
 // keptBuffers is how many released buffers a scratch keeps: a move holds
-// at most three temporary tables at once.
-const keptBuffers = 3
+// at most two large temporary tables at once (the others are far smaller).
+const keptBuffers = 2
 
 // release returns a temporary table's memory for reuse.
 func (sc *scratch) release(t *table) { sc.releaseWords(t.w) }
@@ -277,68 +278,59 @@ func (b binomials) merge(sc *scratch, src *table, j, words int) *table {
 	}
 }
 
-// insertMerge puts the new value into gap i of src (K parts, degree D) and
-// at once drops the value next to that gap, below it (side -1, the value
-// of rank i) or above it (side +1, rank i+1 before the insertion). The
-// result has K parts, degree D+1 and the given width (at least src's).
-// Below: the gaps are
-// (.., a_(i-1) + b + 1, a_i - b, ..) over the splits b, so
+// insertMergeAdd adds into dst (K parts, degree D+1, at least src's
+// width) what putting the new value into gap i of src (K parts, degree D)
+// makes when the value next to that gap is dropped at once: the one below
+// it (side -1, the value of rank i) or the one above it (side +1, rank i+1
+// before the insertion). Below, the gaps are (.., a_(i-1) + b + 1, a_i - b,
+// ..) over the splits b, so
 //
 //	out[.., u, v, ..] = sum_{b=0}^{u-1} src[.., u-1-b, v+b, ..]
 //	                  = src[.., u-1, v, ..] + out[.., u-1, v+1, ..],
 //
-// a running sum along the line u + v = const. Above: the gaps are
-// (.., b, a_i - b + a_(i+1) + 1, ..), and
+// a running sum along the line u + v = T with the other parts fixed, in
+// increasing u. Above, the gaps are (.., b, a_i - b + a_(i+1) + 1, ..), and
 //
-//	out[.., u, v, ..] = src[.., u, v-1, ..] + out[.., u+1, v-1, ..].
+//	out[.., u, v, ..] = src[.., u, v-1, ..] + out[.., u+1, v-1, ..],
 //
-// Every entry costs O(1) additions.
-func (b binomials) insertMerge(sc *scratch, src *table, i, side, words int) *table {
-	out := sc.table(b, src.parts, src.degree+1, words)
-	lo := i - 1 // the two parts (u, v) of out that the sum runs along
+// the same line in decreasing u. So the lines are walked one by one with
+// one running value, added into dst as it goes: every entry costs O(1)
+// additions and no temporary table.
+func (b binomials) insertMergeAdd(dst, src *table, i, side int) {
+	lo := i - 1 // the two parts (u, v) of dst that the sum runs along
 	if side > 0 {
 		lo = i
 	}
-	if cap(sc.links) < out.size() {
-		sc.links = make([]int, out.size())
-	}
-	partner := sc.links[:out.size()] // the entry the running sum continues, or -1
-	e := make([]int, out.parts)
-	firstComposition(e, out.degree)
-	for r := 0; ; r++ {
-		u, v := e[lo], e[lo+1]
-		partner[r] = -1
-		if side < 0 && u > 0 {
-			e[lo] = u - 1
-			copy(out.at(r), src.at(b.rank(e)))
-			e[lo+1] = v + 1
-			partner[r] = b.rank(e)
-		}
-		if side > 0 && v > 0 {
-			e[lo+1] = v - 1
-			copy(out.at(r), src.at(b.rank(e)))
-			e[lo] = u + 1
-			partner[r] = b.rank(e)
-		}
-		e[lo], e[lo+1] = u, v
-		if !nextComposition(e) {
-			break
-		}
-	}
-	if side < 0 { // partners come earlier in lexicographic order
-		for r, p := range partner {
-			if p >= 0 {
-				addWords(out.at(r), out.at(p))
+	line := make([]int, dst.parts-1) // dst's parts with u and v joined into T
+	e := make([]int, dst.parts)
+	run := make([]uint64, dst.words)
+	firstComposition(line, dst.degree)
+	for {
+		T := line[lo]
+		copy(e[:lo], line[:lo])
+		copy(e[lo+2:], line[lo+1:])
+		clear(run)
+		for k := 0; k <= T; k++ {
+			u := k // side -1: u = 0, 1, .., T
+			if side > 0 {
+				u = T - k // side +1: u = T, .., 0
 			}
-		}
-	} else { // partners come later
-		for r := len(partner) - 1; r >= 0; r-- {
-			if p := partner[r]; p >= 0 {
-				addWords(out.at(r), out.at(p))
+			v := T - u
+			if side < 0 && u > 0 {
+				e[lo], e[lo+1] = u-1, v
+				addWords(run, src.at(b.rank(e)))
 			}
+			if side > 0 && v > 0 {
+				e[lo], e[lo+1] = u, v-1
+				addWords(run, src.at(b.rank(e)))
+			}
+			e[lo], e[lo+1] = u, v
+			addWords(dst.at(b.rank(e)), run)
+		}
+		if !nextComposition(line) {
+			return
 		}
 	}
-	return out
 }
 
 // pushToOne adds into diff what a move that drops every old value makes
