@@ -36,6 +36,11 @@ type CheckOptions struct {
 	MaxWork int64
 	// MaxMemory caps the estimated memory in bytes (0: DefaultMaxMemory).
 	MaxMemory int64
+	// Progress, when set, is called from Check's goroutine after each
+	// recomputed iterate with the estimated coefficient operations of the
+	// recomputation done so far and in total (the units of MaxWork). It
+	// must not block for long.
+	Progress func(done, total int64)
 }
 
 // Check verifies a certificate: nil means every claim of its statement is
@@ -353,13 +358,7 @@ func (ck *checker) groups() []group {
 // above the options' limits.
 func (ck *checker) limits() error {
 	m := float64(ck.m)
-	count := func(D int) float64 { // C(D+m, m)
-		c := 1.0
-		for i := 1; i <= ck.m; i++ {
-			c = c * float64(D+i) / float64(i)
-		}
-		return c
-	}
+	count := ck.coefficients
 	work, memory := 0.0, 0.0
 	for _, g := range ck.groups() {
 		size := float64(len(g.cells))
@@ -367,7 +366,7 @@ func (ck *checker) limits() error {
 			size = float64(ck.cells)
 		}
 		for D := 1; D <= g.degree; D++ {
-			work += size * count(D) * float64(D)
+			work += ck.stepWork(g, D)
 		}
 		// bytes of one coefficient at the top degree: a big.Int header and
 		// words for about log2((m+degree)!) bits
@@ -402,17 +401,48 @@ func (ck *checker) limits() error {
 	return nil
 }
 
+// coefficients returns C(D+m, m), the number of Bernstein coefficients of
+// degree D on one cell.
+func (ck *checker) coefficients(D int) float64 {
+	c := 1.0
+	for i := 1; i <= ck.m; i++ {
+		c = c * float64(D+i) / float64(i)
+	}
+	return c
+}
+
+// stepWork estimates the coefficient operations of computing the iterate
+// of degree D of group g.
+func (ck *checker) stepWork(g group, D int) float64 {
+	size := float64(len(g.cells))
+	if g.cells == nil {
+		size = float64(ck.cells)
+	}
+	return size * ck.coefficients(D) * float64(D)
+}
+
 // recompute runs every system's iteration and checks each bracket against
 // it.
 func (ck *checker) recompute() error {
 	brackets := ck.c.Evidence.Brackets
-	for _, gr := range ck.groups() {
+	groups := ck.groups()
+	var done, total float64
+	for _, gr := range groups {
+		for D := 1; D <= gr.degree; D++ {
+			total += ck.stepWork(gr, D)
+		}
+	}
+	for _, gr := range groups {
 		sys := newSystem(ck.win, gr.cells, gr.degree)
 		pending := map[int]*iterate{} // bracket -> elevated G_k, waiting for G_{k+d}
 		g := sys.first()
 		for D := 0; D <= gr.degree; D++ {
 			if D > 0 {
 				g = sys.next(g)
+				done += ck.stepWork(gr, D)
+				if ck.opts.Progress != nil {
+					ck.opts.Progress(int64(done), int64(total))
+				}
 			}
 			for _, i := range gr.brackets {
 				b := brackets[i]

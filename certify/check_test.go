@@ -378,3 +378,24 @@ func BenchmarkCheck(b *testing.B) {
 		}
 	}
 }
+
+// TestCheckProgress: the progress hook sees the work done grow to the
+// total, once per recomputed iterate.
+func TestCheckProgress(t *testing.T) {
+	const k = 12
+	c := wholeCert(t, "1342", k)
+	var calls int
+	var last, total int64
+	opts := certify.CheckOptions{Progress: func(done, all int64) {
+		if done < last || done > all || (total != 0 && all != total) {
+			t.Errorf("progress %d of %d after %d of %d", done, all, last, total)
+		}
+		calls, last, total = calls+1, done, all
+	}}
+	if err := certify.Check(c, opts); err != nil {
+		t.Fatal(err)
+	}
+	if calls != k+1 || last != total || total <= 0 {
+		t.Fatalf("%d calls ending at %d of %d; want %d calls ending at the total", calls, last, total, k+1)
+	}
+}

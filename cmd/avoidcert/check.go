@@ -1,13 +1,18 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
+	"strings"
 
 	"avoidcert/certify"
+	"avoidcert/internal/bytesize"
+	"avoidcert/interval"
 	"avoidcert/pattern"
 )
 
@@ -44,23 +49,37 @@ Exit codes: 0 valid, 1 invalid, 2 the file cannot be read, or bad usage.
 // certificates of the length-4 patterns (about 3e9 operations).
 const checkWork = 1e10
 
+// patternList is a repeatable flag: every use adds patterns to the set.
+type patternList []string
+
+func (p *patternList) String() string { return strings.Join(*p, ",") }
+
+func (p *patternList) Set(s string) error {
+	*p = append(*p, s)
+	return nil
+}
+
 func runCheck(ctx context.Context, e *env, args []string) int {
 	flags := newFlags("check")
-	expect := flags.String("expect", "", "")
+	var expect patternList
+	flags.Var(&expect, "expect", "")
 	maxWork := flags.Float64("max-work", checkWork, "")
 	maxMem := byteSize(8 << 30)
 	flags.Var(&maxMem, "max-memory", "")
+	asJSON := flags.Bool("json", false, "")
+	progress := flags.Bool("progress", false, "")
+	quiet := flags.Bool("quiet", false, "")
 	pos, err := parseArgs(flags, args)
 	if err != nil {
 		return failure(e, err)
 	}
 	// "check FILE --expect 123 321": patterns after the file belong to --expect.
-	if len(pos) == 0 || (len(pos) > 1 && *expect == "") {
+	if len(pos) == 0 || (len(pos) > 1 && len(expect) == 0) {
 		return failure(e, usagef("check: name exactly one certificate file, e.g. 'avoidcert check avoidcert-1342.json'"))
 	}
 	var opts certify.CheckOptions
-	if *expect != "" {
-		set, err := pattern.ParseSet(append([]string{*expect}, pos[1:]...))
+	if len(expect) > 0 {
+		set, err := pattern.ParseSet(append(expect, pos[1:]...))
 		if err != nil {
 			return failure(e, usagef("check: --expect: %v", err))
 		}
@@ -71,22 +90,200 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	}
 	opts.MaxWork = int64(*maxWork)
 	opts.MaxMemory = int64(maxMem)
-	f, err := os.Open(pos[0])
+	data, err := readInput(pos[0])
 	if err != nil {
-		if errors.Is(err, fs.ErrNotExist) {
-			return failure(e, usagef("check: %s does not exist", pos[0]))
+		return failure(e, err)
+	}
+	cert, err := certify.Read(bytes.NewReader(data))
+	if err != nil {
+		return checkVerdict(e, *asJSON, nil, err)
+	}
+	switch {
+	case *progress:
+		opts.Progress = func(done, total int64) {
+			fmt.Fprintf(e.stderr, "checked about %.3g of %.3g coefficient operations\n", float64(done), float64(total))
 		}
-		return failure(e, usagef("check: cannot read %s: %v", pos[0], err))
+	case e.progress && !*quiet:
+		bar := newLiveBar(e.stderr, 1, "operations")
+		defer bar.finish()
+		opts.Progress = func(done, total int64) { bar.set("checking ", done, total) }
+	}
+	// The checker takes no context: it runs on its own goroutine, and a
+	// Ctrl-C ends the process without waiting (check writes nothing).
+	verdict := make(chan error, 1)
+	go func() { verdict <- certify.Check(cert, opts) }()
+	select {
+	case <-ctx.Done():
+		return interrupted(e)
+	case err = <-verdict:
+	}
+	if errors.Is(err, certify.ErrLimit) {
+		flag, now := "--max-work", fmt.Sprintf("%.3g", float64(opts.MaxWork))
+		if strings.Contains(err.Error(), "memory") {
+			flag, now = "--max-memory", bytesize.Format(opts.MaxMemory)
+		}
+		return checkUndecided(e, *asJSON, cert, fmt.Sprintf("%v; raise %s (now %s) to check it", err, flag, now))
+	}
+	return checkVerdict(e, *asJSON, cert, err)
+}
+
+// readInput reads a certificate file ("-": standard input). A file that
+// cannot be read is an input error (exit 2), not an invalid certificate.
+func readInput(path string) ([]byte, error) {
+	if path == "-" {
+		data, err := io.ReadAll(io.LimitReader(os.Stdin, certify.MaxFileSize+1))
+		if err != nil {
+			return nil, usagef("check: cannot read standard input: %v", err)
+		}
+		return data, nil
+	}
+	info, err := os.Stat(path)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return nil, usagef("check: %s does not exist; name a certificate file", quote(path))
+	case err != nil:
+		return nil, usagef("check: cannot read %s: %v", quote(path), err)
+	case info.IsDir():
+		return nil, usagef("check: %s is a folder; name a certificate file", quote(path))
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, usagef("check: cannot read %s: %v", quote(path), err)
 	}
 	defer f.Close()
-	cert, err := certify.Read(f)
-	if err == nil {
-		err = certify.Check(cert, opts)
-	}
+	// Read refuses anything over MaxFileSize; one byte more shows it.
+	data, err := io.ReadAll(io.LimitReader(f, certify.MaxFileSize+1))
 	if err != nil {
-		fmt.Fprintf(e.stdout, "invalid: %v\n", err)
+		return nil, usagef("check: cannot read %s: %v", quote(path), err)
+	}
+	return data, nil
+}
+
+// checkUndecided reports a certificate over the limits: exit 3.
+func checkUndecided(e *env, asJSON bool, cert *certify.Certificate, reason string) int {
+	if asJSON {
+		writeJSON(e.stdout, checkJSON{Verdict: "undecided", Reason: reason, Patterns: cert.Statement.Patterns})
+	} else {
+		fmt.Fprintf(e.stdout, "undecided: %s\n", reason)
+	}
+	return exitUndecided
+}
+
+// checkJSON is the --json output of check: the verdict and, when valid,
+// what the certificate proves.
+type checkJSON struct {
+	Verdict  string    `json:"verdict"`
+	Reason   string    `json:"reason,omitempty"`
+	Patterns []string  `json:"patterns"`
+	Class    *string   `json:"class"`
+	Period   *int      `json:"period"`
+	Exponent *int      `json:"exponent"`
+	Lambda   *endsJSON `json:"lambda"`
+	Radius   *endsJSON `json:"radius"`
+	K        []int     `json:"k"`
+	AllN     *allNJSON `json:"all_n"`
+}
+
+// checkVerdict prints valid (with what was verified) or invalid.
+func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int {
+	if err != nil {
+		if asJSON {
+			out := checkJSON{Verdict: "invalid", Reason: err.Error()}
+			if cert != nil {
+				out.Patterns = cert.Statement.Patterns
+			}
+			writeJSON(e.stdout, out)
+		} else {
+			fmt.Fprintf(e.stdout, "invalid: %v\n", err)
+		}
 		return exitFailed
 	}
-	fmt.Fprintln(e.stdout, "valid")
+	st := cert.Statement
+	lambda := endsJSON{Lo: decimalOf(st.Lambda.LoDecimal), Hi: decimalOf(st.Lambda.HiDecimal)}
+	radius := endsJSON{Lo: decimalOf(st.Radius.LoDecimal), Hi: decimalOf(st.Radius.HiDecimal)}
+	var ks []int
+	for _, b := range cert.Evidence.Brackets {
+		ks = append(ks, b.K)
+	}
+	var all *allNJSON
+	if st.AllN.AN0 != nil && st.AllN.AN0.Sign() > 0 {
+		all = &allNJSON{N0: st.AllN.N0, Step: 1, AN0: st.AllN.AN0.String()}
+		if st.AllN.MuLo != nil && st.AllN.MuLo.Sign() > 0 {
+			s := interval.DecimalDown(st.AllN.MuLo, st.Lambda.Digits)
+			all.Lo = &s
+		}
+		if st.AllN.MuHi != nil {
+			s := interval.DecimalUp(st.AllN.MuHi, st.Lambda.Digits)
+			all.Hi = &s
+		}
+	}
+	out := checkJSON{Verdict: "valid", Patterns: st.Patterns, Lambda: &lambda, Radius: &radius, K: ks, AllN: all}
+	if cs := cert.Structure; cs != nil {
+		class := string(cs.Class)
+		out.Class = &class
+		if cs.Period > 0 {
+			out.Period = &cs.Period
+		}
+		if cs.Exponent > 0 {
+			out.Exponent = &cs.Exponent
+		}
+	}
+	if asJSON {
+		writeJSON(e.stdout, out)
+		return exitOK
+	}
+	w := e.stdout
+	fmt.Fprintln(w, "valid")
+	fmt.Fprintf(w, "verified: the set %s (window length %d)\n", strings.Join(st.Patterns, ","), cert.Evidence.CellLength+1)
+	fmt.Fprintf(w, "verified: lambda   in [%s, %s]\n", orInf(lambda.Lo), orInf(lambda.Hi))
+	fmt.Fprintf(w, "verified: 1/lambda in [%s, %s]\n", orInf(radius.Lo), orInf(radius.Hi))
+	if out.Class != nil {
+		line := "verified: class " + *out.Class
+		switch {
+		case out.Exponent != nil:
+			line += fmt.Sprintf(", exponent %d", *out.Exponent)
+		case out.Period != nil:
+			line += fmt.Sprintf(", period %d", *out.Period)
+		}
+		fmt.Fprintln(w, line)
+	} else {
+		fmt.Fprintln(w, "verified: no structure section (format version 1): the class is not certified")
+	}
+	for _, b := range cert.Evidence.Brackets {
+		fmt.Fprintf(w, "verified: bracket at k = %d (n = %d), step %d, on %d cells\n", b.K, b.K+cert.Evidence.CellLength, b.Step, len(b.Cells))
+	}
+	if all != nil {
+		var lower, upper string
+		if all.Lo != nil {
+			lower = fmt.Sprintf("A*%s^(n-%d) <= ", *all.Lo, all.N0)
+		}
+		if all.Hi != nil {
+			upper = fmt.Sprintf(" <= A*%s^(n-%d)", *all.Hi, all.N0)
+		}
+		fmt.Fprintf(w, "verified: for every n >= %d: %sa_n/n!%s, A = a_%d/%d!, a_%d = %s\n",
+			all.N0, lower, upper, all.N0, all.N0, all.N0, abbreviateDigits(all.AN0))
+	}
 	return exitOK
+}
+
+func decimalOf(s string) *string {
+	if s == "" {
+		return nil
+	}
+	return &s
+}
+
+func orInf(s *string) string {
+	if s == nil {
+		return "inf"
+	}
+	return *s
+}
+
+// abbreviateDigits shows a long integer by its first and last digits.
+func abbreviateDigits(s string) string {
+	if len(s) <= 40 {
+		return s
+	}
+	return fmt.Sprintf("%s...%s (%d digits)", s[:15], s[len(s)-15:], len(s))
 }

@@ -42,6 +42,7 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	value := fs.String("value", "", "")
 	truncated := fs.Bool("truncated", false, "")
 	within := fs.String("interval", "", "")
+	asJSON := fs.Bool("json", false, "")
 	var b budget
 	set, err := b.parse(fs, args)
 	if err != nil {
@@ -55,13 +56,18 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	ctx, cancel, p, err := b.start(ctx, set)
+	runCtx, cancel, p, err := b.start(ctx, set)
 	if err != nil {
 		return failure(e, err)
 	}
 	defer cancel()
 	opts := bounds.Options{Step: p.step, MaxK: b.maxK, MaxMemory: int64(b.maxMemory)}
-	verdict, res, err := bounds.JudgeBlocks(ctx, p.sys, p.blocks, claimed, quantity, opts, b.reporter(e))
+	progress, progressDone := b.watch(e, p, interval.CommonDigits(claimed.Lo, claimed.Hi)+1)
+	verdict, res, err := bounds.JudgeBlocks(runCtx, p.sys, p.blocks, claimed, quantity, opts, progress)
+	progressDone()
+	if ctx.Err() != nil {
+		return interrupted(e)
+	}
 	if err != nil {
 		return failure(e, err)
 	}
@@ -70,19 +76,33 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 		shown = res.Radius
 	}
 	digits := claimDigits(claimed)
-	fmt.Fprintf(e.stdout, "claim: %s(%s) in %s\n", quantity, set, claimed.String(digits))
-	fmt.Fprintf(e.stdout, "certified: %s in %s (k = %d)\n", quantity, shown.String(digits), res.Brackets[0].K)
+	words, code := "undecided: "+stopWords(res), exitUndecided
 	switch verdict {
 	case bounds.Proved:
-		fmt.Fprintln(e.stdout, "proved: the certified interval lies inside the claim")
-		return exitOK
+		words, code = "proved: the certified interval lies inside the claim", exitOK
 	case bounds.Refuted:
-		fmt.Fprintln(e.stdout, "refuted: the certified interval misses the claim")
-		return exitFailed
-	default:
-		fmt.Fprintf(e.stdout, "undecided: %s\n", stopWords(res))
-		return exitUndecided
+		words, code = "refuted: the certified interval misses the claim", exitFailed
 	}
+	if *asJSON {
+		writeJSON(e.stdout, struct {
+			Patterns  []string `json:"patterns"`
+			Class     string   `json:"class"`
+			Quantity  string   `json:"quantity"`
+			Claim     endsJSON `json:"claim"`
+			Certified endsJSON `json:"certified"`
+			K         int      `json:"k"`
+			Verdict   string   `json:"verdict"`
+			Reason    string   `json:"reason"`
+			Seconds   float64  `json:"seconds"`
+		}{set.Strings(), string(p.rep.Class), string(quantity),
+			ends(bounds.Enclosure{Lo: claimed.Lo, Hi: claimed.Hi}, digits), ends(shown, digits),
+			res.Brackets[0].K, strings.SplitN(words, ":", 2)[0], strings.TrimSpace(strings.SplitN(words, ":", 2)[1]), res.Elapsed.Seconds()})
+		return code
+	}
+	fmt.Fprintf(e.stdout, "claim: %s(%s) in %s\n", quantity, set, claimed.String(digits))
+	fmt.Fprintf(e.stdout, "certified: %s in %s (k = %d)\n", quantity, shown.String(digits), res.Brackets[0].K)
+	fmt.Fprintln(e.stdout, words)
+	return code
 }
 
 // claimInterval reads exactly one of --value and --interval.

@@ -140,5 +140,5 @@ func writeCountsJSON(e *env, s pattern.Set, rows []countRow) {
 	for _, r := range rows {
 		out.Counts = append(out.Counts, entry{N: r.n, Count: r.count.String(), Probability: r.prob.RatString()})
 	}
-	writeJSON(e, out)
+	writeJSON(e.stdout, out)
 }

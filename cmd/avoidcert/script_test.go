@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"context"
 	"os"
 	"testing"
 
@@ -14,7 +13,7 @@ import (
 func TestMain(m *testing.M) {
 	testscript.Main(m, map[string]func(){
 		"avoidcert": func() {
-			os.Exit(run(context.Background(), &env{stdout: os.Stdout, stderr: os.Stderr}, os.Args[1:]))
+			os.Exit(runProcess())
 		},
 	})
 }
