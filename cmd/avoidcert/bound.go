@@ -186,7 +186,7 @@ func runBound(ctx context.Context, e *env, args []string) int {
 	}
 	given := map[string]bool{}
 	fs.Visit(func(f *flag.Flag) { given[f.Name] = true })
-	opts := bounds.Options{Digits: *digits, MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Digests: !*noCert}
+	opts := bounds.Options{Digits: *digits, MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Digests: true}
 	switch {
 	case given["digits"] && given["width"]:
 		return failure(e, usagef("bound: give --digits or --width, not both"))
@@ -231,28 +231,27 @@ func runBound(ctx context.Context, e *env, args []string) int {
 		return failure(e, err)
 	}
 	// The budget is spent; certifying the best bracket is not cut short
-	// by --timeout, only by Ctrl-C.
-	if !dest.skip {
-		cert, err := produce.Certificate(ctx, "avoidcert "+version, p.rep, p.sys, res, printDigits(opts))
-		if err != nil {
-			return failure(e, err)
-		}
-		data, err := certify.Marshal(cert)
-		if err != nil {
-			return failure(e, err)
-		}
-		if ctx.Err() != nil {
-			return interrupted(e)
-		}
-		if err := dest.write(e.stdout, data); err != nil {
-			return failure(e, usagef("bound: cannot write the certificate to %s: %v; choose another --out", quote(path), err))
-		}
+	// by --timeout, only by Ctrl-C. The certificate is made even with
+	// --no-certificate: the explicit bound printed is its statement.
+	cert, err := produce.Certificate(ctx, "avoidcert "+version, p.rep, p.sys, res, printDigits(opts))
+	if err != nil {
+		return failure(e, err)
+	}
+	data, err := certify.Marshal(cert)
+	if err != nil {
+		return failure(e, err)
+	}
+	if ctx.Err() != nil {
+		return interrupted(e)
+	}
+	if err := dest.write(e.stdout, data); err != nil {
+		return failure(e, usagef("bound: cannot write the certificate to %s: %v; choose another --out", quote(path), err))
 	}
 	phases := phaseConstants(ctx, set, p, res)
 	if *asJSON {
-		writeBoundJSON(report, set, p, res, dest, phases, printDigits(opts))
+		writeBoundJSON(report, set, p, res, cert.Statement.AllN, dest, phases, printDigits(opts))
 	} else {
-		writeBoundText(report, set, p, res, dest, phases, printDigits(opts))
+		writeBoundText(report, set, p, res, cert.Statement.AllN, dest, phases, printDigits(opts))
 	}
 	if res.Stop == bounds.StopTarget || res.Stop == bounds.StopExact || p.rep.Class == structure.Subexponential {
 		return exitOK
@@ -305,7 +304,7 @@ func stopWords(res *bounds.Result) string {
 	}
 }
 
-func writeBoundText(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, dest *outFile, phases []float64, digits int) {
+func writeBoundText(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, allN certify.AllN, dest *outFile, phases []float64, digits int) {
 	fmt.Fprintf(w, "patterns: %s (window length %d)\n", set, set.Window())
 	fmt.Fprintf(w, "class: %s\n", classLine(p.rep))
 	if p.rep.Class == structure.Subexponential {
@@ -316,7 +315,7 @@ func writeBoundText(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, d
 	for _, br := range res.Brackets {
 		fmt.Fprintf(w, "bracket: k = %d, step %d, on %d of %d cells\n", br.K, br.Step, len(br.Cells), p.sys.Cells())
 	}
-	if line := allNLine(p, res, digits); line != "" {
+	if line := allNLine(allN, digits); line != "" {
 		fmt.Fprintln(w, line)
 	}
 	if est := res.Estimates; est.Rate > 0 && p.rep.Class != structure.Subexponential {
@@ -337,73 +336,44 @@ func writeBoundText(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, d
 	fmt.Fprintf(w, "certificate: %s\n", dest.describe())
 }
 
-// allNBound is an explicit bound valid for every n >= N0, with A = AN0/N0!:
-//
-//	A Lo^ceil((n-N0)/Step) <= a_n/n! <= A Hi^floor((n-N0)/Step).
-//
-// Step 1 is bounds.AllN. For a periodic set the bracket [Lo, Hi] of
-// lambda^d from T^d on the whole set gives it too: Lo g_k <= T^d g_k <=
-// Hi g_k pointwise (the proof of bounds.AllN with d steps), so
-// a_(N0+jd)/(N0+jd)! lies in [A Lo^j, A Hi^j]; and a_n/n! never increases
-// with n (an avoider of length n+1 cut to its first n entries is one of
-// length n, so a_(n+1) <= (n+1) a_n), which carries the bound to the n in
-// between.
-type allNBound struct {
-	N0, Step int
-	AN0      *big.Int
-	Lo, Hi   *big.Rat // Hi nil: no upper bound
-}
-
-// allN returns the explicit bound of the result, or nil when there is none
-// (reducible sets: the block brackets bound lambda, not a_n).
-func allN(p *plan, res *bounds.Result) *allNBound {
-	if x := res.Explicit; x != nil && x.AN0.Sign() > 0 {
-		return &allNBound{N0: x.N0, Step: 1, AN0: x.AN0, Lo: x.MuLo, Hi: x.MuHi}
-	}
-	if p.rep.Class != structure.Periodic || p.blocks != nil || len(res.Brackets) != 1 {
-		return nil
-	}
-	br := res.Brackets[0]
-	if br.Sum == nil || br.Sum.Sign() == 0 || len(br.Cells) != p.sys.Cells() {
-		return nil
-	}
-	return &allNBound{N0: br.N0(), Step: br.Step, AN0: br.Sum, Lo: br.Lo, Hi: br.Hi}
-}
-
-// allNLine prints the explicit bound. A is shown rounded to nearest, for
+// allNLine prints the certificate's explicit bound, valid for every
+// n >= n0 (the checker verifies it). A is shown rounded to nearest, for
 // reading; its exact value a_n0/n0! is in the certificate.
-func allNLine(p *plan, res *bounds.Result, digits int) string {
-	x := allN(p, res)
-	if x == nil {
-		if p.rep.Class == structure.Reducible {
-			return "for every n: no explicit bound on a_n/n! (the brackets are taken block by block and bound lambda only)"
-		}
+func allNLine(x certify.AllN, digits int) string {
+	if x.AN0 == nil || x.AN0.Sign() == 0 {
 		return ""
 	}
 	fact := new(big.Int).MulRange(1, int64(x.N0))
 	a := new(big.Float).SetPrec(64).SetRat(new(big.Rat).SetFrac(x.AN0, fact))
-	power := fmt.Sprintf("(n-%d)", x.N0)
-	lowPower, highPower := power, power
-	if x.Step > 1 {
-		lowPower = fmt.Sprintf("ceil((n-%d)/%d)", x.N0, x.Step)
-		highPower = fmt.Sprintf("floor((n-%d)/%d)", x.N0, x.Step)
-	}
 	var lower, upper string
-	if x.Lo != nil && x.Lo.Sign() > 0 {
-		lower = fmt.Sprintf("A*%s^%s <= ", interval.DecimalDown(x.Lo, digits), lowPower)
+	if x.MuLo != nil && x.MuLo.Sign() > 0 {
+		lower = fmt.Sprintf("A*%s^(n-%d) <= ", interval.DecimalDown(x.MuLo, digits), x.N0)
 	}
-	if x.Hi != nil && x.Hi.Sign() > 0 {
-		upper = fmt.Sprintf(" <= A*%s^%s", interval.DecimalUp(x.Hi, digits), highPower)
+	if x.MuHi != nil && x.MuHi.Sign() > 0 {
+		upper = fmt.Sprintf(" <= A*%s^(n-%d)", interval.DecimalUp(x.MuHi, digits), x.N0)
 	}
 	if lower == "" && upper == "" {
 		return ""
 	}
-	exact := "exact in the certificate"
-	if x.Step > 1 {
-		exact = fmt.Sprintf("a_%d exact, see 'avoidcert count'; the bracket is in the certificate", x.N0)
+	return fmt.Sprintf("for every n >= %d: %sa_n/n!%s, A = a_%d/%d! ~ %s (exact in the certificate)",
+		x.N0, lower, upper, x.N0, x.N0, a.Text('g', 10))
+}
+
+// allNJSONOf is the certificate's explicit bound for --json output.
+func allNJSONOf(x certify.AllN, digits int) *allNJSON {
+	if x.AN0 == nil || x.AN0.Sign() == 0 {
+		return nil
 	}
-	return fmt.Sprintf("for every n >= %d: %sa_n/n!%s, A = a_%d/%d! ~ %s (%s)",
-		x.N0, lower, upper, x.N0, x.N0, a.Text('g', 10), exact)
+	j := &allNJSON{N0: x.N0, AN0: x.AN0.String()}
+	if x.MuLo != nil && x.MuLo.Sign() > 0 {
+		s := interval.DecimalDown(x.MuLo, digits)
+		j.Lo = &s
+	}
+	if x.MuHi != nil && x.MuHi.Sign() > 0 {
+		s := interval.DecimalUp(x.MuHi, digits)
+		j.Hi = &s
+	}
+	return j
 }
 
 // phaseConstants estimates, for a periodic set of period d, the constants
@@ -468,14 +438,13 @@ type endsJSON struct {
 	Hi *string `json:"hi"`
 }
 
-// allNJSON is A*lo^floor_or_ceil((n-n0)/step) <= a_n/n! <= A*hi^...
-// for every n >= n0, A = a_n0/n0! (see allNBound).
+// allNJSON is A*lo^(n-n0) <= a_n/n! <= A*hi^(n-n0) for every n >= n0,
+// A = a_n0/n0!.
 type allNJSON struct {
-	N0   int     `json:"n0"`
-	Step int     `json:"step"`
-	AN0  string  `json:"a_n0"`
-	Lo   *string `json:"lo"`
-	Hi   *string `json:"hi"`
+	N0  int     `json:"n0"`
+	AN0 string  `json:"a_n0"`
+	Lo  *string `json:"lo"`
+	Hi  *string `json:"hi"`
 }
 
 type estimatesJSON struct {
@@ -498,7 +467,7 @@ func ends(x bounds.Enclosure, digits int) endsJSON {
 	return out
 }
 
-func writeBoundJSON(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, dest *outFile, phases []float64, digits int) {
+func writeBoundJSON(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, allN certify.AllN, dest *outFile, phases []float64, digits int) {
 	out := boundJSON{Patterns: set.Strings(), Class: string(p.rep.Class),
 		Lambda: ends(res.Lambda, digits), Radius: ends(res.Radius, digits), Digits: min(res.Digits, 1000),
 		Stop: string(res.Stop), Seconds: res.Elapsed.Seconds()}
@@ -506,18 +475,7 @@ func writeBoundJSON(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, d
 	if len(res.Brackets) > 0 {
 		out.K = res.Brackets[0].K
 	}
-	if x := allN(p, res); x != nil {
-		j := &allNJSON{N0: x.N0, Step: x.Step, AN0: x.AN0.String()}
-		if x.Lo != nil && x.Lo.Sign() > 0 {
-			s := interval.DecimalDown(x.Lo, digits)
-			j.Lo = &s
-		}
-		if x.Hi != nil && x.Hi.Sign() > 0 {
-			s := interval.DecimalUp(x.Hi, digits)
-			j.Hi = &s
-		}
-		out.AllN = j
-	}
+	out.AllN = allNJSONOf(allN, digits)
 	est := &estimatesJSON{Note: "estimate, not certified", CPhases: phases}
 	if r := res.Estimates.Rate; r > 0 && p.rep.Class != structure.Subexponential {
 		est.Rate = &r

@@ -12,7 +12,6 @@ import (
 
 	"avoidcert/certify"
 	"avoidcert/internal/bytesize"
-	"avoidcert/interval"
 	"avoidcert/pattern"
 )
 
@@ -205,18 +204,7 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 	for _, b := range cert.Evidence.Brackets {
 		ks = append(ks, b.K)
 	}
-	var all *allNJSON
-	if st.AllN.AN0 != nil && st.AllN.AN0.Sign() > 0 {
-		all = &allNJSON{N0: st.AllN.N0, Step: 1, AN0: st.AllN.AN0.String()}
-		if st.AllN.MuLo != nil && st.AllN.MuLo.Sign() > 0 {
-			s := interval.DecimalDown(st.AllN.MuLo, st.Lambda.Digits)
-			all.Lo = &s
-		}
-		if st.AllN.MuHi != nil {
-			s := interval.DecimalUp(st.AllN.MuHi, st.Lambda.Digits)
-			all.Hi = &s
-		}
-	}
+	all := allNJSONOf(st.AllN, st.Lambda.Digits)
 	out := checkJSON{Verdict: "valid", Patterns: st.Patterns, Lambda: &lambda, Radius: &radius, K: ks, AllN: all}
 	if cs := cert.Structure; cs != nil {
 		class := string(cs.Class)

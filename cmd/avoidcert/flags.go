@@ -27,7 +27,7 @@ func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 	var positional []string
 	for {
 		if err := fs.Parse(args); err != nil {
-			return nil, usagef("%s: %s; run 'avoidcert help %s'", fs.Name(), asTyped(err.Error(), args), fs.Name())
+			return nil, usagef("%s: %s; run 'avoidcert help %s'", fs.Name(), asTyped(fs, err.Error(), args), fs.Name())
 		}
 		rest := fs.Args()
 		if len(rest) == 0 {
@@ -91,8 +91,18 @@ func (b *byteSize) Set(s string) error {
 var flagInMessage = regexp.MustCompile(`(flag(?: provided but not defined:| needs an argument:)? |value .* for )-([A-Za-z0-9][A-Za-z0-9-]*)`)
 
 // asTyped rewrites a flag error to name the flag as the user typed it
-// ("--to" rather than the flag package's "-to"), found in args.
-func asTyped(msg string, args []string) string {
+// ("--to" rather than the flag package's "-to"), found in args, and to
+// say what a number flag wants instead of "parse error".
+func asTyped(fs *flag.FlagSet, msg string, args []string) string {
+	if sub := flagInMessage.FindStringSubmatch(msg); sub != nil && strings.HasSuffix(msg, ": parse error") {
+		if f := fs.Lookup(sub[2]); f != nil {
+			want := "a number"
+			if _, err := strconv.Atoi(f.DefValue); err == nil {
+				want = "a whole number"
+			}
+			msg = strings.TrimSuffix(msg, "parse error") + "not " + want
+		}
+	}
 	return flagInMessage.ReplaceAllStringFunc(msg, func(m string) string {
 		sub := flagInMessage.FindStringSubmatch(m)
 		name := sub[2]

@@ -12,6 +12,7 @@ import (
 	"os/signal"
 	"runtime/debug"
 	"sort"
+	"strings"
 )
 
 // Exit codes, documented in the README.
@@ -150,6 +151,11 @@ func failure(e *env, err error) int {
 		return interrupted(e)
 	case errors.Is(err, context.DeadlineExceeded):
 		fmt.Fprintln(e.stderr, "avoidcert: undecided: --timeout ran out before a first result; nothing was written; raise --timeout")
+		return exitUndecided
+	case strings.Contains(err.Error(), "before the first bracket"):
+		// bounds stops before its first bracket only for a budget
+		// (--timeout, --max-memory, --max-k): undecided, not a fault.
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise the budget\n", err)
 		return exitUndecided
 	default:
 		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)
