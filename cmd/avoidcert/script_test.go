@@ -27,7 +27,7 @@ func TestMain(m *testing.M) {
 // lines, their exit codes and the expected output.
 func TestScripts(t *testing.T) {
 	testscript.Run(t, testscript.Params{
-		Dir:  "testdata/script",
+		Dir: "testdata/script",
 		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){
 			"replace":   replaceCmd,
 			"exits":     exitsCmd,
