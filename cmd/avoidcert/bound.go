@@ -118,10 +118,14 @@ func (b *budget) start(ctx context.Context, set pattern.Set) (context.Context, c
 // printed.
 func (b *budget) watch(e *env, p *plan, wanted int) (report bounds.Progress, done func()) {
 	where := func(ev bounds.Event) string {
-		if p.blocks == nil {
-			return fmt.Sprintf("k=%d", ev.K)
+		k := ev.K // the newest iterate, or the k of the bracket just taken
+		if ev.Bracket != nil {
+			k = ev.Bracket.K
 		}
-		return fmt.Sprintf("block %d of %d, k=%d", ev.Block+1, len(p.blocks), ev.K)
+		if p.blocks == nil {
+			return fmt.Sprintf("k=%d", k)
+		}
+		return fmt.Sprintf("block %d of %d, k=%d", ev.Block+1, len(p.blocks), k)
 	}
 	agreed := func(x bounds.Enclosure) int {
 		if !x.Finite() || x.Lo.Sign() <= 0 {
@@ -306,7 +310,7 @@ func stopWords(res *bounds.Result) string {
 
 func writeBoundText(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, allN certify.AllN, dest *outFile, phases []float64, digits int) {
 	fmt.Fprintf(w, "patterns: %s (window length %d)\n", set, set.Window())
-	fmt.Fprintf(w, "class: %s\n", classLine(p.rep))
+	printWrapped(w, "class: "+classLine(p.rep), "  ")
 	if p.rep.Class == structure.Subexponential {
 		fmt.Fprintln(w, "lambda = 0 (proved by the structure pass: no cyclic avoider of any length)")
 	}

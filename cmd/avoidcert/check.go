@@ -99,8 +99,12 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	}
 	switch {
 	case *progress:
+		shown := int64(-1)
 		opts.Progress = func(done, total int64) {
-			fmt.Fprintf(e.stderr, "checked about %.3g of %.3g coefficient operations\n", float64(done), float64(total))
+			if pct := 100 * done / max(total, 1); pct > shown { // at most one line per percent
+				shown = pct
+				fmt.Fprintf(e.stderr, "checked %d%%: about %d of %d coefficient operations\n", pct, done, total)
+			}
 		}
 	case e.progress && !*quiet:
 		bar := newLiveBar(e.stderr, 1, "operations")
@@ -212,6 +216,10 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 		if cs.Period > 0 {
 			out.Period = &cs.Period
 		}
+		if cs.Class == certify.ClassPrimitive {
+			one := 1 // as structure --json and bound --json say
+			out.Period = &one
+		}
 		if cs.Exponent > 0 {
 			out.Exponent = &cs.Exponent
 		}
@@ -230,7 +238,7 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 		switch {
 		case out.Exponent != nil:
 			line += fmt.Sprintf(", exponent %d", *out.Exponent)
-		case out.Period != nil:
+		case out.Period != nil && *out.Period > 1:
 			line += fmt.Sprintf(", period %d", *out.Period)
 		}
 		fmt.Fprintln(w, line)
