@@ -22,7 +22,7 @@ import (
 func init() {
 	commands["bound"] = command{
 		summary: "certified interval for the growth rate lambda and 1/lambda, with a certificate",
-		usage: `Usage: avoidcert bound [--digits D | --width W] [--out FILE] [--json] PATTERN...
+		usage: `Usage: avoidcert bound [--digits D | --width W] [--out FILE | --no-certificate] [--json] PATTERN...
 
 Brackets lambda = lim (a_n/n!)^(1/n) by the coefficientwise Collatz-Wielandt
 bound on the exact iterates, until lo and hi agree to D significant digits
@@ -32,20 +32,38 @@ and writes a certificate that 'avoidcert check' re-verifies independently.
 
 The structure decides the method: periodic sets are bracketed through T^d,
 reducible ones block by block; for subexponential sets lambda = 0 is proved by
-the structure pass and only the upper bound is bracketed.
+the structure pass and only the upper bound is bracketed. For periodic sets
+the constants c_r of a_n/n! = lambda^n (c_(n mod d) + o(1)) are estimated
+from exact counts (estimate, not certified).
 
 Flags:
-  --digits D        significant digits to certify (default 10)
-  --width W         absolute width target instead, e.g. 1e-20
-  --out FILE        certificate path (default avoidcert-SET.json)
-  --json            {"patterns":[...],"lambda":{"lo","hi"},"radius":{...},"k":K,"certificate":PATH,...}
-  --max-k K         stop at this k (default 1000, the checker's limit)
-  --max-memory B    stop before a step that would need more (default 8G)
-  --timeout T       stop after this long, e.g. 90s or 10m (default none)
-  --progress        report brackets on stderr
+  --digits D          significant digits to certify, 1 to 995 (default 10)
+  --width W           absolute width target instead, e.g. 1e-20 (not with --digits)
+  --out FILE          certificate path (default avoidcert-SET.json); see below
+  --no-certificate    write no certificate
+  --json              {"patterns":[...],"class":...,"period":d,"exponent":e,
+                      "lambda":{"lo","hi"},"radius":{...},"k":K,"digits":D,
+                      "all_n":{"n0","a_n0","lo","hi"},"estimates":{"note":
+                      "estimate, not certified",...},"stop":...,"certificate":PATH}
+  --max-k K           stop at this k (default 1000, the checker's limit)
+  --max-memory B      stop before a step that would need more (default 8G)
+  --timeout T         stop after this long, e.g. 90s or 10m (default none)
+  --progress          one line per bracket on stderr (for logs)
+  --quiet             no live progress bar (shown on a terminal by default)
+
+The certificate file: a regular file is replaced atomically (temp file
+.NAME.avoidcert-tmp-DIGITS beside it, then a rename); a symbolic link is
+written through to its target, which must be a regular file or missing in an
+existing folder; a folder, device, FIFO or socket is refused before any work.
+A temp file left by a killed run is removed by the next write of that NAME.
+--out - writes the certificate to standard output; the report then goes to
+standard error.
 
 Exit codes: 0 target met (or lambda decided exactly), 3 a budget stopped the
-run first (the best certified bracket is printed and certified), 2 bad input.
+run first (the best certified bracket is printed and certified; when it stops
+before a first bracket nothing is written), 2 bad input, 4 interrupted
+(Ctrl-C: nothing is written; use --timeout to stop early and keep a
+certificate).
 `,
 		run: runBound,
 	}

@@ -18,18 +18,26 @@ import (
 func init() {
 	commands["check"] = command{
 		summary: "re-verify a certificate with the independent checker",
-		usage: `Usage: avoidcert check FILE [--expect PATTERN...]
+		usage: `Usage: avoidcert check FILE [--expect PATTERN...] [--json]
 
 Re-verifies a certificate written by 'avoidcert bound' with the independent
 checker: it recomputes every iterate with its own plain code (nothing shared
-with the fast engine) and checks every inequality exactly. Prints one line:
-"valid", or "invalid: " and the reason.
+with the fast engine) and checks every inequality exactly. Prints "valid" and
+what was verified (the set, lambda and 1/lambda, the class, each bracket's k
+and n, the bound valid for every n), or "invalid: " and the reason. FILE "-"
+reads standard input.
 
 Flags:
   --expect PATTERN... the set the certificate must be about (123,321 or
                       123 321 after the flag); a certificate for any other
-                      set is invalid. Without it, any set is accepted: say which
-                      set you expect whenever you know it.
+                      set is invalid. Repeating the flag adds to the set:
+                      --expect 123 --expect 321 is {123, 321}. Without it,
+                      any set is accepted: say which set you expect
+                      whenever you know it.
+  --json              {"verdict":"valid"|"invalid"|"undecided","reason":...,
+                      "patterns":[...],"class":...,"period":d,"exponent":e,
+                      "lambda":{"lo","hi"},"radius":{...},"k":[...],
+                      "all_n":{"n0","a_n0","lo","hi"}}
   --max-work N        refuse certificates whose recomputation is estimated
                       above N coefficient operations (default 1e10, about
                       ten minutes: the checker sums each line of the
@@ -37,8 +45,12 @@ Flags:
                       engine's work, so that it shares no shortcut with it)
   --max-memory B      refuse certificates whose recomputation is estimated
                       to need more memory (default 8G)
+  --progress          a line on stderr per percent of the work (for logs)
+  --quiet             no live progress bar (shown on a terminal by default)
 
-Exit codes: 0 valid, 1 invalid, 2 the file cannot be read, or bad usage.
+Exit codes: 0 valid, 1 invalid, 2 the file cannot be read, or bad usage,
+3 over --max-work or --max-memory (undecided: raise the flag named),
+4 interrupted (Ctrl-C).
 `,
 		run: runCheck,
 	}

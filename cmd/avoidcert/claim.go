@@ -28,9 +28,14 @@ Flags:
   --value X        a claimed decimal
   --truncated      read --value as truncated, not rounded
   --interval L,H   a claimed closed interval
-  --max-k K, --max-memory B, --timeout T, --progress   budgets, as for bound
+  --json           {"patterns":[...],"class":...,"quantity":...,"claim":{"lo","hi"},
+                   "certified":{"lo","hi"},"k":K,"verdict":"proved"|"refuted"|
+                   "undecided","reason":...,"seconds":S}
+  --max-k K, --max-memory B, --timeout T   budgets, as for bound
+  --progress, --quiet                       progress, as for bound
 
-Exit codes: 0 proved, 1 refuted, 3 undecided within the budget, 2 bad input.
+Exit codes: 0 proved, 1 refuted, 3 undecided within the budget, 2 bad input,
+4 interrupted (Ctrl-C).
 `,
 		run: runClaim,
 	}
