@@ -109,6 +109,7 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return checkVerdict(e, *asJSON, nil, err)
 	}
+	var bar *liveBar // drawn from the first report on: a refusal before the work draws nothing
 	switch {
 	case *progress:
 		shown := int64(-1)
@@ -119,9 +120,12 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 			}
 		}
 	case e.progress && !*quiet:
-		bar := newLiveBar(e.stderr, 1, "operations")
-		defer bar.finish()
-		opts.Progress = func(done, total int64) { bar.set("checking ", done, total) }
+		opts.Progress = func(done, total int64) {
+			if bar == nil {
+				bar = newLiveBar(e.stderr, total, "operations")
+			}
+			bar.set("checking ", done, total)
+		}
 	}
 	// The checker takes no context: it runs on its own goroutine, and a
 	// Ctrl-C ends the process without waiting (check writes nothing).
@@ -131,6 +135,9 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	case <-ctx.Done():
 		return interrupted(e)
 	case err = <-verdict:
+	}
+	if bar != nil { // set, if at all, before the verdict was sent
+		bar.finish()
 	}
 	if errors.Is(err, certify.ErrLimit) {
 		flag, now := "--max-work", fmt.Sprintf("%.3g", float64(opts.MaxWork))
