@@ -337,7 +337,7 @@ func writeBoundText(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, a
 	for _, br := range res.Brackets {
 		fmt.Fprintf(w, "bracket: k = %d, step %d, on %d of %d cells\n", br.K, br.Step, len(br.Cells), p.sys.Cells())
 	}
-	if line := allNLine(allN, digits); line != "" {
+	if line := allNLine(allN, !dest.skip, digits); line != "" {
 		fmt.Fprintln(w, line)
 	}
 	if est := res.Estimates; est.Rate > 0 && p.rep.Class != structure.Subexponential {
@@ -360,8 +360,9 @@ func writeBoundText(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, a
 
 // allNLine prints the certificate's explicit bound, valid for every
 // n >= n0 (the checker verifies it). A is shown rounded to nearest, for
-// reading; its exact value a_n0/n0! is in the certificate.
-func allNLine(x certify.AllN, digits int) string {
+// reading; its exact value a_n0/n0! is in the certificate when one is
+// written.
+func allNLine(x certify.AllN, written bool, digits int) string {
 	if x.AN0 == nil || x.AN0.Sign() == 0 {
 		return ""
 	}
@@ -377,8 +378,12 @@ func allNLine(x certify.AllN, digits int) string {
 	if lower == "" && upper == "" {
 		return ""
 	}
-	return fmt.Sprintf("for every n >= %d: %sa_n/n!%s, A = a_%d/%d! ~ %s (exact in the certificate)",
-		x.N0, lower, upper, x.N0, x.N0, a.Text('g', 10))
+	exact := "exact in the certificate"
+	if !written {
+		exact = fmt.Sprintf("a_%d exact: 'avoidcert count'", x.N0)
+	}
+	return fmt.Sprintf("for every n >= %d: %sa_n/n!%s, A = a_%d/%d! ~ %s (%s)",
+		x.N0, lower, upper, x.N0, x.N0, a.Text('g', 10), exact)
 }
 
 // allNJSONOf is the certificate's explicit bound for --json output.

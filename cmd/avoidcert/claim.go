@@ -55,7 +55,7 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	}
 	quantity, err := bounds.ParseQuantity(*of)
 	if err != nil {
-		return failure(e, usagef("claim: --of %q: say lambda or radius", *of))
+		return failure(e, usagef("claim: --of %s: say lambda or radius", quote(*of)))
 	}
 	claimed, err := claimInterval(*value, *within, *truncated)
 	if err != nil {
@@ -127,7 +127,7 @@ func claimInterval(value, within string, truncated bool) (interval.Interval, err
 		}
 		parts := strings.Split(within, ",")
 		if len(parts) != 2 {
-			return interval.Interval{}, usagef("claim: --interval %q: write two decimals LO,HI such as 0.95,0.96", within)
+			return interval.Interval{}, usagef("claim: --interval %s: write two decimals LO,HI such as 0.95,0.96", quote(within))
 		}
 		lo, err := interval.ParseDecimal(strings.TrimSpace(parts[0]))
 		if err != nil {
@@ -138,7 +138,7 @@ func claimInterval(value, within string, truncated bool) (interval.Interval, err
 			return interval.Interval{}, usagef("claim: --interval: %v", err)
 		}
 		if lo.Cmp(hi) > 0 {
-			return interval.Interval{}, usagef("claim: --interval %q: LO is above HI", within)
+			return interval.Interval{}, usagef("claim: --interval %s: LO is above HI", quote(within))
 		}
 		return interval.Interval{Lo: lo, Hi: hi}, nil
 	default:

@@ -60,7 +60,7 @@ func runCount(ctx context.Context, e *env, args []string) int {
 	case *from > *to:
 		return failure(e, usagef("count: --from %d is past --to %d", *from, *to))
 	case *format != "text" && *format != "csv" && *format != "json":
-		return failure(e, usagef("count: --format %q is not one of text, csv, json", *format))
+		return failure(e, usagef("count: --format %s is not one of text, csv, json", quote(*format)))
 	}
 	if need := transfer.CountsFootprint(set, *to); need > int64(maxMem) {
 		return failure(e, usagef("count: counting to n = %d needs about %s, over --max-memory %s; lower --to or raise --max-memory",

@@ -80,7 +80,7 @@ func (b *byteSize) Set(s string) error {
 	}
 	v, err := strconv.ParseFloat(t, 64)
 	if err != nil || v <= 0 {
-		return fmt.Errorf("%q is not a memory size; write e.g. 8G, 512M or 2000000000", s)
+		return fmt.Errorf("%s is not a memory size; write e.g. 8G, 512M or 2000000000", quote(s))
 	}
 	*b = byteSize(v * float64(units[unit]))
 	return nil
@@ -90,9 +90,13 @@ func (b *byteSize) Set(s string) error {
 // always write it with one dash ("flag provided but not defined: -to").
 var flagInMessage = regexp.MustCompile(`(flag(?: provided but not defined:| needs an argument:)? |value .* for )-([A-Za-z0-9][A-Za-z0-9-]*)`)
 
+// valueInMessage finds the value the flag package quotes in full.
+var valueInMessage = regexp.MustCompile(`^invalid value (".*") for `)
+
 // asTyped rewrites a flag error to name the flag as the user typed it
-// ("--to" rather than the flag package's "-to"), found in args, and to
-// say what a number flag wants instead of "parse error".
+// ("--to" rather than the flag package's "-to"), found in args, to cut the
+// value quoted to a few dozen characters, and to say what a number flag
+// wants instead of "parse error".
 func asTyped(fs *flag.FlagSet, msg string, args []string) string {
 	if sub := flagInMessage.FindStringSubmatch(msg); sub != nil && strings.HasSuffix(msg, ": parse error") {
 		if f := fs.Lookup(sub[2]); f != nil {
@@ -103,6 +107,13 @@ func asTyped(fs *flag.FlagSet, msg string, args []string) string {
 			msg = strings.TrimSuffix(msg, "parse error") + "not " + want
 		}
 	}
+	msg = valueInMessage.ReplaceAllStringFunc(msg, func(m string) string {
+		v, err := strconv.Unquote(valueInMessage.FindStringSubmatch(m)[1])
+		if err != nil {
+			return m
+		}
+		return "invalid value " + quote(v) + " for "
+	})
 	return flagInMessage.ReplaceAllStringFunc(msg, func(m string) string {
 		sub := flagInMessage.FindStringSubmatch(m)
 		name := sub[2]
