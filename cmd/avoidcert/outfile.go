@@ -1,6 +1,7 @@
 package main
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"io"
@@ -53,6 +54,14 @@ func openOut(cmd, flag, path string, skip bool) (*outFile, error) {
 	if err := o.resolve(); err != nil {
 		return nil, usagef("%s: cannot write to %s: %v; choose another %s", cmd, quote(path), err, flag)
 	}
+	// A folder we may not write in fails now, not after the work.
+	dir, base := filepath.Split(o.target)
+	probe, err := os.CreateTemp(cmp.Or(dir, "."), "."+base+tempInfix+"*")
+	if err != nil {
+		return nil, usagef("%s: cannot write to %s: %v; choose another %s", cmd, quote(path), err, flag)
+	}
+	probe.Close()
+	os.Remove(probe.Name())
 	return o, nil
 }
 
@@ -137,9 +146,7 @@ func (o *outFile) write(stdout io.Writer, data []byte) (err error) {
 		return err
 	}
 	dir, base := filepath.Split(o.target)
-	if dir == "" {
-		dir = "."
-	}
+	dir = cmp.Or(dir, ".")
 	removeStaleTemps(dir, base)
 	mode := fs.FileMode(0o644)
 	if info, err := os.Stat(o.target); err == nil {
