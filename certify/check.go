@@ -38,8 +38,8 @@ type CheckOptions struct {
 	MaxMemory int64
 	// Progress, when set, is called from Check's goroutine after each
 	// recomputed iterate with the estimated coefficient operations of the
-	// recomputation done so far and in total (the units of MaxWork). It
-	// must not block for long.
+	// iteration steps done so far and of all of them (the bulk of the
+	// work, in the units of MaxWork). It must not block for long.
 	Progress func(done, total int64)
 }
 
