@@ -162,7 +162,7 @@ func Analyze(ctx context.Context, s pattern.Set, opts Options) (*Report, error) 
 			rep.say("R_k is never every joint pattern: R_%d = R_%d, so the sequence repeats with period %d from k = %d on (proved: no power of T has an a.e.-positive kernel, T is not primitive)",
 				run.cycleStart, run.cycleStart+run.cycleLength, run.cycleLength, run.cycleStart)
 		default:
-			rep.say("R_k was not every joint pattern for k = %d..%d and did not repeat within the step limit (Options.MaxSteps): primitivity undecided", m, m+len(run.history)-1)
+			rep.say("R_k was not every joint pattern for k = %d..%d and did not repeat within the step limit: primitivity undecided", m, m+len(run.history)-1)
 		}
 	} else {
 		rep.say("the exact joint-pattern test is out of range for m = %d ((2m)! = %d joint patterns); only the window digraph and bounded searches were used", m, pattern.Factorial(2*m))

@@ -157,6 +157,9 @@ func failure(e *env, err error) int {
 		// (--timeout, --max-memory, --max-k): undecided, not a fault.
 		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise the budget\n", err)
 		return exitUndecided
+	case strings.Contains(err.Error(), "memory budget of"):
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v: raise --max-memory; nothing was written\n", err)
+		return exitUndecided
 	default:
 		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)
 		return exitAborted
