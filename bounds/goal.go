@@ -109,8 +109,10 @@ func (g targetGoal) prec(hi *big.Rat) uint {
 		p = max(p, uint(math.Ceil(3.33*float64(g.digits+10))))
 	}
 	if g.width != nil && hi != nil && hi.Sign() > 0 {
-		// Rounding moves an end by at most 2^(1-prec) of its size.
-		p = max(p, uint(math.Ceil(log2Rat(hi)-log2Rat(g.width)))+12)
+		// Rounding moves an end by at most 2^(1-prec) of its size. A width
+		// above hi needs no extra bits (and a negative float must not
+		// reach the uint conversion).
+		p = max(p, uint(max(0, math.Ceil(log2Rat(hi)-log2Rat(g.width))))+12)
 	}
 	return p
 }

@@ -309,6 +309,23 @@ func TestWidthTarget(t *testing.T) {
 	checkContains(t, "132", res, interval.Lambda132(200)) // Elizalde-Noy 2003
 }
 
+// TestWideWidthTarget asks for a width far above lambda: the first finite
+// bracket meets it. A width above hi once turned into a negative bit count
+// converted to a huge unsigned precision, and the run never ended.
+func TestWideWidthTarget(t *testing.T) {
+	_, sys := system(t, "123")
+	ctx, cancel := context.WithTimeout(context.Background(), time.Minute)
+	defer cancel()
+	res, err := Run(ctx, sys, Options{Width: big.NewRat(100_000, 1)}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Stop != StopTarget {
+		t.Fatalf("stop %s, want the target met at once", res.Stop)
+	}
+	checkContains(t, "123", res, interval.Lambda123(60)) // Elizalde-Noy 2003
+}
+
 // reducible is a set whose state digraph has two strongly connected
 // components with cycles and, as its brackets show, different growth
 // rates (found by a search over random sets of length-4 patterns; no

@@ -9,7 +9,10 @@ import (
 
 // maxExponent bounds the decimal exponent ParseDecimal accepts, so that a
 // mistyped claim such as "1e999999999" is refused instead of allocating a
-// huge power of ten.
+// huge power of ten. It bounds the written exponent and the value alike:
+// 10^-maxExponent <= |value| <= 10^maxExponent, so that whatever
+// DecimalDown and DecimalUp print for an accepted value parses back (both
+// bounds are powers of ten, so outward rounding never crosses them).
 const maxExponent = 10000
 
 // DecimalDown returns the largest decimal with at most digits significant
@@ -200,7 +203,8 @@ type decimalLiteral struct {
 // ParseDecimal returns the exact value of a decimal literal: an optional sign,
 // digits with at most one decimal point (".5" and "5." are accepted), and an
 // optional exponent introduced by e or E ("1.2e-3", "7E+2"). The exponent must
-// lie in [-10000, 10000]. Spaces, hexadecimal, "inf" and "nan" are refused;
+// lie in [-10000, 10000], and a non-zero value in [1e-10000, 1e10000] in
+// magnitude ("100e9999" is refused). Spaces, hexadecimal, "inf" and "nan" are refused;
 // every refusal names the fault.
 func ParseDecimal(s string) (*big.Rat, error) {
 	d, err := parseDecimal(s)
@@ -287,6 +291,10 @@ func parseDecimal(s string) (decimalLiteral, error) {
 	unitExp := exp - fracDigits
 	v := new(big.Rat).SetInt(m)
 	v.Mul(v, pow10Rat(unitExp))
+	if size := new(big.Rat).Abs(v); size.Sign() > 0 &&
+		(size.Cmp(pow10Rat(maxExponent)) > 0 || size.Cmp(pow10Rat(-maxExponent)) < 0) {
+		return fail("the value is out of range; its magnitude must lie between 1e-%d and 1e%d", maxExponent, maxExponent)
+	}
 	return decimalLiteral{value: v, unitExp: unitExp, negative: negative}, nil
 }
 

@@ -172,6 +172,8 @@ func TestParseDecimal(t *testing.T) {
 		{"1.5e2.5", "whole number"},
 		{"1e1x", "invalid character 'x' in the exponent"},
 		{"1e99999", "exponent out of range"},
+		{"100E9999", "value is out of range"}, // found by FuzzParseDecimal
+		{"-0.01e-9999", "value is out of range"},
 		{"inf", "invalid character"},
 		{"NaN", "invalid character"},
 	}
@@ -269,4 +271,19 @@ func FuzzParseDecimal(f *testing.F) {
 			t.Fatalf("DecimalDown(%s) = %q does not parse back below the value: %v", v.RatString(), printed, err)
 		}
 	})
+}
+
+// The extreme accepted magnitudes print back to text that parses.
+func TestDecimalRangeRoundTrip(t *testing.T) {
+	for _, s := range []string{"1e10000", "-1e10000", "1e-10000", "-9.999e9999", "1.5e-10000"} {
+		v, err := ParseDecimal(s)
+		if err != nil {
+			t.Fatalf("ParseDecimal(%q): %v", s, err)
+		}
+		for _, printed := range []string{DecimalDown(v, 3), DecimalUp(v, 3)} {
+			if _, err := ParseDecimal(printed); err != nil {
+				t.Errorf("%s prints as %q, which does not parse back: %v", s, printed, err)
+			}
+		}
+	}
 }

@@ -135,8 +135,8 @@ func Analyze(ctx context.Context, s pattern.Set, opts Options) (*Report, error) 
 			rep.StartCells++
 		}
 	}
-	rep.say("window digraph: %d cells, %d windows, %d strongly connected components, %d of them cyclic",
-		d.Cells, d.Windows, len(d.Components), countCyclic(d))
+	rep.say("window digraph: %d cells, %d windows, %s, %d of them cyclic",
+		d.Cells, d.Windows, plural(len(d.Components), "strongly connected component"), countCyclic(d))
 
 	if d.Acyclic() {
 		finite(rep)
@@ -161,7 +161,7 @@ func Analyze(ctx context.Context, s pattern.Set, opts Options) (*Report, error) 
 			rep.say("R_k is never every joint pattern: R_%d = R_%d, so the sequence repeats with period %d from k = %d on (proved: no power of T has an a.e.-positive kernel, T is not primitive)",
 				run.cycleStart, run.cycleStart+run.cycleLength, run.cycleLength, run.cycleStart)
 		default:
-			rep.say("R_k was not every joint pattern for k = %d..%d and did not repeat within the step limit (Options.MaxSteps): primitivity undecided", m, m+len(run.history)-1)
+			rep.say("R_k was not every joint pattern for k = %d..%d and did not repeat within the step limit: primitivity undecided", m, m+len(run.history)-1)
 		}
 	} else {
 		rep.say("the exact joint-pattern test is out of range for m = %d ((2m)! = %d joint patterns); only the window digraph and bounded searches were used", m, pattern.Factorial(2*m))
@@ -383,7 +383,7 @@ func classify(rep *Report, run *jointRun) {
 		rep.say("primitive: R_%d holds all %d joint patterns, so T^%d has an a.e.-positive kernel; by Jentzsch's theorem lambda is simple and strictly dominant and a_n/n! = c lambda^n (1 + O(theta^n)) with c > 0, theta < 1 (proved; the values of lambda, c, theta are not given here)",
 			run.exponent, rep.Domain, run.exponent)
 		if rep.Exponent > rep.M {
-			rep.say("exponent %d is least: R_%d lacks %d joint patterns", rep.Exponent, rep.Exponent-1, rep.Domain-rep.Sizes[len(rep.Sizes)-2])
+			rep.say("exponent %d is least: R_%d lacks %s", rep.Exponent, rep.Exponent-1, plural(rep.Domain-rep.Sizes[len(rep.Sizes)-2], "joint pattern"))
 		}
 		if run.witnesses {
 			rep.Witnesses = &Witnesses{run: run}
@@ -400,7 +400,7 @@ func classify(rep *Report, run *jointRun) {
 		rep.Unreached = &CellPair{From: cellPerm(rep.M, from), To: cellPerm(rep.M, to)}
 		rep.say("reducible: no walk of the window digraph leads from cell %v to cell %v, so no avoiding permutation of length > %d starts with pattern %v and ends with %v; T maps the functions on the cells reached from %v (on %v itself if none is) into themselves, a proper invariant subspace (proved)",
 			rep.Unreached.From, rep.Unreached.To, rep.M, rep.Unreached.From, rep.Unreached.To, rep.Unreached.From, rep.Unreached.From)
-		rep.say("lambda is the largest over the blocks (package bounds brackets each strongly connected block of the prefix-state digraph); whether a_n/n! ~ c lambda^n holds depends on the dominant blocks and is not proved here")
+		rep.say("lambda is the largest over the blocks (each strongly connected block of the prefix-state digraph is bracketed on its own); whether a_n/n! ~ c lambda^n holds depends on the dominant blocks and is not proved here")
 		return
 	}
 	if run != nil && run.cycleLength > 0 {
@@ -499,3 +499,11 @@ func (run *jointRun) cycleUnion() (bitset, bool) {
 }
 
 func cellPerm(m, cell int) pattern.Perm { return pattern.Unrank(m, cell) }
+
+// plural writes "1 joint pattern", "2 joint patterns".
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
+}

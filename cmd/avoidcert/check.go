@@ -1,66 +1,93 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
+	"strings"
 
 	"avoidcert/certify"
+	"avoidcert/internal/bytesize"
 	"avoidcert/pattern"
 )
 
 func init() {
 	commands["check"] = command{
 		summary: "re-verify a certificate with the independent checker",
-		usage: `Usage: avoidcert check FILE [--expect PATTERN...]
+		usage: `Usage: avoidcert check FILE [--expect PATTERN...] [--json]
 
 Re-verifies a certificate written by 'avoidcert bound' with the independent
 checker: it recomputes every iterate with its own plain code (nothing shared
-with the fast engine) and checks every inequality exactly. Prints one line:
-"valid", or "invalid: " and the reason.
+with the fast engine) and checks every inequality exactly. Prints "valid" and
+what was verified (the set, lambda and 1/lambda, the class, each bracket's
+n, step and prefix states, the bound valid for every n), or "invalid: " and the reason. FILE "-"
+reads standard input.
 
 Flags:
   --expect PATTERN... the set the certificate must be about (123,321 or
                       123 321 after the flag); a certificate for any other
-                      set is invalid. Without it, any set is accepted: say which
-                      set you expect whenever you know it.
+                      set is invalid. Repeating the flag adds to the set:
+                      --expect 123 --expect 321 is {123, 321}. Without it,
+                      any set is accepted: say which set you expect
+                      whenever you know it.
+  --json              {"verdict":"valid"|"invalid"|"undecided","reason":...,
+                      "patterns":[...],"class":...,"period":d,"exponent":e,
+                      "lambda":{"lo","hi"},"radius":{...},"n":[...],
+                      "all_n":{"n0","a_n0","lo","hi"}}
   --max-work N        refuse certificates whose recomputation is estimated
-                      above N coefficient operations (default 1e10, about
-                      ten minutes: the checker sums each line of the
-                      iteration term by term, about k/(m+1) times the
-                      engine's work, so that it shares no shortcut with it)
+                      above N coefficient operations (default 1e12; the
+                      memory limit is what binds in practice)
   --max-memory B      refuse certificates whose recomputation is estimated
                       to need more memory (default 8G)
+  --progress          a line on stderr per percent of the work (for logs)
+  --quiet             no live progress bar (shown on a terminal by default)
 
-Exit codes: 0 valid, 1 invalid, 2 the file cannot be read, or bad usage.
+Exit codes: 0 valid, 1 invalid, 2 the file cannot be read, or bad usage,
+3 over --max-work or --max-memory (undecided: raise the flag named),
+4 interrupted (Ctrl-C).
 `,
 		run: runCheck,
 	}
 }
 
-// checkWork is the default work limit of check: enough for the 50-digit
-// certificates of the length-4 patterns (about 3e9 operations).
-const checkWork = 1e10
+// checkWork is the default work limit of check: the checker's own default.
+const checkWork = float64(certify.DefaultMaxWork)
+
+// patternList is a repeatable flag: every use adds patterns to the set.
+type patternList []string
+
+func (p *patternList) String() string { return strings.Join(*p, ",") }
+
+func (p *patternList) Set(s string) error {
+	*p = append(*p, s)
+	return nil
+}
 
 func runCheck(ctx context.Context, e *env, args []string) int {
 	flags := newFlags("check")
-	expect := flags.String("expect", "", "")
+	var expect patternList
+	flags.Var(&expect, "expect", "")
 	maxWork := flags.Float64("max-work", checkWork, "")
 	maxMem := byteSize(8 << 30)
 	flags.Var(&maxMem, "max-memory", "")
+	asJSON := flags.Bool("json", false, "")
+	progress := flags.Bool("progress", false, "")
+	quiet := flags.Bool("quiet", false, "")
 	pos, err := parseArgs(flags, args)
 	if err != nil {
 		return failure(e, err)
 	}
 	// "check FILE --expect 123 321": patterns after the file belong to --expect.
-	if len(pos) == 0 || (len(pos) > 1 && *expect == "") {
+	if len(pos) == 0 || (len(pos) > 1 && len(expect) == 0) {
 		return failure(e, usagef("check: name exactly one certificate file, e.g. 'avoidcert check avoidcert-1342.json'"))
 	}
 	var opts certify.CheckOptions
-	if *expect != "" {
-		given := append([]string{*expect}, pos[1:]...)
+	if len(expect) > 0 {
+		given := append(expect, pos[1:]...)
 		if _, err := pattern.ParseSet(given); err != nil {
 			return failure(e, usagef("check: --expect: %v", err))
 		}
@@ -71,22 +98,209 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	}
 	opts.MaxWork = int64(*maxWork)
 	opts.MaxMemory = int64(maxMem)
-	f, err := os.Open(pos[0])
+	data, err := readInput(pos[0])
 	if err != nil {
-		if errors.Is(err, fs.ErrNotExist) {
-			return failure(e, usagef("check: %s does not exist", pos[0]))
+		return failure(e, err)
+	}
+	cert, err := certify.Read(bytes.NewReader(data))
+	if err != nil {
+		return checkVerdict(e, *asJSON, nil, err)
+	}
+	var bar *liveBar // drawn from the first report on: a refusal before the work draws nothing
+	switch {
+	case *progress:
+		shown := int64(-1)
+		opts.Progress = func(done, total int64) {
+			if pct := 100 * done / max(total, 1); pct > shown { // at most one line per percent
+				shown = pct
+				fmt.Fprintf(e.stderr, "checked %d%%: about %d of %d coefficient operations\n", pct, done, total)
+			}
 		}
-		return failure(e, usagef("check: cannot read %s: %v", pos[0], err))
+	case e.progress && !*quiet:
+		opts.Progress = func(done, total int64) {
+			if bar == nil {
+				bar = newLiveBar(e.stderr, total, "operations")
+			}
+			bar.set("checking ", done, total)
+		}
+	}
+	err = certify.Check(ctx, cert, opts)
+	if bar != nil {
+		bar.finish()
+	}
+	if ctx.Err() != nil {
+		return interrupted(e)
+	}
+	var limit *certify.LimitError
+	if errors.As(err, &limit) {
+		flag, now := "--max-work", fmt.Sprintf("%.3g", float64(opts.MaxWork))
+		if limit.Resource == "memory" {
+			flag, now = "--max-memory", bytesize.Format(opts.MaxMemory)
+		}
+		return checkUndecided(e, *asJSON, cert, fmt.Sprintf("%v; raise %s (now %s) to check it", err, flag, now))
+	}
+	return checkVerdict(e, *asJSON, cert, err)
+}
+
+// readInput reads a certificate file ("-": standard input). A file that
+// cannot be read is an input error (exit 2), not an invalid certificate.
+func readInput(path string) ([]byte, error) {
+	if path == "-" {
+		data, err := io.ReadAll(io.LimitReader(os.Stdin, certify.MaxFileSize+1))
+		if err != nil {
+			return nil, usagef("check: cannot read standard input: %v", err)
+		}
+		return data, nil
+	}
+	info, err := os.Stat(path)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return nil, usagef("check: %s does not exist; name a certificate file", quote(path))
+	case err != nil:
+		return nil, usagef("check: cannot read %s: %v", quote(path), err)
+	case info.IsDir():
+		return nil, usagef("check: %s is a folder; name a certificate file", quote(path))
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, usagef("check: cannot read %s: %v", quote(path), err)
 	}
 	defer f.Close()
-	cert, err := certify.Read(f)
-	if err == nil {
-		err = certify.Check(ctx, cert, opts)
-	}
+	// Read refuses anything over MaxFileSize; one byte more shows it.
+	data, err := io.ReadAll(io.LimitReader(f, certify.MaxFileSize+1))
 	if err != nil {
-		fmt.Fprintf(e.stdout, "invalid: %v\n", err)
+		return nil, usagef("check: cannot read %s: %v", quote(path), err)
+	}
+	return data, nil
+}
+
+// checkUndecided reports a certificate over the limits: exit 3.
+func checkUndecided(e *env, asJSON bool, cert *certify.Certificate, reason string) int {
+	if asJSON {
+		writeJSON(e.stdout, checkJSON{Verdict: "undecided", Reason: reason, Patterns: cert.Statement.Patterns})
+	} else {
+		fmt.Fprintf(e.stdout, "undecided: %s\n", reason)
+	}
+	return exitUndecided
+}
+
+// checkJSON is the --json output of check: the verdict and, when valid,
+// what the certificate proves.
+type checkJSON struct {
+	Verdict  string    `json:"verdict"`
+	Reason   string    `json:"reason,omitempty"`
+	Patterns []string  `json:"patterns"`
+	Class    *string   `json:"class"`
+	Period   *int      `json:"period"`
+	Exponent *int      `json:"exponent"`
+	Lambda   *endsJSON `json:"lambda"`
+	Radius   *endsJSON `json:"radius"`
+	N        []int     `json:"n"`
+	AllN     *allNJSON `json:"all_n"`
+}
+
+// checkVerdict prints valid (with what was verified) or invalid.
+func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int {
+	if err != nil {
+		if asJSON {
+			out := checkJSON{Verdict: "invalid", Reason: err.Error()}
+			if cert != nil {
+				out.Patterns = cert.Statement.Patterns
+			}
+			writeJSON(e.stdout, out)
+		} else {
+			fmt.Fprintf(e.stdout, "invalid: %v\n", err)
+		}
 		return exitFailed
 	}
-	fmt.Fprintln(e.stdout, "valid")
+	st := cert.Statement
+	lambda := endsJSON{Lo: decimalOf(st.Lambda.LoDecimal), Hi: decimalOf(st.Lambda.HiDecimal)}
+	radius := endsJSON{Lo: decimalOf(st.Radius.LoDecimal), Hi: decimalOf(st.Radius.HiDecimal)}
+	var ns []int
+	for _, b := range cert.Evidence.Brackets {
+		ns = append(ns, b.N)
+	}
+	all := allNJSONOf(st.AllN, st.Lambda.Digits)
+	out := checkJSON{Verdict: "valid", Patterns: st.Patterns, Lambda: &lambda, Radius: &radius, N: ns, AllN: all}
+	if cs := cert.Structure; cs != nil {
+		class := string(cs.Class)
+		out.Class = &class
+		if cs.Period > 0 {
+			out.Period = &cs.Period
+		}
+		if cs.Class == certify.ClassPrimitive {
+			one := 1 // as structure --json and bound --json say
+			out.Period = &one
+		}
+		if cs.Exponent > 0 {
+			out.Exponent = &cs.Exponent
+		}
+	}
+	if asJSON {
+		writeJSON(e.stdout, out)
+		return exitOK
+	}
+	w := e.stdout
+	fmt.Fprintln(w, "valid")
+	fmt.Fprintf(w, "verified: the set %s (window length %d)\n", strings.Join(st.Patterns, ","), cert.Evidence.CellLength+1)
+	fmt.Fprintf(w, "verified: lambda   in [%s, %s]\n", orInf(lambda.Lo), orInf(lambda.Hi))
+	fmt.Fprintf(w, "verified: 1/lambda in [%s, %s]\n", orInf(radius.Lo), orInf(radius.Hi))
+	if out.Class != nil {
+		line := "verified: class " + *out.Class
+		switch {
+		case out.Exponent != nil:
+			line += fmt.Sprintf(", exponent %d", *out.Exponent)
+		case out.Period != nil && *out.Period > 1:
+			line += fmt.Sprintf(", period %d", *out.Period)
+		}
+		fmt.Fprintln(w, line)
+	} else {
+		fmt.Fprintln(w, "verified: no structure section (format version 1): the class is not certified")
+	}
+	for _, b := range cert.Evidence.Brackets {
+		fmt.Fprintf(w, "verified: %s\n", bracketWords(b, cert.Evidence.States))
+	}
+	if all != nil {
+		var lower, upper string
+		if all.Lo != nil {
+			lower = fmt.Sprintf("A*%s^(n-%d) <= ", *all.Lo, all.N0)
+		}
+		if all.Hi != nil {
+			upper = fmt.Sprintf(" <= A*%s^(n-%d)", *all.Hi, all.N0)
+		}
+		fmt.Fprintf(w, "verified: for every n >= %d: %sa_n/n!%s, A = a_%d/%d!, a_%d = %s\n",
+			all.N0, lower, upper, all.N0, all.N0, all.N0, abbreviateDigits(all.AN0))
+	}
 	return exitOK
+}
+
+func decimalOf(s string) *string {
+	if s == "" {
+		return nil
+	}
+	return &s
+}
+
+func orInf(s *string) string {
+	if s == nil {
+		return "inf"
+	}
+	return *s
+}
+
+// abbreviateDigits shows a long integer by its first and last digits.
+func abbreviateDigits(s string) string {
+	if len(s) <= 40 {
+		return s
+	}
+	return fmt.Sprintf("%s...%s (%d digits)", s[:15], s[len(s)-15:], len(s))
+}
+
+// bracketWords describes one bracket of a certificate for a reader.
+func bracketWords(b certify.Bracket, states int) string {
+	system := "the whole system"
+	if len(b.States) < states {
+		system = fmt.Sprintf("%d of the %d prefix states (start %s)", len(b.States), states, b.Start)
+	}
+	return fmt.Sprintf("bracket of G_%d against G_%d, step %d, on %s", b.N, b.N+b.Step, b.Step, system)
 }

@@ -28,9 +28,14 @@ Flags:
   --value X        a claimed decimal
   --truncated      read --value as truncated, not rounded
   --interval L,H   a claimed closed interval
-  --max-k K, --max-memory B, --timeout T, --progress   budgets, as for bound
+  --json           {"patterns":[...],"class":...,"quantity":...,"claim":{"lo","hi"},
+                   "certified":{"lo","hi"},"k":K,"verdict":"proved"|"refuted"|
+                   "undecided","reason":...,"seconds":S}
+  --max-k K, --max-memory B, --timeout T   budgets, as for bound
+  --progress, --quiet                       progress, as for bound
 
-Exit codes: 0 proved, 1 refuted, 3 undecided within the budget, 2 bad input.
+Exit codes: 0 proved, 1 refuted, 3 undecided within the budget, 2 bad input,
+4 interrupted (Ctrl-C).
 `,
 		run: runClaim,
 	}
@@ -42,6 +47,7 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	value := fs.String("value", "", "")
 	truncated := fs.Bool("truncated", false, "")
 	within := fs.String("interval", "", "")
+	asJSON := fs.Bool("json", false, "")
 	var b budget
 	set, err := b.parse(fs, args)
 	if err != nil {
@@ -49,19 +55,24 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	}
 	quantity, err := bounds.ParseQuantity(*of)
 	if err != nil {
-		return failure(e, usagef("claim: --of %q: say lambda or radius", *of))
+		return failure(e, usagef("claim: --of %s: say lambda or radius", quote(*of)))
 	}
 	claimed, err := claimInterval(*value, *within, *truncated)
 	if err != nil {
 		return failure(e, err)
 	}
-	ctx, cancel, p, err := b.start(ctx, set)
+	runCtx, cancel, p, err := b.start(ctx, set)
 	if err != nil {
 		return failure(e, err)
 	}
 	defer cancel()
 	opts := bounds.Options{Step: p.step, MaxN: p.maxN(b.maxK), MaxMemory: int64(b.maxMemory)}
-	verdict, res, err := bounds.JudgeBlocks(ctx, p.states, p.blocks, claimed, quantity, opts, b.reporter(e))
+	progress, progressDone := b.watch(e, p, interval.CommonDigits(claimed.Lo, claimed.Hi)+1)
+	verdict, res, err := bounds.JudgeBlocks(runCtx, p.states, p.blocks, claimed, quantity, opts, progress)
+	progressDone()
+	if ctx.Err() != nil {
+		return interrupted(e)
+	}
 	if err != nil {
 		return failure(e, err)
 	}
@@ -70,19 +81,33 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 		shown = res.Radius
 	}
 	digits := claimDigits(claimed)
-	fmt.Fprintf(e.stdout, "claim: %s(%s) in %s\n", quantity, set, claimed.String(digits))
-	fmt.Fprintf(e.stdout, "certified: %s in %s (k = %d)\n", quantity, shown.String(digits), p.k(res.Brackets[0]))
+	words, code := "undecided: "+stopWords(res), exitUndecided
 	switch verdict {
 	case bounds.Proved:
-		fmt.Fprintln(e.stdout, "proved: the certified interval lies inside the claim")
-		return exitOK
+		words, code = "proved: the certified interval lies inside the claim", exitOK
 	case bounds.Refuted:
-		fmt.Fprintln(e.stdout, "refuted: the certified interval misses the claim")
-		return exitFailed
-	default:
-		fmt.Fprintf(e.stdout, "undecided: %s\n", stopWords(res))
-		return exitUndecided
+		words, code = "refuted: the certified interval misses the claim", exitFailed
 	}
+	if *asJSON {
+		writeJSON(e.stdout, struct {
+			Patterns  []string `json:"patterns"`
+			Class     string   `json:"class"`
+			Quantity  string   `json:"quantity"`
+			Claim     endsJSON `json:"claim"`
+			Certified endsJSON `json:"certified"`
+			K         int      `json:"k"`
+			Verdict   string   `json:"verdict"`
+			Reason    string   `json:"reason"`
+			Seconds   float64  `json:"seconds"`
+		}{set.Strings(), string(p.rep.Class), string(quantity),
+			ends(bounds.Enclosure{Lo: claimed.Lo, Hi: claimed.Hi}, digits), ends(shown, digits),
+			p.k(res.Brackets[0]), strings.SplitN(words, ":", 2)[0], strings.TrimSpace(strings.SplitN(words, ":", 2)[1]), res.Elapsed.Seconds()})
+		return code
+	}
+	fmt.Fprintf(e.stdout, "claim: %s(%s) in %s\n", quantity, set, claimed.String(digits))
+	fmt.Fprintf(e.stdout, "certified: %s in %s (k = %d)\n", quantity, shown.String(digits), p.k(res.Brackets[0]))
+	fmt.Fprintln(e.stdout, words)
+	return code
 }
 
 // claimInterval reads exactly one of --value and --interval.
@@ -102,7 +127,7 @@ func claimInterval(value, within string, truncated bool) (interval.Interval, err
 		}
 		parts := strings.Split(within, ",")
 		if len(parts) != 2 {
-			return interval.Interval{}, usagef("claim: --interval %q: write two decimals LO,HI such as 0.95,0.96", within)
+			return interval.Interval{}, usagef("claim: --interval %s: write two decimals LO,HI such as 0.95,0.96", quote(within))
 		}
 		lo, err := interval.ParseDecimal(strings.TrimSpace(parts[0]))
 		if err != nil {
@@ -113,7 +138,7 @@ func claimInterval(value, within string, truncated bool) (interval.Interval, err
 			return interval.Interval{}, usagef("claim: --interval: %v", err)
 		}
 		if lo.Cmp(hi) > 0 {
-			return interval.Interval{}, usagef("claim: --interval %q: LO is above HI", within)
+			return interval.Interval{}, usagef("claim: --interval %s: LO is above HI", quote(within))
 		}
 		return interval.Interval{Lo: lo, Hi: hi}, nil
 	default:

@@ -32,6 +32,9 @@ Flags:
   --max-memory B    refuse runs estimated to need more memory (default 8G)
   --progress        report each iterate on stderr
   --verbose         say which patterns were dropped as duplicates or redundant
+
+Exit codes: 0 success, 2 bad input, 3 over --max-memory (nothing counted),
+4 interrupted (Ctrl-C).
 `,
 		run: runCount,
 	}
@@ -60,11 +63,13 @@ func runCount(ctx context.Context, e *env, args []string) int {
 	case *from > *to:
 		return failure(e, usagef("count: --from %d is past --to %d", *from, *to))
 	case *format != "text" && *format != "csv" && *format != "json":
-		return failure(e, usagef("count: --format %q is not one of text, csv, json", *format))
+		return failure(e, usagef("count: --format %s is not one of text, csv, json", quote(*format)))
 	}
 	if need := transfer.CountsFootprint(set, *to); need > int64(maxMem) {
-		return failure(e, usagef("count: counting to n = %d needs about %s, over --max-memory %s; lower --to or raise --max-memory",
-			*to, bytesize.Format(need), bytesize.Format(int64(maxMem))))
+		// a budget, not bad input: exit 3 as for every budget
+		fmt.Fprintf(e.stderr, "avoidcert: count: undecided: counting to n = %d needs about %s, over --max-memory %s; lower --to or raise --max-memory\n",
+			*to, bytesize.Format(need), bytesize.Format(int64(maxMem)))
+		return exitUndecided
 	}
 	if *verbose {
 		reportDropped(e.stderr, set)
@@ -140,5 +145,5 @@ func writeCountsJSON(e *env, s pattern.Set, rows []countRow) {
 	for _, r := range rows {
 		out.Counts = append(out.Counts, entry{N: r.n, Count: r.count.String(), Probability: r.prob.RatString()})
 	}
-	writeJSON(e, out)
+	writeJSON(e.stdout, out)
 }

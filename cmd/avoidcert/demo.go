@@ -67,8 +67,12 @@ func (c demoClaim) String() string {
 }
 
 func runDemo(ctx context.Context, e *env, args []string) int {
-	if _, err := parseArgs(newFlags("demo"), args); err != nil {
+	pos, err := parseArgs(newFlags("demo"), args)
+	if err != nil {
 		return failure(e, err)
+	}
+	if len(pos) > 0 {
+		return failure(e, usagef("demo: takes no arguments (got %s); run 'avoidcert demo'", quote(pos[0])))
 	}
 	var table struct {
 		Title  string      `json:"title"`

@@ -1,11 +1,14 @@
 package main
 
 import (
+	"errors"
 	"flag"
 	"fmt"
 	"io"
+	"regexp"
 	"strconv"
 	"strings"
+	"time"
 
 	"avoidcert/pattern"
 )
@@ -24,7 +27,7 @@ func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 	var positional []string
 	for {
 		if err := fs.Parse(args); err != nil {
-			return nil, usagef("%s: %v; run 'avoidcert help %s'", fs.Name(), err, fs.Name())
+			return nil, usagef("%s: %s; run 'avoidcert help %s'", fs.Name(), asTyped(fs, err.Error(), args), fs.Name())
 		}
 		rest := fs.Args()
 		if len(rest) == 0 {
@@ -77,8 +80,78 @@ func (b *byteSize) Set(s string) error {
 	}
 	v, err := strconv.ParseFloat(t, 64)
 	if err != nil || v <= 0 {
-		return fmt.Errorf("%q is not a memory size; write e.g. 8G, 512M or 2000000000", s)
+		return fmt.Errorf("%s is not a memory size; write e.g. 8G, 512M or 2000000000", quote(s))
 	}
 	*b = byteSize(v * float64(units[unit]))
+	return nil
+}
+
+// flagInMessage finds the flag name in the flag package's messages, which
+// always write it with one dash ("flag provided but not defined: -to").
+var flagInMessage = regexp.MustCompile(`(flag(?: provided but not defined:| needs an argument:)? |value .* for )-([A-Za-z0-9][A-Za-z0-9-]*)`)
+
+// valueInMessage finds the value the flag package quotes in full.
+var valueInMessage = regexp.MustCompile(`^invalid value (".*") for `)
+
+// asTyped rewrites a flag error to name the flag as the user typed it
+// ("--to" rather than the flag package's "-to"), found in args, to cut the
+// value quoted to a few dozen characters, and to say what a number flag
+// wants instead of "parse error".
+func asTyped(fs *flag.FlagSet, msg string, args []string) string {
+	if sub := flagInMessage.FindStringSubmatch(msg); sub != nil && strings.HasSuffix(msg, ": parse error") {
+		if f := fs.Lookup(sub[2]); f != nil {
+			want := "a number"
+			if _, err := strconv.Atoi(f.DefValue); err == nil {
+				want = "a whole number"
+			}
+			msg = strings.TrimSuffix(msg, "parse error") + "not " + want
+		}
+	}
+	msg = valueInMessage.ReplaceAllStringFunc(msg, func(m string) string {
+		v, err := strconv.Unquote(valueInMessage.FindStringSubmatch(m)[1])
+		if err != nil {
+			return m
+		}
+		return "invalid value " + quote(v) + " for "
+	})
+	return flagInMessage.ReplaceAllStringFunc(msg, func(m string) string {
+		sub := flagInMessage.FindStringSubmatch(m)
+		name := sub[2]
+		typed := "-" + name
+		for _, a := range args {
+			if a == "--" {
+				break
+			}
+			if a == "--"+name || strings.HasPrefix(a, "--"+name+"=") {
+				typed = "--" + name
+				break
+			}
+		}
+		return sub[1] + quoteArg(typed)
+	})
+}
+
+// quoteArg cuts a user's argument to a few dozen characters for a message.
+func quoteArg(s string) string {
+	if len(s) > 40 {
+		return s[:40] + "..."
+	}
+	return s
+}
+
+// duration is a flag value like 90s or 10m whose errors say what is wrong.
+type duration time.Duration
+
+func (d *duration) String() string { return time.Duration(*d).String() }
+
+func (d *duration) Set(s string) error {
+	v, err := time.ParseDuration(s)
+	if err != nil {
+		if _, nerr := strconv.ParseFloat(s, 64); nerr == nil {
+			return fmt.Errorf("%s has no unit; write e.g. %ss, 90s or 10m", quote(s), s)
+		}
+		return errors.New("not a duration; write e.g. 90s, 10m or 1h30m")
+	}
+	*d = duration(v)
 	return nil
 }

@@ -12,6 +12,7 @@ import (
 	"os/signal"
 	"runtime/debug"
 	"sort"
+	"strings"
 )
 
 // Exit codes, documented in the README.
@@ -37,13 +38,21 @@ var commands = map[string]command{}
 // buffer in tests.
 type env struct {
 	stdout, stderr io.Writer
+	// progress is true when live progress may be drawn on stderr (a
+	// terminal); --quiet turns it off.
+	progress bool
 }
 
 func main() {
+	os.Exit(runProcess())
+}
+
+// runProcess runs the command line of this process, with Ctrl-C (SIGINT)
+// cancelling the context: every command then stops and exits 4.
+func runProcess() int {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
-	code := run(ctx, &env{stdout: os.Stdout, stderr: os.Stderr}, os.Args[1:])
-	stop()
-	os.Exit(code)
+	defer stop()
+	return run(ctx, &env{stdout: os.Stdout, stderr: os.Stderr, progress: progressWanted(os.Stderr)}, os.Args[1:])
 }
 
 func run(ctx context.Context, e *env, args []string) int {
@@ -53,24 +62,37 @@ func run(ctx context.Context, e *env, args []string) int {
 	}
 	name := args[0]
 	if name == "help" || name == "-h" || name == "--help" || name == "-help" {
-		if len(args) > 1 {
-			if c, ok := commands[args[1]]; ok {
-				fmt.Fprint(e.stdout, c.usage)
-				return exitOK
-			}
-			fmt.Fprintf(e.stderr, "avoidcert: no command %q; run 'avoidcert help' for the list\n", args[1])
+		switch {
+		case len(args) > 2:
+			fmt.Fprintln(e.stderr, "avoidcert: help takes at most one command name, e.g. 'avoidcert help bound'")
 			return exitUsage
+		case len(args) == 1:
+			printOverview(e.stdout)
+		case args[1] == "help":
+			fmt.Fprint(e.stdout, helpUsage)
+		case args[1] == "version":
+			fmt.Fprint(e.stdout, versionUsage)
+		default:
+			c, ok := commands[args[1]]
+			if !ok {
+				fmt.Fprintf(e.stderr, "avoidcert: no command %s; run 'avoidcert help' for the list\n", quote(args[1]))
+				return exitUsage
+			}
+			fmt.Fprint(e.stdout, c.usage)
 		}
-		printOverview(e.stdout)
 		return exitOK
 	}
 	if name == "version" || name == "--version" {
+		if len(args) > 1 {
+			fmt.Fprintln(e.stderr, "avoidcert: version takes no arguments")
+			return exitUsage
+		}
 		fmt.Fprintln(e.stdout, "avoidcert", version)
 		return exitOK
 	}
 	c, ok := commands[name]
 	if !ok {
-		fmt.Fprintf(e.stderr, "avoidcert: no command %q; run 'avoidcert help' for the list\n", name)
+		fmt.Fprintf(e.stderr, "avoidcert: no command %s; run 'avoidcert help' for the list\n", quote(name))
 		return exitUsage
 	}
 	return c.run(ctx, e, args[1:])
@@ -78,6 +100,16 @@ func run(ctx context.Context, e *env, args []string) int {
 
 // version is the producing tool's version, written into certificates.
 const version = "0.1.0"
+
+const helpUsage = `Usage: avoidcert help [COMMAND]
+
+Without a command, lists the commands; with one, prints its usage and flags.
+`
+
+const versionUsage = `Usage: avoidcert version
+
+Prints the version of avoidcert, the one written into its certificates.
+`
 
 func printOverview(w io.Writer) {
 	fmt.Fprint(w, `avoidcert: exact counts, certified growth rates and checkable certificates
@@ -107,7 +139,8 @@ Exit codes: 0 success, 1 a claim or check failed, 2 usage or input error,
 }
 
 // failure reports an error on stderr and picks the exit code: usage and
-// input errors are 2, an interrupt or anything unexpected is 4.
+// input errors are 2, a --timeout that ran out before there was anything
+// to report is 3, an interrupt or anything unexpected is 4.
 func failure(e *env, err error) int {
 	var ue usageError
 	switch {
@@ -115,8 +148,18 @@ func failure(e *env, err error) int {
 		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)
 		return exitUsage
 	case errors.Is(err, context.Canceled):
-		fmt.Fprintln(e.stderr, "avoidcert: interrupted; nothing was written")
-		return exitAborted
+		return interrupted(e)
+	case errors.Is(err, context.DeadlineExceeded):
+		fmt.Fprintln(e.stderr, "avoidcert: undecided: --timeout ran out before a first result; nothing was written; raise --timeout")
+		return exitUndecided
+	case strings.Contains(err.Error(), "before the first bracket"):
+		// bounds stops before its first bracket only for a budget
+		// (--timeout, --max-memory, --max-k): undecided, not a fault.
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise the budget\n", err)
+		return exitUndecided
+	case strings.Contains(err.Error(), "memory budget of"):
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v: raise --max-memory; nothing was written\n", err)
+		return exitUndecided
 	default:
 		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)
 		return exitAborted
@@ -139,10 +182,16 @@ func limitMemory(bytes int64) {
 	debug.SetMemoryLimit(bytes)
 }
 
+// interrupted reports a Ctrl-C: exit 4, nothing written.
+func interrupted(e *env) int {
+	fmt.Fprintln(e.stderr, "avoidcert: interrupted; nothing was written")
+	return exitAborted
+}
+
 // writeJSON prints v as one line of JSON, without HTML escaping ("<" stays
 // "<": the explanations compare numbers).
-func writeJSON(e *env, v any) {
-	enc := json.NewEncoder(e.stdout)
+func writeJSON(w io.Writer, v any) {
+	enc := json.NewEncoder(w)
 	enc.SetEscapeHTML(false)
 	if err := enc.Encode(v); err != nil {
 		panic(err) // only plain data is encoded here

@@ -2,9 +2,13 @@ package main
 
 import (
 	"bytes"
-	"context"
+	"errors"
 	"os"
+	"os/exec"
+	"strconv"
+	"strings"
 	"testing"
+	"time"
 
 	"github.com/rogpeppe/go-internal/testscript"
 )
@@ -14,7 +18,7 @@ import (
 func TestMain(m *testing.M) {
 	testscript.Main(m, map[string]func(){
 		"avoidcert": func() {
-			os.Exit(run(context.Background(), &env{stdout: os.Stdout, stderr: os.Stderr}, os.Args[1:]))
+			os.Exit(runProcess())
 		},
 	})
 }
@@ -23,8 +27,14 @@ func TestMain(m *testing.M) {
 // lines, their exit codes and the expected output.
 func TestScripts(t *testing.T) {
 	testscript.Run(t, testscript.Params{
-		Dir:  "testdata/script",
-		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){"replace": replaceCmd},
+		Dir: "testdata/script",
+		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){
+			"replace":   replaceCmd,
+			"exits":     exitsCmd,
+			"interrupt": interruptCmd,
+			"age":       ageCmd,
+			"mkfifo":    mkfifoCmd,
+		},
 	})
 }
 
@@ -43,4 +53,75 @@ func replaceCmd(ts *testscript.TestScript, neg bool, args []string) {
 		ts.Fatalf("replace: %q not found in %s", args[1], args[0])
 	}
 	ts.Check(os.WriteFile(path, bytes.Replace(data, old, []byte(args[2]), 1), 0o644))
+}
+
+// exitsCmd is "exits CODE PROG ARGS...": it runs the command like exec
+// and fails unless it exits with exactly CODE.
+func exitsCmd(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) < 2 {
+		ts.Fatalf("usage: exits CODE PROG ARGS...")
+	}
+	want, err := strconv.Atoi(args[0])
+	ts.Check(err)
+	if got := exitCode(ts, ts.Exec(args[1], args[2:]...)); got != want {
+		ts.Fatalf("exit code %d, want %d", got, want)
+	}
+}
+
+// interruptCmd is "interrupt CODE AFTER PROG ARGS...": it starts the
+// command, sends it SIGINT (Ctrl-C) after the duration AFTER, and fails
+// unless it then exits with exactly CODE within a minute.
+func interruptCmd(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) < 3 {
+		ts.Fatalf("usage: interrupt CODE AFTER PROG ARGS...")
+	}
+	want, err := strconv.Atoi(args[0])
+	ts.Check(err)
+	after, err := time.ParseDuration(args[1])
+	ts.Check(err)
+	cmd := exec.Command(args[2], args[3:]...)
+	cmd.Dir = ts.MkAbs(".")
+	var stdout, stderr strings.Builder
+	cmd.Stdout, cmd.Stderr = &stdout, &stderr
+	ts.Check(cmd.Start())
+	time.Sleep(after)
+	ts.Check(cmd.Process.Signal(os.Interrupt))
+	done := make(chan error, 1)
+	go func() { done <- cmd.Wait() }()
+	select {
+	case err = <-done:
+	case <-time.After(time.Minute):
+		cmd.Process.Kill()
+		ts.Fatalf("still running a minute after SIGINT")
+	}
+	ts.Stdout().Write([]byte(stdout.String()))
+	ts.Stderr().Write([]byte(stderr.String()))
+	if got := exitCode(ts, err); got != want {
+		ts.Fatalf("exit code %d after SIGINT, want %d\n%s", got, want, stderr.String())
+	}
+}
+
+func exitCode(ts *testscript.TestScript, err error) int {
+	var ee *exec.ExitError
+	switch {
+	case err == nil:
+		return 0
+	case errors.As(err, &ee):
+		return ee.ExitCode()
+	}
+	ts.Fatalf("%v", err)
+	return -1
+}
+
+// ageCmd is "age FILE D": it sets FILE's modification time D back (a
+// negative D is in the future), as if an earlier run had left it (or a
+// concurrent one were writing it).
+func ageCmd(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) != 2 {
+		ts.Fatalf("usage: age FILE DURATION")
+	}
+	d, err := time.ParseDuration(args[1])
+	ts.Check(err)
+	when := time.Now().Add(-d)
+	ts.Check(os.Chtimes(ts.MkAbs(args[0]), when, when))
 }

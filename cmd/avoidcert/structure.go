@@ -3,6 +3,8 @@ package main
 import (
 	"context"
 	"fmt"
+	"io"
+	"strings"
 
 	"avoidcert/pattern"
 	"avoidcert/structure"
@@ -56,9 +58,9 @@ func runStructure(ctx context.Context, e *env, args []string) int {
 		return exitOK
 	}
 	fmt.Fprintf(e.stdout, "patterns: %s (window length %d)\n", set, set.Window())
-	fmt.Fprintf(e.stdout, "class: %s\n", classLine(rep))
+	printWrapped(e.stdout, "class: "+classLine(rep), "  ")
 	for _, line := range rep.Explanation {
-		fmt.Fprintf(e.stdout, "  %s\n", line)
+		printWrapped(e.stdout, "  "+line, "    ")
 	}
 	if *witnesses && rep.Witnesses != nil {
 		fmt.Fprintf(e.stdout, "witnesses (joint pattern of first %d and last %d entries: an avoiding permutation of length %d):\n",
@@ -77,7 +79,8 @@ func classLine(rep *structure.Report) string {
 	case structure.Primitive:
 		return fmt.Sprintf("primitive, exponent %d: a_n/n! = c lambda^n (1 + O(theta^n)) with c > 0, theta < 1", rep.Exponent)
 	case structure.Periodic:
-		return fmt.Sprintf("periodic, period %d: irreducible, lambda bracketed through T^%d", rep.Period, rep.Period)
+		return fmt.Sprintf("periodic, period %d: a_n/n! = lambda^n (c_(n mod %d) + o(1)) with constants c_r >= 0 (proved); one constant for every n is not proved; lambda bracketed through T^%d",
+			rep.Period, rep.Period, rep.Period)
 	case structure.Reducible:
 		return "reducible: lambda is the largest over the strongly connected blocks"
 	case structure.Finite:
@@ -113,14 +116,8 @@ func writeStructureJSON(e *env, rep *structure.Report, withWitnesses bool) {
 		Cells: rep.Cells, Windows: rep.Windows, Components: len(rep.Digraph.Components),
 		Exact: rep.Exact, Explanation: rep.Explanation,
 	}
-	switch rep.Class {
-	case structure.Primitive:
-		out.Exponent = &rep.Exponent
-		one := 1
-		out.Period = &one
-	case structure.Periodic:
-		out.Period = &rep.Period
-	case structure.Finite:
+	out.Period, out.Exponent = periodExponent(rep)
+	if rep.Class == structure.Finite {
 		out.N1 = &rep.N1
 	}
 	if rep.CyclicAvoider != nil {
@@ -133,5 +130,44 @@ func writeStructureJSON(e *env, rep *structure.Report, withWitnesses bool) {
 			return true
 		})
 	}
-	writeJSON(e, out)
+	writeJSON(e.stdout, out)
+}
+
+// periodExponent returns the period (1 for primitive sets) and the
+// exponent of a report, nil where they do not apply.
+func periodExponent(rep *structure.Report) (period, exponent *int) {
+	switch rep.Class {
+	case structure.Primitive:
+		one := 1
+		return &one, &rep.Exponent
+	case structure.Periodic:
+		return &rep.Period, nil
+	}
+	return nil, nil
+}
+
+// lineWidth is the width text output is wrapped to.
+const lineWidth = 100
+
+// printWrapped prints text wrapped at spaces to lineWidth columns, the
+// continuation lines indented by indent. A word longer than a line stays
+// whole.
+func printWrapped(w io.Writer, text, indent string) {
+	line := ""
+	for _, word := range strings.Fields(text) {
+		switch {
+		case line == "":
+			line = leadingSpace(text) + word
+		case len(line)+1+len(word) > lineWidth:
+			fmt.Fprintln(w, line)
+			line = indent + word
+		default:
+			line += " " + word
+		}
+	}
+	fmt.Fprintln(w, line)
+}
+
+func leadingSpace(s string) string {
+	return s[:len(s)-len(strings.TrimLeft(s, " "))]
 }

@@ -1,0 +1,214 @@
+package main
+
+import (
+	"cmp"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"strings"
+	"time"
+)
+
+// outFile is where a command writes a file it produces: a path, standard
+// output ("-"), or nowhere (the zero value with skip set).
+//
+// The policy, checked before the work and again just before the write:
+//   - a regular file is replaced atomically (a temp file in the same folder,
+//     then a rename), keeping its permission bits;
+//   - a missing file is created (mode 0644) in an existing folder;
+//   - a symbolic link is written through: its final target is replaced or
+//     created under the same rules, and the link itself stays;
+//   - a folder, a device, a FIFO, a socket, or a link to one of them is
+//     refused, as is a missing folder.
+//
+// Temp files are named ".NAME.avoidcert-tmp-DIGITS" beside the target. A run
+// killed while writing leaves one behind; the next write to the same NAME
+// removes those that are older than its own process.
+type outFile struct {
+	path   string // as the user gave it; "-" for standard output
+	target string // the file to replace: path with symbolic links followed
+	stdout bool
+	skip   bool
+}
+
+// tempInfix marks our temp files; after it come only digits.
+const tempInfix = ".avoidcert-tmp-"
+
+// started is when this process began, to tell a killed run's temp file
+// from one a concurrent run is writing.
+var started = time.Now()
+
+// openOut checks path as a destination before any work is done. The
+// error is a usageError that names the problem and what to do.
+func openOut(cmd, flag, path string, skip bool) (*outFile, error) {
+	switch {
+	case skip:
+		return &outFile{skip: true}, nil
+	case path == "-":
+		return &outFile{path: "-", stdout: true}, nil
+	}
+	o := &outFile{path: path}
+	if err := o.resolve(); err != nil {
+		return nil, usagef("%s: cannot write to %s: %v; choose another %s", cmd, quote(path), err, flag)
+	}
+	// A folder we may not write in fails now, not after the work.
+	dir, base := filepath.Split(o.target)
+	probe, err := os.CreateTemp(cmp.Or(dir, "."), "."+base+tempInfix+"*")
+	if err != nil {
+		return nil, usagef("%s: cannot write to %s: %v; choose another %s", cmd, quote(path), err, flag)
+	}
+	probe.Close()
+	os.Remove(probe.Name())
+	return o, nil
+}
+
+// resolve follows symbolic links from o.path and checks what it finds.
+func (o *outFile) resolve() error {
+	p := o.path
+	for hops := 0; ; hops++ {
+		if hops > 40 {
+			return errors.New("too many levels of symbolic links")
+		}
+		info, err := os.Lstat(p)
+		switch {
+		case errors.Is(err, fs.ErrNotExist):
+			dir := filepath.Dir(p)
+			if d, derr := os.Stat(dir); derr != nil || !d.IsDir() {
+				return fmt.Errorf("folder %s does not exist", quote(dir))
+			}
+			o.target = p
+			return nil
+		case err != nil:
+			return err
+		case info.Mode()&fs.ModeSymlink != 0:
+			link, err := os.Readlink(p)
+			if err != nil {
+				return err
+			}
+			if !filepath.IsAbs(link) {
+				link = filepath.Join(filepath.Dir(p), link)
+			}
+			p = link
+		case info.IsDir():
+			return errors.New("it is a folder; name a file inside it")
+		case !info.Mode().IsRegular():
+			return fmt.Errorf("it is a %s, not a regular file, and is never replaced", kindOf(info.Mode()))
+		default:
+			o.target = p
+			return nil
+		}
+	}
+}
+
+func kindOf(m fs.FileMode) string {
+	switch {
+	case m&fs.ModeNamedPipe != 0:
+		return "FIFO (named pipe)"
+	case m&fs.ModeSocket != 0:
+		return "socket"
+	case m&fs.ModeCharDevice != 0:
+		return "character device"
+	case m&fs.ModeDevice != 0:
+		return "device"
+	}
+	return "special file"
+}
+
+// describe says where the file went, for the command's report.
+func (o *outFile) describe() string {
+	switch {
+	case o.skip:
+		return "not written (--no-certificate)"
+	case o.stdout:
+		return "written to standard output"
+	case o.target != o.path:
+		return fmt.Sprintf("%s (written through the link to %s)", o.path, o.target)
+	}
+	return o.path
+}
+
+// write stores data: to stdout, or atomically at the target, after the
+// checks of openOut are repeated (the path may have changed during the
+// work). Temp files left by earlier killed runs for the same target are
+// removed first.
+func (o *outFile) write(stdout io.Writer, data []byte) (err error) {
+	switch {
+	case o.skip:
+		return nil
+	case o.stdout:
+		_, err := stdout.Write(data)
+		return err
+	}
+	if err := o.resolve(); err != nil {
+		return err
+	}
+	dir, base := filepath.Split(o.target)
+	dir = cmp.Or(dir, ".")
+	removeStaleTemps(dir, base)
+	mode := fs.FileMode(0o644)
+	if info, err := os.Stat(o.target); err == nil {
+		mode = info.Mode().Perm()
+	}
+	tmp, err := os.CreateTemp(dir, "."+base+tempInfix+"*")
+	if err != nil {
+		return err
+	}
+	defer func() {
+		if err != nil {
+			tmp.Close()
+			os.Remove(tmp.Name())
+		}
+	}()
+	if _, err = tmp.Write(data); err != nil {
+		return err
+	}
+	if err = tmp.Chmod(mode); err != nil {
+		return err
+	}
+	if err = tmp.Sync(); err != nil {
+		return err
+	}
+	if err = tmp.Close(); err != nil {
+		return err
+	}
+	if err = os.Rename(tmp.Name(), o.target); err != nil {
+		return err
+	}
+	if d, derr := os.Open(dir); derr == nil {
+		d.Sync() // make the rename durable where the platform allows
+		d.Close()
+	}
+	return nil
+}
+
+// removeStaleTemps removes regular files named exactly
+// ".BASE.avoidcert-tmp-DIGITS" in dir that were last modified before this
+// process started: a run killed while writing left them.
+func removeStaleTemps(dir, base string) {
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		return
+	}
+	prefix := "." + base + tempInfix
+	for _, e := range entries {
+		suffix, ok := strings.CutPrefix(e.Name(), prefix)
+		if !ok || suffix == "" || strings.Trim(suffix, "0123456789") != "" || !e.Type().IsRegular() {
+			continue
+		}
+		if info, err := e.Info(); err == nil && info.ModTime().Before(started) {
+			os.Remove(filepath.Join(dir, e.Name()))
+		}
+	}
+}
+
+// quote quotes s for a message, cut to a few dozen characters.
+func quote(s string) string {
+	const most = 60
+	if len(s) > most {
+		return fmt.Sprintf("%q... (%d bytes)", s[:most], len(s))
+	}
+	return fmt.Sprintf("%q", s)
+}
