@@ -21,3 +21,4 @@ func benchCounts(b *testing.B, set string, n int) {
 		}
 	}
 }
+func BenchmarkCounts123To600(b *testing.B) { benchCounts(b, "123", 600) }
