@@ -160,14 +160,27 @@ func factorial(n int) int {
 	return f
 }
 
-// unrank returns the permutation of 1..n of lexicographic rank r.
+// unrank returns the permutation of 1..n of lexicographic rank r: its
+// i-th entry is the d-th smallest value not used yet, d the i-th digit of
+// r in the factorial base.
 func unrank(n, r int) []int {
-	fact := make([]int, n+1)
-	fact[0] = 1
-	for i := 1; i <= n; i++ {
-		fact[i] = fact[i-1] * i
+	q := make([]int, 0, n)
+	used := make([]bool, n+1)
+	for i := range n {
+		f := factorial(n - 1 - i)
+		d := r / f
+		r %= f
+		for v := 1; v <= n; v++ {
+			if used[v] {
+				continue
+			}
+			if d == 0 {
+				q = append(q, v)
+				used[v] = true
+				break
+			}
+			d--
+		}
 	}
-	q, d := make([]int, n), make([]int, n)
-	unrankInto(r, q, d, fact)
 	return q
 }

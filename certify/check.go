@@ -155,6 +155,15 @@ func (ck *checker) startN(b Bracket) int {
 	return n
 }
 
+// firstN is the least N of a bracket of b's system: the longest state (M)
+// for the whole system, n_s for a restricted one.
+func (ck *checker) firstN(b Bracket) int {
+	if ck.whole(b) {
+		return ck.sp.maxLen
+	}
+	return ck.startN(b)
+}
+
 // statement checks everything that needs no iterate: the set, the derived
 // fields, the form of the brackets, and that the claims follow from the
 // brackets' claims.
@@ -228,8 +237,8 @@ func (ck *checker) statement() error {
 			return fmt.Errorf("evidence.brackets[%d].start: %s, but all states make the whole system, which starts empty", i, b.Start)
 		case !ck.whole(b) && b.Start == StartEmpty:
 			return fmt.Errorf("evidence.brackets[%d].start: empty is the whole system's start; a restricted system starts ones or whole", i)
-		case b.N < max(ck.startN(b), ck.sp.maxLen*boolInt(ck.whole(b))):
-			return fmt.Errorf("%s: n is below %d, where this system's brackets begin (every state of it must have coefficients)", ck.describe(i), max(ck.startN(b), ck.sp.maxLen*boolInt(ck.whole(b))))
+		case b.N < ck.firstN(b):
+			return fmt.Errorf("%s: n is below %d, where this system's brackets begin (every state of it must have coefficients)", ck.describe(i), ck.firstN(b))
 		}
 		if i > 0 && compareBrackets(brackets[i-1], b) >= 0 {
 			return fmt.Errorf("evidence.brackets[%d]: brackets must be distinct and in canonical order (more states first, then states, start, step, n)", i)
@@ -239,13 +248,6 @@ func (ck *checker) statement() error {
 		return err
 	}
 	return ck.structureClaims()
-}
-
-func boolInt(b bool) int {
-	if b {
-		return 1
-	}
-	return 0
 }
 
 // claims checks that the statement follows from the brackets' own claims

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"math/big"
+	"runtime"
 	"strings"
 	"testing"
 
@@ -343,5 +344,61 @@ func TestCancelAndProgress(t *testing.T) {
 	cancel()
 	if err := certify.Check(ctx, c, certify.CheckOptions{}); !errors.Is(err, context.Canceled) {
 		t.Fatalf("cancelled check: got %v", err)
+	}
+}
+
+// BenchmarkCheck times the checker on one whole-system certificate of 1342
+// at N = 120 (about 50 digits; the certificate is built once, outside the
+// timing): go test ./certify/ -run X -bench Check -benchtime 1x
+func BenchmarkCheck(b *testing.B) {
+	for _, tc := range []struct {
+		given string
+		n     int
+	}{{"1342", 120}, {"12345", 60}} {
+		b.Run(tc.given, func(b *testing.B) {
+			c := wholeCert(b, tc.given, tc.n)
+			var total int64
+			certify.Check(bg, c, certify.CheckOptions{MaxWork: 1, Progress: func(_, t int64) { total = t }})
+			err := certify.Check(bg, c, certify.CheckOptions{MaxWork: 1})
+			b.Log(err)
+			b.ResetTimer()
+			for range b.N {
+				if err := certify.Check(bg, c, certify.CheckOptions{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			_ = total
+		})
+	}
+}
+
+// TestSameVerdictOnAnyCores: the iteration's goroutines never change a
+// verdict or a message.
+func TestSameVerdictOnAnyCores(t *testing.T) {
+	good := wholeCert(t, "1342", 12)
+	bad := wholeCert(t, "1342", 12)
+	bad.Evidence.Brackets[0].Hi = new(big.Rat).Mul(bad.Evidence.Brackets[0].Hi, big.NewRat(999999, 1000000))
+	bad.Statement.Lambda.Hi, bad.Statement.AllN.MuHi = bad.Evidence.Brackets[0].Hi, bad.Evidence.Brackets[0].Hi
+	bad.Statement.Radius.Lo = new(big.Rat).Inv(bad.Evidence.Brackets[0].Hi)
+	if err := certify.Derive(bad); err != nil {
+		t.Fatal(err)
+	}
+	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(0))
+	var messages []string
+	for _, procs := range []int{1, 2, 3, 7} {
+		runtime.GOMAXPROCS(procs)
+		if err := certify.Check(bg, good, certify.CheckOptions{}); err != nil {
+			t.Fatalf("GOMAXPROCS %d: %v", procs, err)
+		}
+		err := certify.Check(bg, bad, certify.CheckOptions{})
+		if err == nil {
+			t.Fatalf("GOMAXPROCS %d: a lowered hi accepted", procs)
+		}
+		messages = append(messages, err.Error())
+	}
+	for _, m := range messages[1:] {
+		if m != messages[0] {
+			t.Fatalf("messages differ with the number of goroutines: %q and %q", messages[0], m)
+		}
 	}
 }

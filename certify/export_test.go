@@ -10,29 +10,6 @@ import (
 // producer of real certificates is the engine's (certify/produce), and the
 // engine's agreement with the checker is tested in internal/conformance.
 
-// Canonical exposes the checker's own irredundant set and its symmetry
-// representative of the given tokens.
-func Canonical(given []string) (patterns, canonical []string, err error) {
-	s, err := parseSet(given)
-	if err != nil {
-		return nil, nil, err
-	}
-	return s.strings(), s.canonical().strings(), nil
-}
-
-// StateStrings returns the prefix states of the set, in state order.
-func StateStrings(given []string) ([]string, error) {
-	s, err := parseSet(given)
-	if err != nil {
-		return nil, err
-	}
-	var out []string
-	for _, p := range newStateSpace(s).states {
-		out = append(out, "("+formatPerm(p)+")")
-	}
-	return out, nil
-}
-
 // Iterate returns G_n of the system on states (nil: whole) with the given
 // start, as one slice of coefficients per state (nil outside the system or
 // for states longer than n), its digest and its sum.
@@ -41,8 +18,8 @@ func Iterate(given []string, states []int, start Start, n int) (coef [][]*big.In
 	for _, t := range g.tables {
 		var c []*big.Int
 		if t != nil {
-			for r := range t.v {
-				c = append(c, new(big.Int).Set(&t.v[r]))
+			for r := range t.size() {
+				c = append(c, toBig(t.at(r)))
 			}
 		}
 		coef = append(coef, c)
@@ -98,16 +75,16 @@ func MakeBracket(given []string, states []int, start Start, d, N int, upper bool
 		if t == nil {
 			continue
 		}
-		for r := range t.v {
-			H := new(big.Int)
+		for r := range t.size() {
+			N, H := toBig(t.at(r)), new(big.Int)
 			if h.tables[p] != nil {
-				H = &h.tables[p].v[r]
+				H = toBig(h.tables[p].at(r))
 			}
 			if H.Sign() == 0 {
-				infinite = infinite || t.v[r].Sign() > 0
+				infinite = infinite || N.Sign() > 0
 				continue
 			}
-			ratio := new(big.Rat).SetFrac(&t.v[r], H)
+			ratio := new(big.Rat).SetFrac(N, H)
 			if lo == nil || ratio.Cmp(lo) < 0 {
 				lo = ratio
 			}

@@ -5,6 +5,7 @@ import (
 	"crypto/sha256"
 	"encoding/binary"
 	"math/big"
+	"runtime"
 )
 
 // This file computes the iterates G_n on prefix states (docs/prefix-states.md)
@@ -22,6 +23,7 @@ type system struct {
 	bin     binomials
 	in      []bool     // per state: part of the system
 	inbound [][]inMove // per state q: the moves of the system that lead to q
+	scratch []scratch  // per goroutine of eachState
 }
 
 type inMove struct {
@@ -40,7 +42,7 @@ type iterate struct {
 // maxN bounds the n that will be reached.
 func newSystem(sp *stateSpace, states []int, maxN int) *system {
 	sys := &system{sp: sp, bin: newBinomials(maxN + 2*MaxPatternLength + 2), in: make([]bool, len(sp.states)),
-		inbound: make([][]inMove, len(sp.states))}
+		inbound: make([][]inMove, len(sp.states)), scratch: make([]scratch, runtime.GOMAXPROCS(0))}
 	if states == nil {
 		for p := range sys.in {
 			sys.in[p] = true
@@ -62,8 +64,8 @@ func newSystem(sp *stateSpace, states []int, maxN int) *system {
 // emptyStart returns the whole system's G_0: 1 on the empty state.
 func (sys *system) emptyStart() *iterate {
 	g := &iterate{n: 0, tables: make([]*table, len(sys.in))}
-	g.tables[0] = sys.bin.newTable(1, 0)
-	g.tables[0].v[0].SetInt64(1)
+	g.tables[0] = sys.bin.newTable(1, 0, wordsFor(0))
+	g.tables[0].at(0)[0] = 1
 	return g
 }
 
@@ -73,9 +75,9 @@ func (sys *system) onesStart(n int) *iterate {
 	g := &iterate{n: n, tables: make([]*table, len(sys.in))}
 	for p, ok := range sys.in {
 		if ok {
-			t := sys.bin.newTable(len(sys.sp.states[p])+1, n-len(sys.sp.states[p]))
-			for r := range t.v {
-				t.v[r].SetInt64(1)
+			t := sys.bin.newTable(len(sys.sp.states[p])+1, n-len(sys.sp.states[p]), wordsFor(n))
+			for r := range t.size() {
+				t.at(r)[0] = 1
 			}
 			g.tables[p] = t
 		}
@@ -100,8 +102,8 @@ func (sys *system) restrict(g *iterate) *iterate {
 // stops it between states.
 func (sys *system) next(ctx context.Context, g *iterate) (*iterate, error) {
 	out := &iterate{n: g.n + 1, tables: make([]*table, len(sys.in))}
-	err := eachState(ctx, len(sys.in), func(q int) error {
-		out.tables[q] = sys.pull(g, q)
+	err := eachState(ctx, len(sys.scratch), len(sys.in), func(worker, q int) error {
+		out.tables[q] = sys.pull(&sys.scratch[worker], g, q)
 		return nil
 	})
 	if err != nil {
@@ -110,13 +112,16 @@ func (sys *system) next(ctx context.Context, g *iterate) (*iterate, error) {
 	return out, nil
 }
 
-// pull computes G_(n+1)[q] from the moves into q.
-func (sys *system) pull(g *iterate, q int) *table {
+// pull computes G_(n+1)[q] from the moves into q, with sc for its
+// temporary tables.
+func (sys *system) pull(sc *scratch, g *iterate, q int) *table {
 	L := len(sys.sp.states[q])
 	if !sys.in[q] || L > g.n+1 {
 		return nil
 	}
-	dst := sys.bin.newTable(L+1, g.n+1-L)
+	words := wordsFor(g.n + 1)
+	dst := sys.bin.newTable(L+1, g.n+1-L, words)
+	var diff []uint64 // moves into a one-value state that drop old values
 	for _, mv := range sys.inbound[q] {
 		src := g.tables[mv.from]
 		if src == nil {
@@ -126,31 +131,107 @@ func (sys *system) pull(g *iterate, q int) *table {
 			sys.bin.spreadAdd(dst, src, mv.gap)
 			continue
 		}
-		// the first dropped value, of rank r among the L+1 values after
-		// the insertion (the new value has rank gap+1 and is never dropped)
-		var t *table
-		switch r, i := mv.drops[0], mv.gap; {
-		case r == i:
-			t = sys.bin.insertMerge(src, i, -1)
-		case r == i+2:
-			t = sys.bin.insertMerge(src, i, +1)
-		case r < i: // merge a_(r-1) and a_r first; gap i is then gap i-1
-			merged := sys.bin.merge(src, r-1)
-			t = sys.bin.newTable(merged.parts+1, merged.degree)
-			sys.bin.spreadAdd(t, merged, i-1)
-		default: // r > i+2: a_(r-2) and a_(r-1)
-			merged := sys.bin.merge(src, r-2)
-			t = sys.bin.newTable(merged.parts+1, merged.degree)
-			sys.bin.spreadAdd(t, merged, i)
+		if L == 1 { // every old value is dropped: a range of dst per entry
+			if diff == nil {
+				diff = sc.words((dst.size() + 1) * words)
+			}
+			pushToOne(diff, words, src, mv.gap)
+			continue
 		}
-		for _, r := range mv.drops[1:] {
-			t = sys.bin.merge(t, r-1)
+		sys.dropMove(sc, dst, src, mv.gap, mv.drops)
+	}
+	if diff != nil {
+		run := make([]uint64, words)
+		for x := range dst.size() {
+			addWords(run, diff[x*words:(x+1)*words]) // modulo 2^(64 words)
+			addWords(dst.at(x), run)
 		}
-		for r := range dst.v {
-			dst.v[r].Add(&dst.v[r], &t.v[r])
-		}
+		sc.releaseWords(diff)
 	}
 	return dst
+}
+
+// dropMove adds into dst what a move that drops old values makes of src
+// (the table of its source state, L values): the new value goes into gap
+// i and the drops merge runs of gaps. Dropping is associative, so the
+// runs of src's gaps that end up in one gap of dst away from the new value
+// are merged first, in src (each merge a pass that shrinks the table), and
+// so are the runs that join the gap just below the new value (X) or just
+// above it (Y). Then the new value goes in: a spread, or a running sum
+// along the line where X or Y meets its piece of gap i (insertMergeAdd),
+// and where both do, one running sum into a temporary table and one merge.
+func (sys *system) dropMove(sc *scratch, dst, src *table, i int, drops []int) {
+	L := src.parts - 1
+	// the final gaps as runs of the gaps c_0..c_(L+1) after the insertion
+	// (c_i and c_(i+1) are the two pieces of gap i)
+	runs := make([][2]int, L+2)
+	for t := range runs {
+		runs[t] = [2]int{t, t}
+	}
+	for _, r := range drops { // dropping the value of rank r joins runs r-1 and r
+		runs[r-1][1] = runs[r][1]
+		runs = append(runs[:r], runs[r+1:]...)
+	}
+	toA := func(t int) int { // the gap of src a c-gap other than c_i, c_(i+1) is
+		if t > i {
+			return t - 1
+		}
+		return t
+	}
+	var groups [][2]int // runs of src's gaps to merge, increasing
+	below, above := false, false
+	for _, run := range runs {
+		lo, hi := run[0], run[1]
+		switch {
+		case lo <= i && i <= hi: // ends with c_i: a_lo..a_(i-1) become X
+			below = lo < i
+			hi = i - 1
+		case lo <= i+1 && i+1 <= hi: // starts with c_(i+1): a_(i+1)..a_(hi-1) become Y
+			above = hi > i+1
+			lo, hi = i+1, hi-1
+		default:
+			lo, hi = toA(lo), toA(hi)
+		}
+		if hi > lo {
+			groups = append(groups, [2]int{lo, hi})
+		}
+	}
+	words := dst.words
+	t, gap := src, i
+	for g := len(groups) - 1; g >= 0; g-- { // from the right, so lower indices stay
+		lo, hi := groups[g][0], groups[g][1]
+		for range hi - lo {
+			merged := sys.bin.merge(sc, t, lo, words)
+			if t != src {
+				sc.release(t)
+			}
+			t = merged
+		}
+		if hi < i {
+			gap -= hi - lo
+		}
+	}
+	switch {
+	case below && above:
+		tmp := sc.table(sys.bin, t.parts, t.degree+1, words)
+		sys.bin.insertMergeAdd(tmp, t, gap, -1) // (.., X+b+1, a_i-b, Y, ..)
+		joined := sys.bin.merge(sc, tmp, gap, words)
+		sc.release(tmp)
+		// one pass over the flat words (joined and dst have one width): no
+		// coefficient overflows it (wordsFor), so no carry crosses into
+		// the next one
+		addWords(dst.w, joined.w)
+		sc.release(joined)
+	case below:
+		sys.bin.insertMergeAdd(dst, t, gap, -1)
+	case above:
+		sys.bin.insertMergeAdd(dst, t, gap, +1)
+	default:
+		sys.bin.spreadAdd(dst, t, gap)
+	}
+	if t != src {
+		sc.release(t)
+	}
 }
 
 // sum returns the sum of every coefficient of g.
@@ -158,9 +239,11 @@ func (g *iterate) sum() *big.Int {
 	s := new(big.Int)
 	for _, t := range g.tables {
 		if t != nil {
-			for r := range t.v {
-				s.Add(s, &t.v[r])
+			total := make([]uint64, t.words)
+			for r := range t.size() {
+				addWords(total, t.at(r))
 			}
+			s.Add(s, toBig(total))
 		}
 	}
 	return s
@@ -169,12 +252,8 @@ func (g *iterate) sum() *big.Int {
 // isZero reports whether every coefficient of g is 0.
 func (g *iterate) isZero() bool {
 	for _, t := range g.tables {
-		if t != nil {
-			for r := range t.v {
-				if t.v[r].Sign() != 0 {
-					return false
-				}
-			}
+		if t != nil && !isZeroWords(t.w) {
+			return false
 		}
 	}
 	return true
@@ -205,8 +284,9 @@ func (sys *system) digest(g *iterate) [32]byte {
 				buf = append(buf, 0)
 			}
 		} else {
-			for r := range g.tables[p].v {
-				word = g.tables[p].v[r].Bytes()
+			t := g.tables[p]
+			for r := range t.size() {
+				word = appendBytes(word[:0], t.at(r))
 				buf = binary.AppendUvarint(buf, uint64(len(word)))
 				buf = append(buf, word...)
 				if len(buf) > 1<<16 {

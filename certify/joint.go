@@ -5,34 +5,36 @@ import (
 	"strings"
 )
 
-// This file recomputes the joint-pattern sets R_k with plain bitset code,
-// sharing nothing with package structure.
+// This file recomputes the joint-pattern sets R_k (docs/certificate.md,
+// "Joint patterns and the window digraph") with its own layout.
 //
-// A joint pattern is a permutation of 1..2m: the relative order of the
-// first m entries x and the last m entries y of a permutation of length
-// m+k >= 2m (disjoint windows). R_k is the set of joint patterns of the
-// avoiding permutations of length m+k; R_m is the set of avoiding
-// permutations of length 2m themselves. The domain D is the set of joint
-// patterns whose two halves avoid the shorter members of the set (all of
-// S_2m when every member has the longest length); R_k is a subset of D.
+// A joint pattern, the relative order of the first m entries x and the
+// last m entries y of an avoiding permutation, is stored as three parts:
 //
-// Step. An avoiding permutation of length m+k+1 is an avoiding permutation
-// of length m+k with one more entry z. Given the joint pattern r of the
-// shorter one, z lies in one of the 2m+1 gaps g of r's values (above
-// exactly g of them); the only new window is (y_1..y_m, z), allowed or not
-// by the cell of y and the number of y's below z; the new joint pattern is
-// the order of (x_1..x_m, y_2..y_m, z). Every realisation of r admits z in
-// every gap (choose a real value in the gap, away from the other entries,
-// and standardise), so R_{k+1} is exactly the set of these results for r
-// in R_k and allowed (r, g).
+//	xc    the cell of x (the rank of its pattern among the m! cells),
+//	yc    the cell of y,
+//	mask  which of the 2m values, in increasing order, belong to y
+//	      (bit t set: the (t+1)-th smallest of the 2m values is in y),
 //
-// Fullness is kept: if R_k = D then R_{k+1} = D. For (x, y') in D, the
-// cell y' ends some allowed window (t, y'_1..y'_m) (the last window of a
-// realisation at length 2m in D), t can be put into the order of x and y'
-// at its place among y', and stepping from that joint pattern, in D = R_k,
-// gives (x, y'). So the least k with R_k = D is found by stepping up.
+// and numbered (slot(mask)*cells + xc)*cells + yc, slot being the place of
+// mask among the C(2m, m) masks with m bits set, in increasing order.
+//
+// Step. One more entry z lies above exactly g of the 2m values (g = 0..2m),
+// so above j = (bits of mask below g) entries of y. The new window is
+// (y, z): allowed or not by yc and j. The new joint pattern keeps xc; its
+// y-part is (y_2, .., y_m, z), whose cell follows from yc and j; its mask
+// loses y_1's bit (the bit of the y-value whose rank among y is y_1's) and
+// gains z's bit, at its place among the 2m-1 values left. Every
+// realisation of a joint pattern admits z in every gap, so R_(k+1) is
+// exactly the set of these results over R_k and the allowed gaps.
+//
+// R_k = D (the domain: both halves start cells) is kept by the step: for
+// (x, y') in D the cell of y' ends some allowed window (t, y'), t can be
+// placed among x and y' at its place among y', and that joint pattern,
+// in D = R_k, steps to (x, y'). So the least k with R_k = D is found by
+// stepping up from R_m.
 
-// bitset is a set of joint-pattern ranks; bits past the size stay zero.
+// bitset is a set of joint-pattern numbers; bits past the size stay zero.
 type bitset []uint64
 
 func newBitset(size int) bitset { return make(bitset, (size+63)/64) }
@@ -109,10 +111,206 @@ func (b bitset) key() string {
 	return sb.String()
 }
 
+// jointPatterns holds the checker's tables for the R_k of one set (m >= 1).
+type jointPatterns struct {
+	m, cells int
+	size     int      // C(2m, m) * cells * cells
+	masks    []uint32 // the masks with m of 2m bits set, increasing
+	cellPerm [][]int  // the permutation of each cell
+	win      windows
+	domain   bitset
+	first    bitset // R_m
+	// per y-cell and j = 0..m (z above exactly j entries of y):
+	extends []bool // the window (y, z) is allowed
+	nextY   []int  // the cell of (y_2, .., y_m, z)
+	// after[(slot*m + r)*(2m+1) + g]: the slot of the new mask when y's
+	// entry of rank r+1 leaves and z comes above g of the 2m values
+	after []int
+}
+
+func newJointPatterns(win windows) *jointPatterns {
+	m := win.m
+	jp := &jointPatterns{m: m, cells: factorial(m), win: win}
+	slot := map[uint32]int{}
+	for mask := uint32(0); mask < 1<<(2*m); mask++ {
+		if bits.OnesCount32(mask) == m {
+			slot[mask] = len(jp.masks)
+			jp.masks = append(jp.masks, mask)
+		}
+	}
+	jp.size = len(jp.masks) * jp.cells * jp.cells
+	for c := range jp.cells {
+		jp.cellPerm = append(jp.cellPerm, unrank(m, c))
+	}
+	for _, y := range jp.cellPerm {
+		for j := 0; j <= m; j++ {
+			w := make([]int, 0, m+1) // y in doubled values, z between them
+			for _, v := range y {
+				w = append(w, 2*v)
+			}
+			w = append(w, 2*j+1)
+			jp.extends = append(jp.extends, win.allowed[rankOf(w)])
+			jp.nextY = append(jp.nextY, rankOf(w[1:]))
+		}
+	}
+	for _, mask := range jp.masks {
+		for r := range m {
+			leave := nthSetBit(mask, r)
+			rest := removeBit(mask, leave)
+			for g := 0; g <= 2*m; g++ {
+				at := g // z's place among the 2m-1 values left
+				if leave < g {
+					at--
+				}
+				jp.after = append(jp.after, slot[insertBit(rest, at)])
+			}
+		}
+	}
+	jp.domain, jp.first = newBitset(jp.size), newBitset(jp.size)
+	for s := range jp.masks {
+		for xc := range jp.cells {
+			for yc := range jp.cells {
+				if win.good[xc] && win.good[yc] {
+					jp.domain.set(jp.number(s, xc, yc))
+				}
+			}
+		}
+	}
+	q := identity(2 * m)
+	for { // R_m: the avoiding permutations of length 2m themselves
+		if jp.forbiddenWindow(q) < 0 {
+			jp.first.set(jp.numberOf(q))
+		}
+		if nextPerm(q) < 0 {
+			return jp
+		}
+	}
+}
+
+// nthSetBit returns the position of the (r+1)-th lowest set bit.
+func nthSetBit(mask uint32, r int) int {
+	for range r {
+		mask &= mask - 1
+	}
+	return bits.TrailingZeros32(mask)
+}
+
+// removeBit deletes position p, moving the higher bits down.
+func removeBit(mask uint32, p int) uint32 {
+	low := mask & (1<<p - 1)
+	return low | (mask>>(p+1))<<p
+}
+
+// insertBit inserts a set bit at position p, moving the higher bits up.
+func insertBit(mask uint32, p int) uint32 {
+	low := mask & (1<<p - 1)
+	return low | 1<<p | (mask>>p)<<(p+1)
+}
+
+func (jp *jointPatterns) number(slot, xc, yc int) int {
+	return (slot*jp.cells+xc)*jp.cells + yc
+}
+
+// numberOf returns the number of the joint pattern of q (length 2m: x then
+// y, distinct values).
+func (jp *jointPatterns) numberOf(q []int) int {
+	m := jp.m
+	var mask uint32
+	for _, v := range q[m:] {
+		below := 0
+		for _, u := range q {
+			if u < v {
+				below++
+			}
+		}
+		mask |= 1 << below
+	}
+	s := 0
+	for jp.masks[s] != mask {
+		s++
+	}
+	return jp.number(s, rankOf(q[:m]), rankOf(q[m:]))
+}
+
+// perm returns the joint pattern of a number as a permutation of 1..2m.
+func (jp *jointPatterns) perm(n int) []int {
+	m := jp.m
+	yc := n % jp.cells
+	xc := (n / jp.cells) % jp.cells
+	mask := jp.masks[n/jp.cells/jp.cells]
+	var xPlaces, yPlaces []int // the values of x's and y's slots, increasing
+	for t := range 2 * m {
+		if mask&(1<<t) != 0 {
+			yPlaces = append(yPlaces, t+1)
+		} else {
+			xPlaces = append(xPlaces, t+1)
+		}
+	}
+	q := make([]int, 0, 2*m)
+	for _, r := range jp.cellPerm[xc] {
+		q = append(q, xPlaces[r-1])
+	}
+	for _, r := range jp.cellPerm[yc] {
+		q = append(q, yPlaces[r-1])
+	}
+	return q
+}
+
+// describe writes the joint pattern of a number, for messages.
+func (jp *jointPatterns) describe(n int) string { return formatPerm(jp.perm(n)) }
+
+// forbiddenWindow returns the start of the first window of length m+1 of
+// seq that is not allowed, or -1. For len(seq) >= m+1, -1 means that seq
+// avoids every member of the set.
+func (jp *jointPatterns) forbiddenWindow(seq []int) int {
+	for i := 0; i+jp.m < len(seq); i++ {
+		if !jp.win.allowed[rankOf(seq[i:i+jp.m+1])] {
+			return i
+		}
+	}
+	return -1
+}
+
+// step returns R_(k+1) from cur = R_k.
+func (jp *jointPatterns) step(cur bitset) bitset {
+	m := jp.m
+	next := newBitset(jp.size)
+	cur.each(func(n int) bool {
+		yc := n % jp.cells
+		xc := (n / jp.cells) % jp.cells
+		s := n / jp.cells / jp.cells
+		mask := jp.masks[s]
+		leaving := jp.cellPerm[yc][0] - 1 // y_1's rank among y, from 0
+		after := jp.after[(s*m+leaving)*(2*m+1):]
+		for g := 0; g <= 2*m; g++ {
+			j := bits.OnesCount32(mask & (1<<g - 1))
+			if jp.extends[yc*(m+1)+j] {
+				next.set(jp.number(after[g], xc, jp.nextY[yc*(m+1)+j]))
+			}
+		}
+		return true
+	})
+	return next
+}
+
+// closable reports whether the joint pattern q = (x, u) closes into a
+// cyclic avoider: the m windows (u_i..u_m, x_1..x_i), i = 1..m, that wrap
+// around from the last entries to the first are allowed.
+func (jp *jointPatterns) closable(q []int) bool {
+	m := jp.m
+	buf := make([]int, 0, m+1)
+	for i := range m {
+		buf = append(append(buf[:0], q[m+i:]...), q[:i+1]...)
+		if !jp.win.allowed[rankOf(buf)] {
+			return false
+		}
+	}
+	return true
+}
+
 // rankOf returns the lexicographic rank of the pattern of a sequence of
-// distinct values (equal to pattern.Rank(pattern.Standardize(seq))): the
-// sum over positions i of c_i (n-1-i)!, c_i the number of later entries
-// below entry i, evaluated in Horner form.
+// distinct values: the sum over positions i of c_i (n-1-i)!, c_i the
+// number of later entries below entry i, evaluated in Horner form.
 func rankOf(seq []int) int {
 	n, r := len(seq), 0
 	for i, v := range seq {
@@ -127,33 +325,9 @@ func rankOf(seq []int) int {
 	return r
 }
 
-// unrankInto writes into q the permutation of 1..len(q) of rank r and into
-// d its digits d_i = #{j > i: q_j < q_i} (fact[i] = i!).
-func unrankInto(r int, q, d, fact []int) {
-	n := len(q)
-	var used uint64
-	for i := range n {
-		f := fact[n-1-i]
-		d[i], r = r/f, r%f
-		left := d[i]
-		for v := 1; ; v++ {
-			if used&(1<<v) != 0 {
-				continue
-			}
-			if left == 0 {
-				q[i] = v
-				used |= 1 << v
-				break
-			}
-			left--
-		}
-	}
-}
-
 // nextPerm advances q to the next permutation in lexicographic order and
-// returns the pivot, the position of the first entry it changes; -1 when q
-// was the last permutation (q is then unchanged). The pivot is the last
-// position with a larger entry after it.
+// returns the position of the first entry it changes; -1 when q was the
+// last permutation (q is then unchanged).
 func nextPerm(q []int) int {
 	i := len(q) - 2
 	for i >= 0 && q[i] > q[i+1] {
@@ -173,150 +347,10 @@ func nextPerm(q []int) int {
 	return i
 }
 
-// nextDigits updates the digits d_i = #{j > i: q_j < q_i} of a permutation
-// to those of its successor, given the pivot: the rank grows by one, in the
-// factorial base. The digits after the pivot were maximal (a decreasing
-// suffix) and become 0 (an increasing one); the pivot's new entry is the
-// next larger value of the suffix, so its digit gains one.
-func nextDigits(d []int, pivot int) {
-	d[pivot]++
-	clear(d[pivot+1:])
-}
-
 func identity(n int) []int {
 	q := make([]int, n)
 	for i := range q {
 		q[i] = i + 1
 	}
 	return q
-}
-
-// jointPatterns holds the checker's tables for the R_k of one set (m >= 1).
-type jointPatterns struct {
-	m, n   int // n = 2m
-	size   int // n!
-	fact   []int
-	win    windows
-	domain bitset
-	first  bitset // R_m
-	// extend[cell*(m+1)+j]: the window (y, z) is allowed, for y in the cell
-	// and z above exactly j entries of y
-	extend []bool
-}
-
-func newJointPatterns(win windows) *jointPatterns {
-	m := win.m
-	jp := &jointPatterns{m: m, n: 2 * m, win: win, fact: []int{1}}
-	for i := 1; i <= jp.n; i++ {
-		jp.fact = append(jp.fact, jp.fact[i-1]*i)
-	}
-	jp.size = jp.fact[jp.n]
-	cells := jp.fact[m]
-	jp.extend = make([]bool, cells*(m+1))
-	w := make([]int, m+1)
-	y := identity(m)
-	for cell := 0; cell < cells; cell++ { // y runs through the cells in rank order
-		for j := 0; j <= m; j++ {
-			for i, v := range y { // values 2v for y, 2j+1 for z
-				w[i] = 2 * v
-			}
-			w[m] = 2*j + 1
-			jp.extend[cell*(m+1)+j] = win.allowed[rankOf(w)]
-		}
-		nextPerm(y)
-	}
-	jp.domain, jp.first = newBitset(jp.size), newBitset(jp.size)
-	q := identity(jp.n)
-	for r := 0; r < jp.size; r++ { // q runs through S_2m in rank order
-		if win.good[rankOf(q[:m])] && win.good[rankOf(q[m:])] {
-			jp.domain.set(r)
-		}
-		if jp.forbiddenWindow(q) < 0 {
-			jp.first.set(r)
-		}
-		nextPerm(q)
-	}
-	return jp
-}
-
-// forbiddenWindow returns the start of the first window of length m+1 of
-// seq that is not allowed, or -1. For len(seq) >= m+1, -1 means that seq
-// avoids every member of the set.
-func (jp *jointPatterns) forbiddenWindow(seq []int) int {
-	for i := 0; i+jp.m < len(seq); i++ {
-		if !jp.win.allowed[rankOf(seq[i:i+jp.m+1])] {
-			return i
-		}
-	}
-	return -1
-}
-
-// step returns R_{k+1} from cur = R_k.
-//
-// For r in cur with entries q (Lehmer digits d), the kept entries are
-// s = (q_0..q_{m-1}, q_{m+1}..q_{n-1}) (y_1 = q_m is dropped) and z goes
-// last. The rank of (s, z) is sum_i (c_i + [z < s_i]) (n-1-i)!, with c_i
-// the later entries of s below s_i: c_i = d_i - [q_m < q_i] for i < m and
-// d_{i+1} for the kept y's. With z in gap g, z < s_i exactly when s_i > g,
-// so lowering g past the value g+1 adds the weight of that value's
-// position, if it is kept.
-func (jp *jointPatterns) step(cur bitset) bitset {
-	m, n, fact := jp.m, jp.n, jp.fact
-	next := newBitset(jp.size)
-	q, d := identity(n), make([]int, n) // rank 0; its digits are 0
-	weight := make([]int, n+1)          // weight[v]: (n-1-position of v in s)!, 0 for y_1
-	inY := make([]bool, n+1)
-	for r := 0; r < jp.size; r++ {
-		if r > 0 {
-			nextDigits(d, nextPerm(q))
-		}
-		if !cur.has(r) {
-			continue
-		}
-		base, cellY := 0, 0
-		for i := range m {
-			c := d[i]
-			if q[m] < q[i] {
-				c--
-			}
-			base += c * fact[n-1-i]
-			weight[q[i]], inY[q[i]] = fact[n-1-i], false
-			cellY += d[m+i] * fact[m-1-i] // y's digits count later y's only
-			inY[q[m+i]] = true
-		}
-		for i := m; i < n-1; i++ {
-			base += d[i+1] * fact[n-1-i]
-			weight[q[i+1]] = fact[n-1-i]
-		}
-		weight[q[m]] = 0
-		ext := jp.extend[cellY*(m+1) : (cellY+1)*(m+1)]
-		rank, below := base, m // g = n: z above everything
-		for g := n; ; g-- {
-			if ext[below] {
-				next.set(rank)
-			}
-			if g == 0 {
-				break
-			}
-			rank += weight[g] // the value g now lies above z
-			if inY[g] {
-				below--
-			}
-		}
-	}
-	return next
-}
-
-// closable reports whether the joint pattern q = (x, u) closes into a
-// cyclic avoider: the m windows (u_i..u_m, x_1..x_i), i = 1..m, that wrap
-// around from the last entries to the first are allowed.
-func (jp *jointPatterns) closable(q, buf []int) bool {
-	m := jp.m
-	for i := range m {
-		buf = append(append(buf[:0], q[m+i:]...), q[:i+1]...)
-		if !jp.win.allowed[rankOf(buf)] {
-			return false
-		}
-	}
-	return true
 }

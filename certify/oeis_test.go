@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"context"
 	"math/big"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -11,6 +12,7 @@ import (
 	"testing"
 
 	"avoidcert/certify"
+	"avoidcert/internal/brute"
 )
 
 // oeisTerms reads the terms of ../testdata/oeis/<id>.txt and their offset.
@@ -77,6 +79,32 @@ func TestCountsOEIS(t *testing.T) {
 		for n := offset; n <= top; n++ {
 			if got[n].Cmp(terms[n-offset]) != 0 {
 				t.Fatalf("%v: a_%d = %s, but %s gives %s", tc.set, n, got[n], tc.id, terms[n-offset])
+			}
+		}
+	}
+}
+
+// TestCountsBruteForce compares Counts with plain enumeration
+// (internal/brute) on random sets of mixed lengths 2 to 6, up to n = 8.
+func TestCountsBruteForce(t *testing.T) {
+	rng := rand.New(rand.NewPCG(2, 6))
+	for range 40 {
+		pats := brute.RandomPatterns[[]int](rng, 4, 2, 6)
+		var given []string
+		for _, p := range pats {
+			var b strings.Builder
+			for _, v := range p {
+				b.WriteString(strconv.Itoa(v))
+			}
+			given = append(given, b.String())
+		}
+		got, err := certify.Counts(context.Background(), given, 8)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for n, c := range got {
+			if want := brute.Count(n, pats); c.Cmp(big.NewInt(int64(want))) != 0 {
+				t.Fatalf("%v: a_%d = %s, enumeration gives %d", given, n, c, want)
 			}
 		}
 	}

@@ -3,7 +3,6 @@ package certify
 import (
 	"context"
 	"fmt"
-	"math"
 	"math/big"
 	"runtime"
 	"sync"
@@ -47,13 +46,6 @@ func coefficients(sys *system, n int) float64 {
 	return c
 }
 
-// coefficientBytes estimates the bytes of one coefficient at n: a big.Int
-// and the words of a number up to n! (a_n <= n! bounds every entry).
-func coefficientBytes(n int) float64 {
-	lg, _ := math.Lgamma(float64(n) + 1)
-	return 32 + 8*(math.Ceil(lg/math.Ln2/64)+1)
-}
-
 // bracketWork is the estimated work of checking bracket b on sys once its
 // iterates exist: the digest of G_N, d elevations (one multiply-add per
 // part of each entry), and two comparisons per entry of degree N+d,
@@ -88,19 +80,27 @@ func (ck *checker) limits() error {
 			work += stepWork(sys, n)
 			peak = max(peak, coefficients(sys, n)+coefficients(sys, n+1))
 		}
-		widest := 0.0 // the largest table: the scratch of one goroutine holds about three
-		for p := range sys.in {
-			L := len(ck.sp.states[p])
-			widest = max(widest, float64(sys.bin.count(L+2, gr.top+1-L)))
+		widest := 0.0 // the largest temporary table (system.dropMove: a first merge of the source); a goroutine holds about two
+		for q, moves := range sys.inbound {
+			for _, mv := range moves {
+				Lp := len(ck.sp.states[mv.from])
+				adjacent := len(mv.drops) == 1 && (mv.drops[0] == mv.gap || mv.drops[0] == mv.gap+2)
+				if Lp <= gr.top && len(mv.drops) > 0 && !adjacent && len(ck.sp.states[q]) > 1 {
+					widest = max(widest, float64(sys.bin.count(Lp, gr.top+1-Lp)))
+				}
+			}
 		}
-		pending := 0.0
+		pending := 0.0 // the elevations waiting for their G_(N+d)
 		for _, i := range gr.brackets {
 			b := ck.c.Evidence.Brackets[i]
 			work += ck.bracketWork(sys, b)
 			pending += coefficients(sys, b.N+b.Step)
 		}
-		bytes := coefficientBytes(gr.top)
-		memory = max(memory, (peak+pending+3*widest*float64(runtime.GOMAXPROCS(0)))*(bytes+8))
+		bytes := 8 * float64(wordsFor(gr.top)) // one coefficient
+		live := (peak + pending + 2*widest*float64(runtime.GOMAXPROCS(0))) * bytes
+		// the garbage collector lets the heap grow to twice the live data
+		// (GOGC = 100) before it collects the iterates of past steps
+		memory = max(memory, 2*live)
 	}
 	ck.total = work
 	// the structure section is verified first, on its own memory
@@ -209,10 +209,10 @@ func (ck *checker) recompute(ctx context.Context) error {
 // elevated returns the d-fold integer elevation of every table of g.
 func (sys *system) elevated(ctx context.Context, g *iterate, d int) (*iterate, error) {
 	out := &iterate{n: g.n + d, tables: make([]*table, len(g.tables))}
-	err := eachState(ctx, len(g.tables), func(p int) error {
+	err := eachState(ctx, runtime.GOMAXPROCS(0), len(g.tables), func(_, p int) error {
 		if t := g.tables[p]; t != nil {
 			for range d {
-				t = sys.bin.elevate(t)
+				t = sys.bin.elevate(t, wordsFor(g.n+d))
 			}
 			out.tables[p] = t
 		}
@@ -226,7 +226,7 @@ func (sys *system) elevated(ctx context.Context, g *iterate, d int) (*iterate, e
 // iterate G_(N+d).
 func (ck *checker) compare(ctx context.Context, i int, h, n *iterate) error {
 	b := ck.c.Evidence.Brackets[i]
-	return eachState(ctx, len(n.tables), func(p int) error {
+	return eachState(ctx, runtime.GOMAXPROCS(0), len(n.tables), func(_, p int) error {
 		num, den := n.tables[p], h.tables[p]
 		if num == nil {
 			return nil
@@ -235,8 +235,8 @@ func (ck *checker) compare(ctx context.Context, i int, h, n *iterate) error {
 			return fmt.Errorf("%s: state %d has no coefficients at n = %d", ck.describe(i), p, b.N)
 		}
 		var left, right big.Int
-		for r := range num.v {
-			N, H := &num.v[r], &den.v[r]
+		for r := range num.size() {
+			N, H := toBig(num.at(r)), toBig(den.at(r))
 			// lo <= N/H:  lo.num * H <= lo.den * N
 			left.Mul(b.Lo.Num(), H)
 			right.Mul(b.Lo.Denom(), N)
@@ -271,14 +271,15 @@ func (ck *checker) composition(t *table, r int) []int {
 	return a
 }
 
-// eachState calls f for 0..count-1 on up to GOMAXPROCS goroutines and
-// returns the error of the lowest index that failed, so that the message
-// does not depend on the scheduling; ctx stops it between calls.
-func eachState(ctx context.Context, count int, f func(i int) error) error {
+// eachState calls f(worker, i) for i = 0..count-1 on the given number of
+// goroutines (worker numbers them from 0) and returns the error of the
+// lowest index that failed, so that the message does not depend on the
+// scheduling; ctx stops it between calls.
+func eachState(ctx context.Context, workers, count int, f func(worker, i int) error) error {
 	errs := make([]error, count)
 	var next atomic.Int64
 	var wg sync.WaitGroup
-	for range runtime.GOMAXPROCS(0) {
+	for worker := range workers {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
@@ -287,7 +288,7 @@ func eachState(ctx context.Context, count int, f func(i int) error) error {
 				if i >= count || ctx.Err() != nil {
 					return
 				}
-				errs[i] = f(i)
+				errs[i] = f(worker, i)
 			}
 		}()
 	}

@@ -414,7 +414,7 @@ func (ck *checker) verifyStructure() error {
 			case k < st.Exponent && missing < 0:
 				return fmt.Errorf("statement.structure.exponent: %d is not least: R_%d already holds all %d joint patterns of the domain (recomputed)", st.Exponent, k, jp.domain.count())
 			case k == st.Exponent && missing >= 0:
-				return fmt.Errorf("statement.structure.exponent: R_%d lacks the joint pattern %s of the domain (recomputed), so T^%d has no a.e.-positive kernel", k, describeJoint(m, missing), k)
+				return fmt.Errorf("statement.structure.exponent: R_%d lacks the joint pattern %s of the domain (recomputed), so T^%d has no a.e.-positive kernel", k, jp.describe(missing), k)
 			}
 		}
 		switch {
@@ -472,9 +472,9 @@ func (ck *checker) verifyWitnesses(jp *jointPatterns) error {
 		for _, w := range st.Witnesses {
 			copy(joint, w[:m])
 			copy(joint[m:], w[L-m:])
-			covered.set(rankOf(joint))
+			covered.set(jp.numberOf(joint))
 		}
-		return fmt.Errorf("evidence.structure.witnesses: the joint pattern %s of the domain has no witness (%d witnesses for %d joint patterns)", describeJoint(m, jp.domain.firstNotIn(covered)), n, full)
+		return fmt.Errorf("evidence.structure.witnesses: the joint pattern %s of the domain has no witness (%d witnesses for %d joint patterns)", jp.describe(jp.domain.firstNotIn(covered)), n, full)
 	}
 	return nil
 }
@@ -482,7 +482,7 @@ func (ck *checker) verifyWitnesses(jp *jointPatterns) error {
 // verifyPeriodic checks that the sets of the cycle are pairwise disjoint
 // and cover the domain.
 func (ck *checker) verifyPeriodic(jp *jointPatterns, sets []bitset) error {
-	st, m := ck.c.Structure, ck.m
+	st := ck.c.Structure
 	union := newBitset(jp.size)
 	for i, set := range sets {
 		if r := set.firstIn(union); r >= 0 {
@@ -490,12 +490,12 @@ func (ck *checker) verifyPeriodic(jp *jointPatterns, sets []bitset) error {
 			for !sets[j].has(r) {
 				j++
 			}
-			return fmt.Errorf("statement.structure.class: periodic is false: R_%d and R_%d of the cycle share the joint pattern %s", st.CycleStart+j, st.CycleStart+i, describeJoint(m, r))
+			return fmt.Errorf("statement.structure.class: periodic is false: R_%d and R_%d of the cycle share the joint pattern %s", st.CycleStart+j, st.CycleStart+i, jp.describe(r))
 		}
 		union.or(set)
 	}
 	if r := jp.domain.firstNotIn(union); r >= 0 {
-		return fmt.Errorf("statement.structure.class: periodic is false: the joint pattern %s of the domain lies in no R_k of the cycle (k = %d..%d)", describeJoint(m, r), st.CycleStart, st.CycleStart+st.CycleLength-1)
+		return fmt.Errorf("statement.structure.class: periodic is false: the joint pattern %s of the domain lies in no R_k of the cycle (k = %d..%d)", jp.describe(r), st.CycleStart, st.CycleStart+st.CycleLength-1)
 	}
 	return nil
 }
@@ -524,11 +524,9 @@ func (ck *checker) verifyLambdaZero(jp *jointPatterns, sets []bitset) error {
 	for _, set := range sets {
 		union.or(set)
 	}
-	q, d, buf := make([]int, jp.n), make([]int, jp.n), make([]int, 0, m+1)
 	found := -1
 	union.each(func(r int) bool {
-		unrankInto(r, q, d, jp.fact)
-		if jp.closable(q, buf) {
+		if jp.closable(jp.perm(r)) {
 			found = r
 			return false
 		}
@@ -542,7 +540,7 @@ func (ck *checker) verifyLambdaZero(jp *jointPatterns, sets []bitset) error {
 				break
 			}
 		}
-		return fmt.Errorf("statement.structure.lambda_status: zero is false: the joint pattern %s of R_%d closes (its %d wrap-around windows are allowed), so a cyclic avoider of length %d exists", describeJoint(m, found), k, m, m+k)
+		return fmt.Errorf("statement.structure.lambda_status: zero is false: the joint pattern %s of R_%d closes (its %d wrap-around windows are allowed), so a cyclic avoider of length %d exists", jp.describe(found), k, m, m+k)
 	}
 	return nil
 }

@@ -1,14 +1,114 @@
 package certify
 
-import "math/big"
+import (
+	"math/big"
+	"math/bits"
+)
 
 // A table holds one coefficient per composition a = (a_0, .., a_(K-1)) of a
 // degree D into K non-negative parts, in lexicographic order of a (so
 // (0, .., 0, D) first): the coefficients of one state at one n, with
 // K = |p| + 1 and D = n - |p|. This is the order of the digest stream.
+//
+// Each coefficient is a fixed number of 64-bit words, least significant
+// first: every table of an iterate G_n has the width wordsFor(n), large
+// enough for every number at that n, so adding two coefficients is a loop
+// over words with a carry, and no step allocates per coefficient.
 type table struct {
 	parts, degree int
-	v             []big.Int
+	words         int
+	w             []uint64 // coefficient r is w[r*words : (r+1)*words]
+}
+
+// at returns the words of coefficient r.
+func (t *table) at(r int) []uint64 { return t.w[r*t.words : (r+1)*t.words] }
+
+// size returns the number of coefficients.
+func (t *table) size() int { return len(t.w) / t.words }
+
+// wordsFor returns the width that holds every number of an iteration at
+// n = top. Every coefficient of G_n of the whole system counts some of the
+// avoiding permutations of length n, so it is at most n!; from start ones
+// each of at most C(12, 6) = 924 coefficients of G_(n_s) = 1 has at most
+// n!/n_s! descendants at n, so the coefficients stay below 2^10 n!. A
+// running sum is a partial sum of one output and a merge sums entries of
+// one iterate. One elevation of a table of degree D gives each entry at
+// most (D+1) times the largest, and D <= N, so the d-fold elevation of G_N
+// stays below 2^10 (N+d)! as well. Two words beyond (top)! are a margin
+// over the factor 2^10.
+func wordsFor(top int) int {
+	f := new(big.Int).MulRange(1, int64(max(top, 1)))
+	return f.BitLen()/64 + 3
+}
+
+// addWords adds src to dst (len(src) <= len(dst)), carrying into dst's
+// upper words.
+func addWords(dst, src []uint64) {
+	var c uint64
+	for i, x := range src {
+		dst[i], c = bits.Add64(dst[i], x, c)
+	}
+	for i := len(src); c != 0 && i < len(dst); i++ {
+		dst[i], c = bits.Add64(dst[i], 0, c)
+	}
+}
+
+// subWords subtracts src from dst (len(src) <= len(dst)) modulo
+// 2^(64 len(dst)): a difference table's entries may wrap below zero, and
+// its running sums come back to the true non-negative values.
+func subWords(dst, src []uint64) {
+	var b uint64
+	for i, x := range src {
+		dst[i], b = bits.Sub64(dst[i], x, b)
+	}
+	for i := len(src); b != 0 && i < len(dst); i++ {
+		dst[i], b = bits.Sub64(dst[i], 0, b)
+	}
+}
+
+// mulAddWords adds m times src to dst (len(src) <= len(dst)).
+func mulAddWords(dst, src []uint64, m uint64) {
+	var carry uint64
+	for i, x := range src {
+		hi, lo := bits.Mul64(x, m)
+		lo, c := bits.Add64(lo, carry, 0)
+		hi += c
+		dst[i], c = bits.Add64(dst[i], lo, 0)
+		carry = hi + c
+	}
+	for i := len(src); carry != 0 && i < len(dst); i++ {
+		dst[i], carry = bits.Add64(dst[i], carry, 0)
+	}
+}
+
+func isZeroWords(x []uint64) bool {
+	for _, v := range x {
+		if v != 0 {
+			return false
+		}
+	}
+	return true
+}
+
+// appendBytes appends the big-endian bytes of x without leading zero
+// bytes (none for 0).
+func appendBytes(buf []byte, x []uint64) []byte {
+	started := false
+	for i := len(x) - 1; i >= 0; i-- {
+		for s := 56; s >= 0; s -= 8 {
+			b := byte(x[i] >> s)
+			if started || b != 0 {
+				started = true
+				buf = append(buf, b)
+			}
+		}
+	}
+	return buf
+}
+
+// toBig returns x as a big.Int.
+func toBig(x []uint64) *big.Int {
+	return new(big.Int).SetBytes(appendBytes(nil, x))
 }
 
 // binomials is a table of binomial coefficients C(n, k) for n < len(c),
@@ -26,7 +126,7 @@ func newBinomials(maxN int) binomials {
 			c[n][k] = c[n-1][k-1] + c[n-1][k]
 		}
 	}
-	return binomials{c}
+	return binomials{c: c}
 }
 
 // count returns the number of compositions of D into K parts,
@@ -51,8 +151,65 @@ func (b binomials) rank(a []int) int {
 	return int(r)
 }
 
-func (b binomials) newTable(K, D int) *table {
-	return &table{parts: K, degree: D, v: make([]big.Int, b.count(K, D))}
+func (b binomials) newTable(K, D, words int) *table {
+	return &table{parts: K, degree: D, words: words, w: make([]uint64, b.count(K, D)*words)}
+}
+
+// scratch recycles the temporary tables of one goroutine's steps, so
+// that a step does not allocate (and the garbage collector does not
+// clear) fresh memory for every move.
+type scratch struct {
+	free [][]uint64
+}
+
+// table returns a zeroed table of K parts, degree D and the given width
+// in the smallest recycled buffer that holds it, or a new one.
+func (sc *scratch) table(b binomials, K, D, words int) *table {
+	return &table{parts: K, degree: D, words: words, w: sc.words(b.count(K, D) * words)}
+}
+
+// words returns n zeroed words from the smallest recycled buffer that
+// holds them, or new ones.
+func (sc *scratch) words(n int) []uint64 {
+	best := -1
+	for i, buf := range sc.free {
+		if cap(buf) >= n && (best < 0 || cap(buf) < cap(sc.free[best])) {
+			best = i
+		}
+	}
+	if best < 0 {
+		// room to grow: the tables of a state grow by a few percent per
+		// step, so the buffer serves the next steps too
+		return make([]uint64, n, n+n/8)
+	}
+	buf := sc.free[best][:n]
+	sc.free[best] = sc.free[len(sc.free)-1]
+	sc.free = sc.free[:len(sc.free)-1]
+	clear(buf)
+	return buf
+}
+
+// keptBuffers is how many released buffers a scratch keeps: a move holds
+// at most two large temporary tables at once (the others are far smaller).
+const keptBuffers = 2
+
+// release returns a temporary table's memory for reuse.
+func (sc *scratch) release(t *table) { sc.releaseWords(t.w) }
+
+// releaseWords returns words for reuse, keeping the largest keptBuffers
+// buffers (the tables grow with n).
+func (sc *scratch) releaseWords(buf []uint64) {
+	sc.free = append(sc.free, buf)
+	if len(sc.free) > keptBuffers {
+		least := 0
+		for i, buf := range sc.free {
+			if cap(buf) < cap(sc.free[least]) {
+				least = i
+			}
+		}
+		sc.free[least] = sc.free[len(sc.free)-1]
+		sc.free = sc.free[:len(sc.free)-1]
+	}
 }
 
 // firstComposition sets a to (0, .., 0, D).
@@ -80,9 +237,10 @@ func nextComposition(a []int) bool {
 	return false
 }
 
-// spreadAdd adds into dst (K+1 parts, degree D) the new value put into gap
-// i of src (K parts, degree D): dst[c] += src[a], a being c with c_i and
-// c_(i+1) joined into one gap. Each c has exactly one such a.
+// spreadAdd adds into dst (K+1 parts, degree D, at least src's width) the
+// new value put into gap i of src (K parts, degree D): dst[c] += src[a], a
+// being c with c_i and c_(i+1) joined into one gap. Each c has exactly one
+// such a.
 func (b binomials) spreadAdd(dst, src *table, i int) {
 	c := make([]int, dst.parts)
 	a := make([]int, src.parts)
@@ -91,7 +249,7 @@ func (b binomials) spreadAdd(dst, src *table, i int) {
 		copy(a[:i], c[:i])
 		a[i] = c[i] + c[i+1]
 		copy(a[i+1:], c[i+2:])
-		dst.v[r].Add(&dst.v[r], &src.v[b.rank(a)])
+		addWords(dst.at(r), src.at(b.rank(a)))
 		if !nextComposition(c) {
 			return
 		}
@@ -99,20 +257,20 @@ func (b binomials) spreadAdd(dst, src *table, i int) {
 }
 
 // merge drops the value between gaps j and j+1 of src (K parts, degree
-// D): the result (K-1 parts, degree D+1) has the one gap a_j + a_(j+1) + 1
-// in their place and sums every src entry that lands there.
-func (b binomials) merge(src *table, j int) *table {
-	out := b.newTable(src.parts-1, src.degree+1)
+// D): the result (K-1 parts, degree D+1, the given width, at least src's)
+// has the one gap a_j + a_(j+1) + 1 in their place and sums every src
+// entry that lands there.
+func (b binomials) merge(sc *scratch, src *table, j, words int) *table {
+	out := sc.table(b, src.parts-1, src.degree+1, words)
 	a := make([]int, src.parts)
 	e := make([]int, out.parts)
 	firstComposition(a, src.degree)
 	for r := 0; ; r++ {
-		if src.v[r].Sign() != 0 {
+		if x := src.at(r); !isZeroWords(x) {
 			copy(e[:j], a[:j])
 			e[j] = a[j] + a[j+1] + 1
 			copy(e[j+1:], a[j+2:])
-			x := &out.v[b.rank(e)]
-			x.Add(x, &src.v[r])
+			addWords(out.at(b.rank(e)), x)
 		}
 		if !nextComposition(a) {
 			return out
@@ -120,72 +278,94 @@ func (b binomials) merge(src *table, j int) *table {
 	}
 }
 
-// insertMerge puts the new value into gap i of src (K parts, degree D) and
-// at once drops the value next to that gap, below it (side -1, the value
-// of rank i) or above it (side +1, rank i+1 before the insertion). The
-// result has K parts and degree D+1. Below: the gaps are
-// (.., a_(i-1) + b + 1, a_i - b, ..) over the splits b, so
+// insertMergeAdd adds into dst (K parts, degree D+1, at least src's
+// width) what putting the new value into gap i of src (K parts, degree D)
+// makes when the value next to that gap is dropped at once: the one below
+// it (side -1, the value of rank i) or the one above it (side +1, rank i+1
+// before the insertion). Below, the gaps are (.., a_(i-1) + b + 1, a_i - b,
+// ..) over the splits b, so
 //
 //	out[.., u, v, ..] = sum_{b=0}^{u-1} src[.., u-1-b, v+b, ..]
 //	                  = src[.., u-1, v, ..] + out[.., u-1, v+1, ..],
 //
-// a running sum along the line u + v = const. Above: the gaps are
-// (.., b, a_i - b + a_(i+1) + 1, ..), and
+// a running sum along the line u + v = T with the other parts fixed, in
+// increasing u. Above, the gaps are (.., b, a_i - b + a_(i+1) + 1, ..), and
 //
-//	out[.., u, v, ..] = src[.., u, v-1, ..] + out[.., u+1, v-1, ..].
+//	out[.., u, v, ..] = src[.., u, v-1, ..] + out[.., u+1, v-1, ..],
 //
-// Every entry costs O(1) additions.
-func (b binomials) insertMerge(src *table, i, side int) *table {
-	out := b.newTable(src.parts, src.degree+1)
-	lo := i - 1 // the two parts (u, v) of out that the sum runs along
+// the same line in decreasing u. So the lines are walked one by one with
+// one running value, added into dst as it goes: every entry costs O(1)
+// additions and no temporary table.
+func (b binomials) insertMergeAdd(dst, src *table, i, side int) {
+	lo := i - 1 // the two parts (u, v) of dst that the sum runs along
 	if side > 0 {
 		lo = i
 	}
-	partner := make([]int, len(out.v)) // the entry the running sum continues, or -1
-	e := make([]int, out.parts)
-	firstComposition(e, out.degree)
+	line := make([]int, dst.parts-1) // dst's parts with u and v joined into T
+	e := make([]int, dst.parts)
+	run := make([]uint64, dst.words)
+	firstComposition(line, dst.degree)
+	for {
+		T := line[lo]
+		copy(e[:lo], line[:lo])
+		copy(e[lo+2:], line[lo+1:])
+		clear(run)
+		for k := 0; k <= T; k++ {
+			u := k // side -1: u = 0, 1, .., T
+			if side > 0 {
+				u = T - k // side +1: u = T, .., 0
+			}
+			v := T - u
+			if side < 0 && u > 0 {
+				e[lo], e[lo+1] = u-1, v
+				addWords(run, src.at(b.rank(e)))
+			}
+			if side > 0 && v > 0 {
+				e[lo], e[lo+1] = u, v-1
+				addWords(run, src.at(b.rank(e)))
+			}
+			e[lo], e[lo+1] = u, v
+			addWords(dst.at(b.rank(e)), run)
+		}
+		if !nextComposition(line) {
+			return
+		}
+	}
+}
+
+// pushToOne adds into diff what a move that drops every old value makes
+// of src (K parts, degree D): the new value, in gap i, is then the only
+// one kept, and its gaps are (below + b, rest - b) with below = a_0 + .. +
+// a_(i-1) + i (the other values and the old values under gap i) and b =
+// 0..a_i. Those are the consecutive entries below .. below + a_i of the
+// one-value state's table (its compositions (x, D+K-1-x) in order of x),
+// so the move adds src[a] at diff[below] and subtracts it at
+// diff[below + a_i + 1]; running sums of diff give the table.
+func pushToOne(diff []uint64, words int, src *table, i int) {
+	a := make([]int, src.parts)
+	firstComposition(a, src.degree)
 	for r := 0; ; r++ {
-		u, v := e[lo], e[lo+1]
-		partner[r] = -1
-		if side < 0 && u > 0 {
-			e[lo] = u - 1
-			out.v[r].Set(&src.v[b.rank(e)])
-			e[lo+1] = v + 1
-			partner[r] = b.rank(e)
+		if x := src.at(r); !isZeroWords(x) {
+			below := i
+			for _, v := range a[:i] {
+				below += v
+			}
+			addWords(diff[below*words:(below+1)*words], x)
+			end := below + a[i] + 1
+			subWords(diff[end*words:(end+1)*words], x)
 		}
-		if side > 0 && v > 0 {
-			e[lo+1] = v - 1
-			out.v[r].Set(&src.v[b.rank(e)])
-			e[lo] = u + 1
-			partner[r] = b.rank(e)
-		}
-		e[lo], e[lo+1] = u, v
-		if !nextComposition(e) {
-			break
+		if !nextComposition(a) {
+			return
 		}
 	}
-	if side < 0 { // partners come earlier in lexicographic order
-		for r := range out.v {
-			if p := partner[r]; p >= 0 {
-				out.v[r].Add(&out.v[r], &out.v[p])
-			}
-		}
-	} else { // partners come later
-		for r := len(out.v) - 1; r >= 0; r-- {
-			if p := partner[r]; p >= 0 {
-				out.v[r].Add(&out.v[r], &out.v[p])
-			}
-		}
-	}
-	return out
 }
 
 // elevate returns the integer degree elevation of t: out[a] = sum over
-// parts j with a_j > 0 of a_j t[a - e_j] (K parts, degree D+1).
-func (b binomials) elevate(t *table) *table {
-	out := b.newTable(t.parts, t.degree+1)
+// parts j with a_j > 0 of a_j t[a - e_j] (K parts, degree D+1, the given
+// width, at least t's).
+func (b binomials) elevate(t *table, words int) *table {
+	out := b.newTable(t.parts, t.degree+1, words)
 	a := make([]int, t.parts)
-	var term big.Int
 	firstComposition(a, out.degree)
 	for r := 0; ; r++ {
 		for j := range a {
@@ -193,10 +373,9 @@ func (b binomials) elevate(t *table) *table {
 				continue
 			}
 			a[j]--
-			term.SetInt64(int64(a[j] + 1))
-			term.Mul(&term, &t.v[b.rank(a)])
+			src := t.at(b.rank(a))
 			a[j]++
-			out.v[r].Add(&out.v[r], &term)
+			mulAddWords(out.at(r), src, uint64(a[j]))
 		}
 		if !nextComposition(a) {
 			return out
