@@ -21,3 +21,5 @@ func benchCounts(b *testing.B, set string, n int) {
 		}
 	}
 }
+func BenchmarkCounts123To600(b *testing.B)  { benchCounts(b, "123", 600) }
+func BenchmarkCounts2413To200(b *testing.B) { benchCounts(b, "2413", 200) }

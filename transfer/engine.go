@@ -38,6 +38,9 @@ func (e *Engine) take(n int) []big.Word {
 			return w[:n]
 		}
 	}
+	// Arrays grow from step to step: kept arrays too small for this one
+	// are dropped rather than held next to the new one.
+	e.spare = slices.DeleteFunc(e.spare, func(w []big.Word) bool { return cap(w) < n })
 	return make([]big.Word, n, n+n/headroomDiv)
 }
 
@@ -203,28 +206,26 @@ func (e *Engine) IterateBytes(n int) int64 {
 }
 
 // Footprint estimates the peak bytes of Next from G_n: G_n, the running
-// sums it reads, G_(n+1), the arrays of differences of pushed moves (one
-// per goroutine) and the largest pair of intermediate arrays of a chained
-// move.
+// sums the step reads, G_(n+1), and the larger of the arrays of
+// differences of pushed moves (one per goroutine and group) and the
+// largest pair of intermediate arrays of a chained move.
 func (e *Engine) Footprint(n int) int64 {
 	in, limbs, _ := e.layout(n)
 	out, outLimbs, _ := e.layout(n + 1)
+	pushed, chained, used := e.plan(in, out)
 	var words int64
-	for _, nd := range e.needs {
-		words += int64(in[nd.p].count * limbs)
+	for i, nd := range e.needs {
+		if used[i] {
+			words += int64(in[nd.p].count * limbs)
+		}
 	}
 	procs := int64(runtime.GOMAXPROCS(0))
 	var chain, push int64
-	for _, t := range e.multi {
+	for _, grp := range pushed {
+		push = max(push, procs*int64(out[grp.to].count*outLimbs))
+	}
+	for _, t := range chained {
 		L := e.st.Length(t.mv.From)
-		src, dst := int64(in[t.mv.From].count), int64(out[t.mv.To].count)
-		if src == 0 || dst == 0 {
-			continue
-		}
-		if dst*procs*pushFactor <= src {
-			push += procs * dst * int64(outLimbs) // at most one group at a time; counted per move, an overestimate
-			continue
-		}
 		prev := int64(0)
 		for k := 0; k < len(t.ops)-1; k++ {
 			size := int64(scratchCount(len(t.ops[k+1].s0), n-L+1+k)) * int64(outLimbs)
@@ -304,19 +305,8 @@ func (e *Engine) step(ctx context.Context, g, recycle *Iterate) (*Iterate, error
 	for l := range ixs {
 		ixs[l] = NewIndexer(l, n+2)
 	}
-	pushed, chained := e.split(g, out)
+	pushed, chained, used := e.plan(g.blocks, out.blocks)
 	// Running sums of G_n, one array per need still read.
-	used := make([]bool, len(e.needs))
-	for q, terms := range e.single {
-		for _, t := range terms {
-			if t.need >= 0 && out.blocks[q].count > 0 {
-				used[t.need] = true
-			}
-		}
-	}
-	for _, t := range chained {
-		used[t.need] = true
-	}
 	sums := make([]block, len(e.needs))
 	var tasks []func()
 	for i, nd := range e.needs {
@@ -409,19 +399,29 @@ type pushGroup struct {
 // either way.)
 var pushFactor int64 = 4
 
-// split sorts the moves with several drops into pushed groups (in a fixed
-// order) and chained moves.
-func (e *Engine) split(g, out *Iterate) ([]pushGroup, []term) {
+// plan sorts the moves with several drops from blocks in to blocks out
+// into pushed groups (in a fixed order) and chained moves, and marks the
+// running sums of the input that single moves and chained moves read.
+func (e *Engine) plan(in, out []block) ([]pushGroup, []term, []bool) {
 	procs := int64(runtime.GOMAXPROCS(0))
 	var groups []pushGroup
 	var chained []term
+	used := make([]bool, len(e.needs))
+	for q, terms := range e.single {
+		for _, t := range terms {
+			if t.need >= 0 && out[q].count > 0 && in[t.mv.From].count > 0 {
+				used[t.need] = true
+			}
+		}
+	}
 	for _, t := range e.multi {
-		src, dst := g.blocks[t.mv.From].count, out.blocks[t.mv.To].count
+		src, dst := in[t.mv.From].count, out[t.mv.To].count
 		if src == 0 || dst == 0 {
 			continue
 		}
 		if int64(dst)*procs*pushFactor > int64(src) {
 			chained = append(chained, t)
+			used[t.need] = true
 			continue
 		}
 		k := slices.IndexFunc(groups, func(p pushGroup) bool { return p.to == t.mv.To && p.low == t.mv.groups.low })
@@ -431,7 +431,7 @@ func (e *Engine) split(g, out *Iterate) ([]pushGroup, []term) {
 		}
 		groups[k].terms = append(groups[k].terms, t)
 	}
-	return groups, chained
+	return groups, chained, used
 }
 
 // push adds the moves of one group into dst. Each goroutine adds every

@@ -1,11 +1,13 @@
 package transfer
 
 import (
+	"context"
 	"crypto/sha256"
 	"encoding/binary"
 	"math/big"
 	"math/bits"
 
+	"avoidcert/internal/par"
 	"avoidcert/internal/words"
 )
 
@@ -62,13 +64,28 @@ func (g *Iterate) At(p int, a []int) *big.Int {
 // States returns the states the iterate is indexed by.
 func (g *Iterate) States() *States { return g.states }
 
-// Sum returns the sum of all coefficients: a_n for the whole system.
+// Sum returns the sum of all coefficients: a_n for the whole system. The
+// coefficients are added in parallel parts (integer sums do not depend on
+// the order).
 func (g *Iterate) Sum() *big.Int {
-	acc := make([]big.Word, g.Limbs+1)
-	for off := 0; off < len(g.words); off += g.Limbs {
-		words.Add(acc, g.words[off:off+g.Limbs])
+	const part = 1 << 14 // coefficients per task
+	n := len(g.words) / max(g.Limbs, 1)
+	sums := make([][]big.Word, (n+part-1)/part)
+	_ = par.Run(context.Background(), len(sums), func() func(int) {
+		return func(i int) {
+			acc := make([]big.Word, g.Limbs+1)
+			for c := i * part; c < min((i+1)*part, n); c++ {
+				words.Add(acc, g.words[c*g.Limbs:(c+1)*g.Limbs])
+			}
+			sums[i] = acc
+		}
+	})
+	total := new(big.Int)
+	var x big.Int
+	for _, s := range sums {
+		total.Add(total, x.SetBits(s))
 	}
-	return new(big.Int).SetBits(acc)
+	return total
 }
 
 // StateSum returns the sum of the coefficients of state p.
