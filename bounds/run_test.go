@@ -473,3 +473,25 @@ func TestEnclosureString(t *testing.T) {
 		}
 	}
 }
+
+// TestTinyDeadline: a deadline that leaves room for a step but not for a
+// bracket must not take a bracket's base below the longest state (its
+// coefficients there do not exist yet); it once panicked that way.
+func TestTinyDeadline(t *testing.T) {
+	_, st := system(t, "1342")
+	for _, d := range []time.Duration{time.Microsecond, 100 * time.Microsecond, time.Millisecond, 3 * time.Millisecond} {
+		for range 20 {
+			ctx, cancel := context.WithTimeout(context.Background(), d)
+			res, err := Run(ctx, st, Options{Digits: 10}, nil)
+			cancel()
+			if err != nil {
+				continue // stopped before the first bracket: a budget refusal
+			}
+			for _, b := range res.Brackets {
+				if b.N < st.MaxLength() {
+					t.Fatalf("deadline %v: bracket at n = %d below the longest state %d", d, b.N, st.MaxLength())
+				}
+			}
+		}
+	}
+}

@@ -175,10 +175,11 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 				return StopTimeout, fmt.Sprintf("stopped at G_%d: a further bracket would not finish before the deadline", K), nil
 			}
 			keep := K == r.next
-			if !keep && budget > 0 && r.baseNeed(K+1, other) > budget {
+			early := K < r.first() // no bracket has its base below the system's longest state
+			if !keep && !early && budget > 0 && r.baseNeed(K+1, other) > budget {
 				keep = true // the last bracket the memory allows
 			}
-			if left, ok := timeLeft(ctx); ok && !keep && left < r.stepEstimate(K)+r.bracketTime(K+1) {
+			if left, ok := timeLeft(ctx); ok && !keep && !early && left < r.stepEstimate(K)+r.bracketTime(K+1) {
 				keep = true // the last bracket the deadline allows
 			}
 			if keep {

@@ -76,9 +76,9 @@ func Certificate(ctx context.Context, tool string, rep *structure.Report, st *tr
 	}
 	explicit := res.Explicit
 	if explicit == nil {
-		n := st.MaxLength()
-		if len(res.Brackets) > 0 {
-			n = max(n, res.Brackets[0].N)
+		n := st.MaxLength() // at the latest bracket's n: the iterate is closest to its limit shape there
+		for _, br := range res.Brackets {
+			n = max(n, br.N)
 		}
 		whole, err := bounds.BracketAt(ctx, transfer.Whole(st), n, 1, res.Prec)
 		if err != nil {
