@@ -10,6 +10,7 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
+	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/structure"
 	"avoidcert/transfer"
@@ -71,8 +72,9 @@ func Certificate(ctx context.Context, tool string, rep *structure.Report, st *tr
 	if stmt.Radius.Lo == nil {
 		stmt.Radius.Lo = new(big.Rat) // lambda = 0 exactly: the format has no infinite lower end
 	}
+	short := shortener{prec: res.Prec + 64, lambda: res.Lambda}
 	for _, br := range res.Brackets {
-		c.Evidence.Brackets = append(c.Evidence.Brackets, bracket(br, br.Upper))
+		c.Evidence.Brackets = append(c.Evidence.Brackets, short.bracket(br, br.Upper))
 	}
 	explicit := res.Explicit
 	if explicit == nil {
@@ -84,8 +86,9 @@ func Certificate(ctx context.Context, tool string, rep *structure.Report, st *tr
 		if err != nil {
 			return nil, err
 		}
-		c.Evidence.Brackets = append(c.Evidence.Brackets, bracket(*whole, false))
-		explicit = &bounds.AllN{N0: whole.N, AN0: whole.Sum, MuLo: whole.Lo, MuHi: whole.Hi}
+		b := short.bracket(*whole, false)
+		c.Evidence.Brackets = append(c.Evidence.Brackets, b)
+		explicit = &bounds.AllN{N0: whole.N, AN0: whole.Sum, MuLo: b.Lo, MuHi: b.Hi}
 	}
 	stmt.AllN = certify.AllN{N0: explicit.N0, AN0: explicit.AN0, MuLo: explicit.MuLo, MuHi: explicit.MuHi}
 	if err := certify.Derive(c); err != nil {
@@ -94,8 +97,43 @@ func Certificate(ctx context.Context, tool string, rep *structure.Report, st *tr
 	return c, nil
 }
 
+// shortener writes brackets with short bounds. A bracket's exact ends are
+// ratios of iterate coefficients, with about as many digits as n!; any lo'
+// <= lo and hi' >= hi pass the same coefficientwise test, so each end is
+// rounded outward to prec significant bits (a few dozen more than the
+// statement's), unless that would stop it from carrying an end of the
+// statement's lambda interval it carried exactly (lambda.lo^d <= lo,
+// hi <= lambda.hi^d), when it stays exact.
+// This keeps every number far below the format's length limit.
+type shortener struct {
+	prec   uint
+	lambda bounds.Enclosure
+}
+
 // bracket states one bracket of the engine in the certificate's terms.
-func bracket(br bounds.Bracket, upper bool) certify.Bracket {
+func (s shortener) bracket(br bounds.Bracket, upper bool) certify.Bracket {
+	lo, hi := br.Lo, br.Hi
+	if lo != nil && lo.Sign() > 0 {
+		r := interval.RoundDown(lo, s.prec)
+		if end := s.lambda.Lo; end == nil || pow(end, br.Step).Cmp(r) <= 0 || pow(end, br.Step).Cmp(lo) > 0 {
+			lo = r
+		}
+	}
+	if hi != nil && hi.Sign() > 0 {
+		r := interval.RoundUp(hi, s.prec)
+		if end := s.lambda.Hi; end == nil || pow(end, br.Step).Cmp(r) >= 0 || pow(end, br.Step).Cmp(hi) < 0 {
+			hi = r
+		}
+	}
 	return certify.Bracket{States: append([]int(nil), br.States...), Start: certify.Start(br.Start), Step: br.Step,
-		N: br.N, Lo: br.Lo, Hi: br.Hi, Upper: upper, IterateDigest: br.Digest}
+		N: br.N, Lo: lo, Hi: hi, Upper: upper, IterateDigest: br.Digest}
+}
+
+// pow returns r^d exactly.
+func pow(r *big.Rat, d int) *big.Rat {
+	p := new(big.Rat).SetInt64(1)
+	for range d {
+		p.Mul(p, r)
+	}
+	return p
 }

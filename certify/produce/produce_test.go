@@ -2,6 +2,7 @@ package produce_test
 
 import (
 	"context"
+	"math/big"
 	"testing"
 
 	"avoidcert/bounds"
@@ -53,5 +54,43 @@ func TestCertificatesPassTheChecker(t *testing.T) {
 		if c.Structure == nil || string(c.Structure.Class) != string(rep.Class) {
 			t.Errorf("%s: structure section %+v does not state class %s", set, c.Structure, rep.Class)
 		}
+	}
+}
+
+// TestShortBracketEnds: a bracket's exact ends have about as many digits as
+// n! (at 300 digits of 123 they passed the format's 4096-character limit);
+// the certificate states them rounded outward to a few dozen bits more
+// than the statement, and the checker still accepts it. 123: Elizalde and
+// Noy 2003 (the bracket contains 3 sqrt(3)/(2 pi); the bounds tests check
+// that).
+func TestShortBracketEnds(t *testing.T) {
+	ctx := context.Background()
+	set, err := pattern.ParseSet([]string{"123"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := transfer.NewStates(set)
+	res, err := bounds.Run(ctx, st, bounds.Options{Digits: 60, Digests: true}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := produce.Certificate(ctx, "produce test", rep, st, res, 60)
+	if err != nil {
+		t.Fatal(err)
+	}
+	limit := int(res.Prec) + 64 + 8 // significant bits, and a few for the binary point
+	for i, b := range c.Evidence.Brackets {
+		for _, end := range []*big.Rat{b.Lo, b.Hi} {
+			if end != nil && (end.Num().BitLen() > 2*limit || end.Denom().BitLen() > 2*limit) {
+				t.Errorf("bracket %d: end %d/%d bits is not shortened (limit about %d bits)", i, end.Num().BitLen(), end.Denom().BitLen(), limit)
+			}
+		}
+	}
+	if err := certify.Check(ctx, c, certify.CheckOptions{Expect: []string{"123"}}); err != nil {
+		t.Fatal(err)
 	}
 }
