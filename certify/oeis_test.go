@@ -2,6 +2,7 @@ package certify_test
 
 import (
 	"bufio"
+	"context"
 	"math/big"
 	"os"
 	"path/filepath"
@@ -55,6 +56,29 @@ func TestIterateSumsOEIS(t *testing.T) {
 		for k := 0; m+k < len(terms) && k <= 14; k++ {
 			if _, got := certify.IterateDigest(s, nil, k); got.Cmp(terms[m+k]) != 0 {
 				t.Fatalf("%s: a_%d = %s, %s gives %s", tc.set, m+k, got, tc.id, terms[m+k])
+			}
+		}
+	}
+}
+
+func TestCountsOEIS(t *testing.T) {
+	for _, tc := range []struct {
+		given []string
+		id    string
+	}{
+		{[]string{"123"}, "A049774"},   // OEIS A049774, offset 0
+		{[]string{"1342"}, "A117156"},  // OEIS A117156, offset 0
+		{[]string{"12345"}, "A177523"}, // OEIS A177523, offset 0
+	} {
+		terms := oeisTerms(t, tc.id)
+		n := min(len(terms)-1, 14)
+		got, err := certify.Counts(context.Background(), tc.given, n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range n + 1 {
+			if got[i].Cmp(terms[i]) != 0 {
+				t.Fatalf("%v: a_%d = %s, %s gives %s", tc.given, i, got[i], tc.id, terms[i])
 			}
 		}
 	}
