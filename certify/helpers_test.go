@@ -7,7 +7,7 @@ import (
 	"testing"
 
 	"avoidcert/certify"
-	"avoidcert/certify/produce"
+	"avoidcert/prove"
 	"avoidcert/pattern"
 	"avoidcert/structure"
 	"avoidcert/transfer"
@@ -183,7 +183,7 @@ func analyze(t testing.TB, s pattern.Set) *structure.Report {
 
 func structureOf(t testing.TB, s pattern.Set) *certify.Structure {
 	t.Helper()
-	return produce.Structure(analyze(t, s))
+	return prove.Structure(analyze(t, s))
 }
 
 // root returns a rational r with r^d <= x (up false) or r^d >= x (up

@@ -14,7 +14,7 @@ import (
 	"testing"
 
 	"avoidcert/certify"
-	"avoidcert/certify/produce"
+	"avoidcert/prove"
 	"avoidcert/internal/brute"
 	"avoidcert/pattern"
 )
@@ -165,7 +165,7 @@ func TestStructureConformance(t *testing.T) {
 	largest := 0
 	for i, s := range sets {
 		rep := analyze(t, s)
-		st := produce.Structure(rep)
+		st := prove.Structure(rep)
 		c := assembleWith(t, s.Given(), []engineBracket{upperBracket(t, s)}, st)
 		if err := certify.Check(c, certify.CheckOptions{Expect: s}); err != nil {
 			t.Fatalf("%s (%s): %v", s, rep.Class, err)

@@ -13,7 +13,7 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
-	"avoidcert/certify/produce"
+	"avoidcert/prove"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/structure"
@@ -131,8 +131,8 @@ type plan struct {
 }
 
 func planFor(ctx context.Context, set pattern.Set) (*plan, error) {
-	// Certificates list witnesses up to produce.MaxWitnessM.
-	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: set.Window()-1 <= produce.MaxWitnessM})
+	// Certificates list witnesses up to prove.MaxWitnessM.
+	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: set.Window()-1 <= prove.MaxWitnessM})
 	if err != nil {
 		return nil, err
 	}
@@ -192,7 +192,7 @@ func runBound(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	cert, err := produce.Certificate(ctx, "avoidcert "+version, p.rep, p.sys, res, printDigits(opts))
+	cert, err := prove.BuildCertificate(ctx, "avoidcert "+version, p.rep, p.sys, res, printDigits(opts))
 	if err != nil {
 		return failure(e, err)
 	}

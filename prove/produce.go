@@ -1,8 +1,4 @@
-// Package produce builds certificates from the results of the fast
-// engine: a bracket run of package bounds and a report of package
-// structure. It is the producer's side only; the checker in package certify
-// never imports it, so a mistake here can only make the checker refuse.
-package produce
+package prove
 
 import (
 	"context"
@@ -52,13 +48,13 @@ func Structure(rep *structure.Report) *certify.Structure {
 	return st
 }
 
-// Certificate turns a bracket result for the set of rep (iterated as sys,
+// BuildCertificate turns a bracket result for the set of rep (iterated as sys,
 // whole or by blocks) into a certificate whose ranges are printed with the
 // given significant digits. Every bracket the enclosure rests on carries
 // the upper bound; the explicit all-n bounds need a whole-system step-1
 // bracket, taken here when the run did not have one (periodic or
 // reducible sets). res must come from a run with Options.Digests.
-func Certificate(ctx context.Context, tool string, rep *structure.Report, sys transfer.System, res *bounds.Result, digits int) (*certify.Certificate, error) {
+func BuildCertificate(ctx context.Context, tool string, rep *structure.Report, sys transfer.System, res *bounds.Result, digits int) (*certify.Certificate, error) {
 	set := rep.Set
 	c := &certify.Certificate{Tool: tool, Structure: Structure(rep)}
 	st := &c.Statement

@@ -1,4 +1,4 @@
-package produce_test
+package prove_test
 
 import (
 	"context"
@@ -6,8 +6,8 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
-	"avoidcert/certify/produce"
 	"avoidcert/pattern"
+	"avoidcert/prove"
 	"avoidcert/structure"
 	"avoidcert/transfer"
 )
@@ -47,7 +47,7 @@ func TestCertificatesPassTheChecker(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		c, err := produce.Certificate(ctx, "produce test", rep, sys, res, 10)
+		c, err := prove.BuildCertificate(ctx, "produce test", rep, sys, res, 10)
 		if err != nil {
 			t.Fatal(err)
 		}
