@@ -197,11 +197,8 @@ func orderOutcome(c Claim, first, second *certify.Certificate) outcome {
 	for v != Undecided && digits < 60 && !disjointAt(a, b, digits) {
 		digits += 4
 	}
-	shown := fmt.Sprintf("lambda(%s) in %s, lambda(%s) in %s", c.Set, a.String(digits), c.Other, b.String(digits))
-	if v == Undecided {
-		shown += ": not separated"
-	}
-	return outcome{v, shown}
+	relation := map[Verdict]string{Proved: "is below", Refuted: "is not below", Undecided: "overlaps"}[v]
+	return outcome{v, fmt.Sprintf("lambda(%s) in %s %s lambda(%s) in %s", c.Set, a.String(digits), relation, c.Other, b.String(digits))}
 }
 
 // disjointAt reports whether the enclosures, printed outward to the given

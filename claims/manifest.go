@@ -48,7 +48,8 @@ var DefaultBudget = Budget{MaxK: certify.MaxK, MaxN: 100, MaxMemory: 4 << 30}
 
 // Manifest is a parsed claims file.
 type Manifest struct {
-	File string
+	File  string
+	Title string // what the claims are from, e.g. "Table 2 of ..." (optional)
 	// Timeout is the whole run's (0: none), from [run].
 	Timeout time.Duration
 	// MaxMemory caps every claim's MaxMemory (0: no cap), from [run].
@@ -160,7 +161,8 @@ type rawClaim struct {
 }
 
 type rawManifest struct {
-	Run struct {
+	Title *string `toml:"title"`
+	Run   struct {
 		Timeout   *string `toml:"timeout"`
 		MaxMemory *text   `toml:"max_memory"`
 	} `toml:"run"`
@@ -204,6 +206,9 @@ func Parse(file string, data []byte) (*Manifest, error) {
 			Msg: "unknown field; see docs/claims.md for the fields of each kind"}
 	}
 	m := &Manifest{File: file}
+	if raw.Title != nil {
+		m.Title = *raw.Title
+	}
 	runErr := func(field, msg string) error {
 		return &Error{File: file, Line: loc.table("run", field), Field: "run." + field, Msg: msg}
 	}
