@@ -14,9 +14,9 @@ import (
 	"testing"
 
 	"avoidcert/certify"
-	"avoidcert/prove"
 	"avoidcert/internal/brute"
 	"avoidcert/pattern"
+	"avoidcert/prove"
 )
 
 func TestRankOfMatchesPattern(t *testing.T) {
