@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"strings"
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
@@ -95,6 +96,7 @@ func Judge(ctx context.Context, set pattern.Set, claim interval.Interval, of bou
 		res, err = p.bracket(ctx, bo, opts.Progress)
 	} else {
 		_, res, err = bounds.JudgeBlocks(ctx, p.sys, p.blocks, claim, of, bo, opts.Progress)
+		err = budgetError(ctx, err)
 	}
 	if err != nil {
 		return nil, err
@@ -199,10 +201,31 @@ func (p *plan) bracket(ctx context.Context, opts bounds.Options, progress bounds
 	if p.rep.Class == structure.Subexponential {
 		opts.MaxK = min(opts.MaxK, 40)
 	}
+	var res *bounds.Result
+	var err error
 	if p.blocks != nil {
-		return bounds.RunBlocks(ctx, p.sys, p.blocks, opts, progress)
+		res, err = bounds.RunBlocks(ctx, p.sys, p.blocks, opts, progress)
+	} else {
+		res, err = bounds.Run(ctx, p.sys, opts, progress)
 	}
-	return bounds.Run(ctx, p.sys, opts, progress)
+	return res, budgetError(ctx, err)
+}
+
+// budgetError marks the bracket runs' refusals that a larger budget would
+// lift: a memory budget below the first bracket's need, or a budget that
+// stopped the run before its first bracket. Package bounds states them in
+// words only (no sentinel error), so they are recognised by their wording;
+// an unrecognised error is returned as it is.
+func budgetError(ctx context.Context, err error) error {
+	switch {
+	case err == nil:
+		return nil
+	case ctx.Err() != nil:
+		return fmt.Errorf("%w (%v)", ctx.Err(), err)
+	case strings.Contains(err.Error(), "memory budget"), strings.Contains(err.Error(), "before the first bracket"):
+		return fmt.Errorf("%w: %v", ErrBudget, err)
+	}
+	return err
 }
 
 // finish builds the certificate of a run and returns it once the checker

@@ -132,3 +132,12 @@ func TestRecheckTampered(t *testing.T) {
 		t.Errorf("a certificate for another set: %v", err)
 	}
 }
+
+// A memory budget too small for the first bracket is a budget refusal
+// (ErrBudget), not a failure.
+func TestBudgetTooSmall(t *testing.T) {
+	_, err := prove.Certify(context.Background(), settest.Must(t, "1342"), prove.Options{MaxMemory: 1024})
+	if !errors.Is(err, prove.ErrBudget) {
+		t.Errorf("got %v, want ErrBudget", err)
+	}
+}
