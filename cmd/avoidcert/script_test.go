@@ -3,7 +3,10 @@ package main
 import (
 	"bytes"
 	"context"
+	"errors"
 	"os"
+	"os/exec"
+	"strconv"
 	"testing"
 
 	"github.com/rogpeppe/go-internal/testscript"
@@ -24,7 +27,7 @@ func TestMain(m *testing.M) {
 func TestScripts(t *testing.T) {
 	testscript.Run(t, testscript.Params{
 		Dir:  "testdata/script",
-		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){"replace": replaceCmd},
+		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){"replace": replaceCmd, "exits": exitsCmd},
 	})
 }
 
@@ -43,4 +46,26 @@ func replaceCmd(ts *testscript.TestScript, neg bool, args []string) {
 		ts.Fatalf("replace: %q not found in %s", args[1], args[0])
 	}
 	ts.Check(os.WriteFile(path, bytes.Replace(data, old, []byte(args[2]), 1), 0o644))
+}
+
+// exitsCmd is the script command "exits CODE PROGRAM ARGS...": it runs the
+// program like exec, keeps its output for stdout and stderr, and fails
+// unless it exits with CODE.
+func exitsCmd(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) < 2 {
+		ts.Fatalf("usage: exits CODE PROGRAM ARGS...")
+	}
+	want, err := strconv.Atoi(args[0])
+	ts.Check(err)
+	got := 0
+	if err := ts.Exec(args[1], args[2:]...); err != nil {
+		var ee *exec.ExitError
+		if !errors.As(err, &ee) {
+			ts.Fatalf("%s: %v", args[1], err)
+		}
+		got = ee.ExitCode()
+	}
+	if got != want {
+		ts.Fatalf("%s exited with %d, want %d", args[1], got, want)
+	}
 }
