@@ -20,7 +20,10 @@
 //   - A budget (Options.MaxK, MaxMemory, the context's deadline) never
 //     turns into a verdict: a bracket stopped by it still gives a checked
 //     certificate whose verdict may be undecided, and a refusal before the
-//     work is an error wrapping ErrBudget.
+//     work is an error wrapping ErrBudget. The deadline bounds the
+//     engine's work; the check of the certificate of the bracket it kept
+//     follows it (the checker does not take a context yet). Cancelling
+//     the context (an interrupt) stops everything with its error.
 //
 // This package is the only one outside package main that calls into
 // transfer, bounds and certify together; the claims gate, the census and

@@ -151,10 +151,12 @@ func Recheck(ctx context.Context, c *certify.Certificate, set pattern.Set, opts 
 	return check(ctx, c, set, opts)
 }
 
-// check is the one place that calls the checker.
+// check is the one place that calls the checker. It refuses to start
+// after an interrupt (cancellation), not after a deadline: a budget stop
+// keeps the best bracket, and its certificate is still checked.
 func check(ctx context.Context, c *certify.Certificate, set pattern.Set, opts Options) error {
-	if err := ctx.Err(); err != nil {
-		return err
+	if errors.Is(ctx.Err(), context.Canceled) {
+		return ctx.Err()
 	}
 	err := certify.Check(c, certify.CheckOptions{Expect: set, MaxWork: opts.checkWork(), MaxMemory: opts.maxMemory()})
 	if errors.Is(err, certify.ErrLimit) {
@@ -231,9 +233,16 @@ func budgetError(ctx context.Context, err error) error {
 // finish builds the certificate of a run and returns it once the checker
 // accepts it.
 func (p *plan) finish(ctx context.Context, res *bounds.Result, digits int, opts Options) (*Result, error) {
-	c, err := BuildCertificate(ctx, opts.tool(), p.rep, p.sys, res, digits)
+	buildCtx := ctx
+	if errors.Is(ctx.Err(), context.DeadlineExceeded) {
+		// The deadline stopped the bracket run in time to keep its best
+		// bracket: certify that one. Building the certificate may take
+		// one more bracket at the same k (periodic and reducible sets).
+		buildCtx = context.WithoutCancel(ctx)
+	}
+	c, err := BuildCertificate(buildCtx, opts.tool(), p.rep, p.sys, res, digits)
 	if err != nil {
-		return nil, err
+		return nil, budgetError(ctx, err)
 	}
 	if err := check(ctx, c, p.rep.Set, opts); err != nil {
 		return nil, fmt.Errorf("prove: the certificate built for %s did not pass the checker: %w", p.rep.Set, err)
