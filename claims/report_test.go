@@ -9,6 +9,9 @@ import (
 	"time"
 )
 
+// sampleResults are made-up results for the report formats (no claim is
+// judged here); the numbers echo OEIS A049774 (a_12 of 123) and A113228
+// (lambda(1324)).
 var sampleResults = []Result{
 	{ID: "a", Kind: KindCount, Verdict: Proved, Evidence: "a_12 = 74207209", Elapsed: time.Millisecond},
 	{ID: "b", Kind: KindGrowth, Verdict: Refuted, Evidence: "lambda in [0.95584, 0.95586], outside the claim 0.95589 <&>",
