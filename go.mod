@@ -3,7 +3,10 @@ module avoidcert
 go 1.26.8
 
 require (
+	github.com/BurntSushi/toml v1.6.0
 	github.com/rogpeppe/go-internal v1.16.0
+	github.com/vbauerster/cupwriter v0.0.5
+	github.com/vbauerster/mpb/v8 v8.16.2
 	gonum.org/v1/gonum v0.17.0
 )
 
@@ -12,8 +15,6 @@ require (
 	github.com/acarl005/stripansi v0.0.0-20180116102854-5a71ef0e047d // indirect
 	github.com/clipperhouse/uax29/v2 v2.7.0 // indirect
 	github.com/mattn/go-runewidth v0.0.30 // indirect
-	github.com/vbauerster/cupwriter v0.0.5 // indirect
-	github.com/vbauerster/mpb/v8 v8.16.2 // indirect
 	golang.org/x/sys v0.48.0 // indirect
 	golang.org/x/tools v0.32.0 // indirect
 )

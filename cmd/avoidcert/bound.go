@@ -12,7 +12,7 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
-	"avoidcert/certify/produce"
+	"avoidcert/prove"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/structure"
@@ -177,8 +177,8 @@ type plan struct {
 }
 
 func planFor(ctx context.Context, set pattern.Set) (*plan, error) {
-	// Certificates list witnesses up to produce.MaxWitnessM.
-	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: set.Window()-1 <= produce.MaxWitnessM})
+	// Certificates list witnesses up to prove.MaxWitnessM.
+	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: set.Window()-1 <= prove.MaxWitnessM})
 	if err != nil {
 		return nil, err
 	}
@@ -254,7 +254,7 @@ func runBound(ctx context.Context, e *env, args []string) int {
 	// The budget is spent; certifying the best bracket is not cut short
 	// by --timeout, only by Ctrl-C. The certificate is made even with
 	// --no-certificate: the explicit bound printed is its statement.
-	cert, err := produce.Certificate(ctx, "avoidcert "+version, p.rep, p.states, res, printDigits(opts))
+	cert, err := prove.BuildCertificate(ctx, "avoidcert "+version, p.rep, p.states, res, printDigits(opts))
 	if err != nil {
 		return failure(e, err)
 	}

@@ -10,6 +10,7 @@ import (
 	"strings"
 	"time"
 
+	"avoidcert/internal/bytesize"
 	"avoidcert/pattern"
 )
 
@@ -71,18 +72,11 @@ type byteSize int64
 func (b *byteSize) String() string { return strconv.FormatInt(int64(*b), 10) }
 
 func (b *byteSize) Set(s string) error {
-	units := map[string]int64{"": 1, "K": 1 << 10, "M": 1 << 20, "G": 1 << 30, "T": 1 << 40}
-	t := strings.ToUpper(strings.TrimSpace(s))
-	t = strings.TrimSuffix(strings.TrimSuffix(t, "B"), "I")
-	unit := ""
-	if n := len(t); n > 0 && strings.ContainsAny(t[n-1:], "KMGT") {
-		unit, t = t[n-1:], t[:n-1]
+	v, err := bytesize.Parse(s)
+	if err != nil {
+		return err
 	}
-	v, err := strconv.ParseFloat(t, 64)
-	if err != nil || v <= 0 {
-		return fmt.Errorf("%s is not a memory size; write e.g. 8G, 512M or 2000000000", quote(s))
-	}
-	*b = byteSize(v * float64(units[unit]))
+	*b = byteSize(v)
 	return nil
 }
 

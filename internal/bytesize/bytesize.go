@@ -1,7 +1,32 @@
-// Package bytesize writes memory sizes for messages.
+// Package bytesize reads and writes memory sizes for flags, manifests and
+// messages.
 package bytesize
 
-import "fmt"
+import (
+	"fmt"
+	"strconv"
+	"strings"
+)
+
+// Parse reads a size such as 8G, 512M, 2GiB or 1000000 (bytes); the units
+// K, M, G, T are binary (1K = 1024 bytes).
+func Parse(s string) (int64, error) {
+	units := map[string]int64{"": 1, "K": 1 << 10, "M": 1 << 20, "G": 1 << 30, "T": 1 << 40}
+	t := strings.ToUpper(strings.TrimSpace(s))
+	t = strings.TrimSuffix(strings.TrimSuffix(t, "B"), "I")
+	unit := ""
+	if n := len(t); n > 0 && strings.ContainsAny(t[n-1:], "KMGT") {
+		unit, t = t[n-1:], t[:n-1]
+	}
+	v, err := strconv.ParseFloat(t, 64)
+	if err != nil || v <= 0 {
+		if len(s) > 40 { // quote a few dozen characters at most
+			s = s[:40] + "..."
+		}
+		return 0, fmt.Errorf("%q is not a memory size; write e.g. 8G, 512M or 2000000000", s)
+	}
+	return int64(v * float64(units[unit])), nil
+}
 
 // Format writes n bytes with a binary unit: "8.0 GiB", "136.9 MiB",
 // "2.0 KiB", "512 bytes".

@@ -18,3 +18,19 @@ func TestFormat(t *testing.T) {
 		}
 	}
 }
+
+func TestParse(t *testing.T) {
+	for _, tc := range []struct {
+		in   string
+		want int64
+		ok   bool
+	}{
+		{"8G", 8 << 30, true}, {"512M", 512 << 20, true}, {"2GiB", 2 << 30, true},
+		{"1000000", 1000000, true}, {"1.5K", 1536, true}, {"", 0, false}, {"-1G", 0, false}, {"lots", 0, false},
+	} {
+		got, err := Parse(tc.in)
+		if (err == nil) != tc.ok || got != tc.want {
+			t.Errorf("Parse(%q) = %d, %v; want %d (ok %v)", tc.in, got, err, tc.want, tc.ok)
+		}
+	}
+}

@@ -9,7 +9,7 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
-	"avoidcert/certify/produce"
+	"avoidcert/prove"
 	"avoidcert/internal/brute"
 	"avoidcert/interval"
 	"avoidcert/pattern"
@@ -106,7 +106,7 @@ func engineCertificate(t *testing.T, s pattern.Set, n int) (*certify.Certificate
 	}
 	c := &certify.Certificate{Tool: "avoidcert conformance tests", Statement: certify.Statement{Given: s.Strings()}}
 	if rep.M >= 0 {
-		c.Structure = produce.Structure(rep)
+		c.Structure = prove.Structure(rep)
 	}
 	lo, hi := new(big.Rat), new(big.Rat)
 	for _, b := range brackets {

@@ -1,4 +1,4 @@
-package produce_test
+package prove_test
 
 import (
 	"context"
@@ -7,7 +7,7 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
-	"avoidcert/certify/produce"
+	"avoidcert/prove"
 	"avoidcert/pattern"
 	"avoidcert/structure"
 	"avoidcert/transfer"
@@ -44,7 +44,7 @@ func TestCertificatesPassTheChecker(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		c, err := produce.Certificate(ctx, "produce test", rep, st, res, 10)
+		c, err := prove.BuildCertificate(ctx, "produce test", rep, st, res, 10)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -78,7 +78,7 @@ func TestShortBracketEnds(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	c, err := produce.Certificate(ctx, "produce test", rep, st, res, 60)
+	c, err := prove.BuildCertificate(ctx, "produce test", rep, st, res, 60)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,8 +1,4 @@
-// Package produce builds certificates from the results of the fast
-// engine: a bracket run of package bounds and a report of package
-// structure. It is the producer's side only; the checker in package certify
-// never imports it, so a mistake here can only make the checker refuse.
-package produce
+package prove
 
 import (
 	"context"
@@ -62,7 +58,7 @@ func Structure(rep *structure.Report) *certify.Structure {
 // bounds need a whole-system step-1 bracket, taken here when the run did
 // not have one (periodic or reducible sets). res must come from a run
 // with Options.Digests.
-func Certificate(ctx context.Context, tool string, rep *structure.Report, st *transfer.States, res *bounds.Result, digits int) (*certify.Certificate, error) {
+func BuildCertificate(ctx context.Context, tool string, rep *structure.Report, st *transfer.States, res *bounds.Result, digits int) (*certify.Certificate, error) {
 	set := rep.Set
 	c := &certify.Certificate{Tool: tool, Structure: Structure(rep)}
 	stmt := &c.Statement

@@ -1,0 +1,241 @@
+package claims
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io/fs"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"avoidcert/certify"
+	"avoidcert/pattern"
+	"avoidcert/prove"
+)
+
+// Options of Run.
+type Options struct {
+	// CacheDir holds certificates between runs, keyed by a digest of each
+	// claim's content ("" for no cache). It must exist.
+	CacheDir string
+	// CertDir, if set, receives a copy of every certificate a verdict
+	// rests on, named after the claim id. It must exist.
+	CertDir string
+	// Timeout is the whole run's; it overrides the manifest's [run]
+	// timeout when positive.
+	Timeout time.Duration
+	// MaxMemory caps every claim's max_memory when positive (else the
+	// manifest's [run] max_memory, if any).
+	MaxMemory int64
+	// Tool is written into new certificates.
+	Tool string
+	// Done, if set, is called after each claim with its result.
+	Done func(Result)
+}
+
+// CertificateRef names a certificate a verdict rests on.
+type CertificateRef struct {
+	Set    string `json:"set"`            // the pattern set it is for
+	Path   string `json:"path,omitempty"` // where it is kept ("" when neither kept nor cached)
+	SHA256 string `json:"sha256"`         // of the file's bytes
+}
+
+// Result is the outcome of one claim.
+type Result struct {
+	ID       string
+	Kind     Kind
+	Line     int
+	Verdict  Verdict
+	Evidence string // in a few words
+	// Certificates are the checked certificates the verdict rests on
+	// (growth, form and order claims).
+	Certificates []CertificateRef
+	// Cached reports that the verdict rests on cached certificates that
+	// the checker re-verified in this run, with nothing recomputed.
+	Cached  bool
+	Elapsed time.Duration
+}
+
+// Run judges every claim of the manifest in order. It returns an error
+// only when ctx is cancelled (an interrupt), with the results so far;
+// budgets make claims undecided, and a failure of the tool on one claim
+// is that claim's Failed verdict.
+func Run(ctx context.Context, m *Manifest, opts Options) ([]Result, error) {
+	runCtx := ctx
+	timeout := m.Timeout
+	if opts.Timeout > 0 {
+		timeout = opts.Timeout
+	}
+	if timeout > 0 {
+		var cancel context.CancelFunc
+		runCtx, cancel = context.WithTimeout(ctx, timeout)
+		defer cancel()
+	}
+	memCap := m.MaxMemory
+	if opts.MaxMemory > 0 {
+		memCap = opts.MaxMemory
+	}
+	var results []Result
+	for _, c := range m.Claims {
+		if err := ctx.Err(); err != nil {
+			return results, err
+		}
+		if memCap > 0 {
+			c.Budget.MaxMemory = min(c.Budget.MaxMemory, memCap)
+		}
+		r := judge(runCtx, c, opts)
+		if err := ctx.Err(); err != nil {
+			return results, err
+		}
+		results = append(results, r)
+		if opts.Done != nil {
+			opts.Done(r)
+		}
+	}
+	return results, nil
+}
+
+func judge(runCtx context.Context, c Claim, opts Options) Result {
+	start := time.Now()
+	ctx := runCtx
+	if c.Budget.Timeout > 0 {
+		var cancel context.CancelFunc
+		ctx, cancel = context.WithTimeout(runCtx, c.Budget.Timeout)
+		defer cancel()
+	}
+	po := prove.Options{MaxK: c.Budget.MaxK, MaxMemory: c.Budget.MaxMemory, Tool: opts.Tool}
+	r := Result{ID: c.ID, Kind: c.Kind, Line: c.Line}
+	var o outcome
+	err := ctx.Err()
+	if err == nil {
+		switch c.Kind {
+		case KindCount, KindEqualCounts, KindProbability:
+			o, err = judgeCounts(ctx, c, po)
+		default:
+			o, r.Certificates, r.Cached, err = judgeCertified(ctx, c, po, opts)
+		}
+	}
+	if err != nil {
+		if bo, ok := budgetOutcome(err, ctx, runCtx, c); ok {
+			o = bo
+		} else {
+			o = outcome{Failed, err.Error()}
+		}
+	}
+	r.Verdict, r.Evidence, r.Elapsed = o.verdict, o.evidence, time.Since(start)
+	return r
+}
+
+// judgeCertified decides a claim from certificates: cached ones that the
+// checker accepts again when they decide it, otherwise fresh ones.
+func judgeCertified(ctx context.Context, c Claim, po prove.Options, opts Options) (outcome, []CertificateRef, bool, error) {
+	cf := certifiedFor(c)
+	note := ""
+	if opts.CacheDir != "" {
+		certs, err := loadChecked(ctx, cf.sets, cachePaths(opts.CacheDir, c, len(cf.sets)), po)
+		switch {
+		case err == nil:
+			if o := cf.decide(certs); o.verdict != Undecided {
+				refs, err := keep(c, cf.sets, certs, opts, false)
+				o.evidence = "re-checked cached certificate: " + o.evidence
+				return o, refs, true, err
+			}
+		case errors.Is(err, fs.ErrNotExist):
+		case ctx.Err() != nil:
+			return outcome{}, nil, false, err
+		default:
+			note = fmt.Sprintf("cached certificate refused (%v), recomputed; ", err)
+		}
+	}
+	certs, o, err := cf.compute(ctx, po)
+	if err != nil {
+		return outcome{}, nil, false, err
+	}
+	refs, err := keep(c, cf.sets, certs, opts, true)
+	o.evidence = note + o.evidence
+	return o, refs, false, err
+}
+
+// loadChecked reads cached certificates and has the checker accept each
+// for its set.
+func loadChecked(ctx context.Context, sets []pattern.Set, paths []string, po prove.Options) ([]*certify.Certificate, error) {
+	var certs []*certify.Certificate
+	for i, p := range paths {
+		cert, err := prove.Load(p)
+		if err != nil {
+			return nil, err
+		}
+		if err := prove.Recheck(ctx, cert, sets[i], po); err != nil {
+			return nil, fmt.Errorf("%s: %w", filepath.Base(p), err)
+		}
+		certs = append(certs, cert)
+	}
+	return certs, nil
+}
+
+// keep writes the certificates into the cache (when fresh) and into
+// CertDir, and returns their references.
+func keep(c Claim, sets []pattern.Set, certs []*certify.Certificate, opts Options, fresh bool) ([]CertificateRef, error) {
+	var refs []CertificateRef
+	var cached []string
+	if opts.CacheDir != "" {
+		cached = cachePaths(opts.CacheDir, c, len(certs))
+	}
+	for i, cert := range certs {
+		ref := CertificateRef{Set: sets[i].String()}
+		var err error
+		if ref.SHA256, err = prove.Digest(cert); err != nil {
+			return nil, err
+		}
+		if cached != nil {
+			ref.Path = cached[i]
+			if fresh {
+				if err := prove.Save(cached[i], cert); err != nil {
+					return nil, fmt.Errorf("cannot write the cache: %v", err)
+				}
+			}
+		}
+		if opts.CertDir != "" {
+			ref.Path = filepath.Join(opts.CertDir, certName(c.ID, i, len(certs)))
+			if err := prove.Save(ref.Path, cert); err != nil {
+				return nil, fmt.Errorf("cannot keep the certificate: %v", err)
+			}
+		}
+		refs = append(refs, ref)
+	}
+	return refs, nil
+}
+
+// certName is "ID.json", or "ID.1.json" and "ID.2.json" for the two
+// sets of an order claim.
+func certName(id string, i, n int) string {
+	if n == 1 {
+		return id + ".json"
+	}
+	return fmt.Sprintf("%s.%d.json", id, i+1)
+}
+
+// Key is the digest of a claim's content: its kind, sets and claimed
+// values, not its id, note or budget. Two claims with one key need the
+// same certificates.
+func Key(c Claim) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "avoidcert-claim-v1\nkind %s\nset %s\nother %s\nof %s\n", c.Kind, c.Set, c.Other, c.Of)
+	if c.Claimed.Lo != nil {
+		fmt.Fprintf(&b, "claimed %s %s\n", c.Claimed.Lo.RatString(), c.Claimed.Hi.RatString())
+	}
+	fmt.Fprintf(&b, "form %s period %d\n", c.Form, c.Period)
+	sum := sha256.Sum256([]byte(b.String()))
+	return hex.EncodeToString(sum[:])
+}
+
+func cachePaths(dir string, c Claim, n int) []string {
+	paths := make([]string, n)
+	for i := range paths {
+		paths[i] = filepath.Join(dir, certName(Key(c)[:32], i, n))
+	}
+	return paths
+}

@@ -1,0 +1,81 @@
+package prove
+
+import (
+	"errors"
+	"math/big"
+
+	"avoidcert/bounds"
+	"avoidcert/certify"
+	"avoidcert/transfer"
+)
+
+// Defaults of Options.
+const (
+	// DefaultMaxMemory caps the engine's and the checker's estimated
+	// memory when Options.MaxMemory is 0.
+	DefaultMaxMemory = 8 << 30
+	// DefaultCheckWork caps the checker's estimated work when
+	// Options.CheckWork is 0: the checker's own default (also that of
+	// 'avoidcert check'), so whatever Certify builds within its memory
+	// budget is checked.
+	DefaultCheckWork = certify.DefaultMaxWork
+	// defaultDigits is Certify's target when neither Digits nor Width is set.
+	defaultDigits = 10
+)
+
+// ErrBudget is wrapped by every refusal that a larger budget could lift:
+// a count whose iterates would not fit in Options.MaxMemory, a certificate
+// over the checker's limits.
+var ErrBudget = errors.New("over the budget")
+
+// Options set the target and the budgets of a call. The zero value is
+// usable.
+type Options struct {
+	// Digits and Width are Certify's target (see bounds.Options); with
+	// neither, Certify aims for 10 significant digits. Judge and Compare
+	// choose their own targets.
+	Digits int
+	Width  *big.Rat
+	// MaxK caps a bracket's k = n - M, M the longest prefix state (0: as
+	// far as certify.MaxN, the format's limit on n, allows).
+	MaxK int
+	// MaxMemory caps the estimated memory of the engine and of the
+	// checker, in bytes (0: DefaultMaxMemory).
+	MaxMemory int64
+	// CheckWork caps the checker's estimated work in coefficient
+	// operations (0: DefaultCheckWork).
+	CheckWork int64
+	// Tool is written into certificates (default "avoidcert").
+	Tool string
+	// Progress, if set, receives the bracket runs' events.
+	Progress bounds.Progress
+}
+
+// maxN is the largest bracket n the budget allows on states st.
+func (o Options) maxN(st *transfer.States) int {
+	if o.MaxK <= 0 {
+		return certify.MaxN
+	}
+	return min(o.MaxK+st.MaxLength(), certify.MaxN)
+}
+
+func (o Options) maxMemory() int64 {
+	if o.MaxMemory <= 0 {
+		return DefaultMaxMemory
+	}
+	return o.MaxMemory
+}
+
+func (o Options) checkWork() int64 {
+	if o.CheckWork <= 0 {
+		return DefaultCheckWork
+	}
+	return o.CheckWork
+}
+
+func (o Options) tool() string {
+	if o.Tool == "" {
+		return "avoidcert"
+	}
+	return o.Tool
+}

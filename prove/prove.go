@@ -1,0 +1,249 @@
+package prove
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"strings"
+
+	"avoidcert/bounds"
+	"avoidcert/certify"
+	"avoidcert/interval"
+	"avoidcert/pattern"
+	"avoidcert/structure"
+	"avoidcert/transfer"
+)
+
+// Result is a checked certificate for a set and the runs it was built
+// from.
+type Result struct {
+	Set    pattern.Set
+	Report *structure.Report // the structure pass
+	States *transfer.States  // the prefix states of Set
+	Step   int               // the bracket's step d (the period of a periodic set, else 1)
+	Blocks [][]int           // the blocks bracketed one by one (reducible sets), or nil
+	// Bracket is the engine's run; Bracket.Stop says whether the target
+	// was met or a budget stopped it first.
+	Bracket *bounds.Result
+	// Certificate is the certificate built from the run, accepted by
+	// certify.Check for Set.
+	Certificate *certify.Certificate
+}
+
+// Done reports whether the bracket run reached its goal (a target met,
+// lambda exact, a claim decided, or lambda = 0 proved by the structure
+// pass) rather than stopping on a budget.
+func (r *Result) Done() bool {
+	switch r.Bracket.Stop {
+	case bounds.StopTarget, bounds.StopExact, bounds.StopDecided:
+		return true
+	}
+	return r.Report.Class == structure.Subexponential
+}
+
+// Certify brackets the growth rate of set to the target of opts (or until
+// a budget stops it), builds the certificate and returns it once the
+// checker has accepted it.
+func Certify(ctx context.Context, set pattern.Set, opts Options) (*Result, error) {
+	p, err := planFor(ctx, set)
+	if err != nil {
+		return nil, err
+	}
+	bo := p.options(opts)
+	bo.Digits, bo.Width = opts.Digits, opts.Width
+	if bo.Digits == 0 && bo.Width == nil {
+		bo.Digits = defaultDigits
+	}
+	res, err := p.bracket(ctx, bo, opts.Progress)
+	if err != nil {
+		return nil, err
+	}
+	digits := 20
+	if bo.Digits > 0 {
+		digits = bo.Digits + 3 // a few more than certified, so the printed ends show the bracket
+	}
+	return p.finish(ctx, res, digits, opts)
+}
+
+// Judgement is the verdict on a claim that lambda (or 1/lambda) lies in an
+// interval, read from a checked certificate.
+type Judgement struct {
+	Verdict bounds.Verdict
+	// Certified is the enclosure of the claimed quantity that the
+	// certificate proves (Enclosure of the certificate).
+	Certified bounds.Enclosure
+	*Result
+}
+
+// Judge decides the claim that the quantity of set lies in the closed
+// interval claim: it tightens the bracket until it lies inside the claim
+// or misses it, or a budget stops it, then certifies and checks the final
+// bracket and reads the verdict from the checked certificate (Decide).
+func Judge(ctx context.Context, set pattern.Set, claim interval.Interval, of bounds.Quantity, opts Options) (*Judgement, error) {
+	if claim.Lo == nil || claim.Hi == nil || claim.Lo.Cmp(claim.Hi) > 0 {
+		return nil, errors.New("prove: a claimed interval needs finite ends with lo <= hi")
+	}
+	p, err := planFor(ctx, set)
+	if err != nil {
+		return nil, err
+	}
+	bo := p.options(opts)
+	var res *bounds.Result
+	if p.rep.Class == structure.Subexponential {
+		// lambda = 0 is proved by the structure pass; a short run gives
+		// the certificate its upper bound
+		bo.Digits = 1
+		res, err = p.bracket(ctx, bo, opts.Progress)
+	} else {
+		_, res, err = bounds.JudgeBlocks(ctx, p.states, p.blocks, claim, of, bo, opts.Progress)
+		err = budgetError(ctx, err)
+	}
+	if err != nil {
+		return nil, err
+	}
+	digits := min(max(interval.CommonDigits(claim.Lo, claim.Hi)+4, 8), 60)
+	r, err := p.finish(ctx, res, digits, opts)
+	if err != nil {
+		return nil, err
+	}
+	q := Enclosure(r.Certificate, of)
+	return &Judgement{Verdict: Decide(q, claim), Certified: q, Result: r}, nil
+}
+
+// Comparison is the verdict on lambda(First.Set) < lambda(Second.Set),
+// read from two checked certificates.
+type Comparison struct {
+	Verdict       bounds.Verdict
+	First, Second *Result
+}
+
+// compareDigits are the targets Compare tries in turn.
+var compareDigits = []int{6, 12, 24, 48, 96}
+
+// Compare decides lambda(first) < lambda(second): it certifies both sets
+// to 6 digits, then 12, 24, ... until the checked enclosures are disjoint
+// (proved or refuted, DecideOrder), a budget stops a run, or 96 digits do
+// not separate them (then the verdict is undecided; equal growth rates
+// are never separated).
+func Compare(ctx context.Context, first, second pattern.Set, opts Options) (*Comparison, error) {
+	var cmp Comparison
+	for _, d := range compareDigits {
+		o := opts
+		o.Digits, o.Width = d, nil
+		var err error
+		if cmp.First, err = Certify(ctx, first, o); err != nil {
+			return nil, err
+		}
+		if cmp.Second, err = Certify(ctx, second, o); err != nil {
+			return nil, err
+		}
+		cmp.Verdict = DecideOrder(cmp.First.Certificate, cmp.Second.Certificate)
+		if cmp.Verdict != bounds.Undecided || !cmp.First.Done() || !cmp.Second.Done() {
+			break
+		}
+	}
+	return &cmp, nil
+}
+
+// Recheck runs the checker on a certificate (one read from a cache, say)
+// bound to set: nil means it is accepted.
+func Recheck(ctx context.Context, c *certify.Certificate, set pattern.Set, opts Options) error {
+	return check(ctx, c, set, opts)
+}
+
+// check is the one place that calls the checker. It refuses to start
+// after an interrupt (cancellation), not after a deadline: a budget stop
+// keeps the best bracket, and its certificate is still checked.
+func check(ctx context.Context, c *certify.Certificate, set pattern.Set, opts Options) error {
+	if errors.Is(ctx.Err(), context.Canceled) {
+		return ctx.Err()
+	}
+	err := certify.Check(ctx, c, certify.CheckOptions{Expect: set.Strings(), MaxWork: opts.checkWork(), MaxMemory: opts.maxMemory()})
+	if errors.Is(err, certify.ErrLimit) {
+		return fmt.Errorf("%w: %w", ErrBudget, err)
+	}
+	return err
+}
+
+// plan is how a set is bracketed, decided from its structure.
+type plan struct {
+	rep    *structure.Report
+	states *transfer.States
+	step   int
+	blocks [][]int // nil: the whole system
+}
+
+func planFor(ctx context.Context, set pattern.Set) (*plan, error) {
+	// certificates list witnesses up to MaxWitnessM
+	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: set.Window()-1 <= MaxWitnessM})
+	if err != nil {
+		return nil, err
+	}
+	p := &plan{rep: rep, states: transfer.NewStates(set), step: 1}
+	switch rep.Class {
+	case structure.Periodic:
+		p.step = rep.Period
+	case structure.Reducible:
+		p.blocks = bounds.Blocks(p.states) // the components of the state digraph, in block order
+	}
+	return p, nil
+}
+
+// options are the bracket options of the plan within the budgets of opts,
+// with the digests a certificate needs.
+func (p *plan) options(opts Options) bounds.Options {
+	return bounds.Options{Step: p.step, MaxN: opts.maxN(p.states), MaxMemory: opts.maxMemory(), Digests: true}
+}
+
+// bracket runs the bracket search the plan asks for. A subexponential set
+// has lambda = 0 proved: only a short run for the explicit upper bound.
+func (p *plan) bracket(ctx context.Context, opts bounds.Options, progress bounds.Progress) (*bounds.Result, error) {
+	if p.rep.Class == structure.Subexponential {
+		opts.MaxN = min(opts.MaxN, 40+p.states.MaxLength())
+	}
+	var res *bounds.Result
+	var err error
+	if p.blocks != nil {
+		res, err = bounds.RunBlocks(ctx, p.states, p.blocks, opts, progress)
+	} else {
+		res, err = bounds.Run(ctx, p.states, opts, progress)
+	}
+	return res, budgetError(ctx, err)
+}
+
+// budgetError marks the bracket runs' refusals that a larger budget would
+// lift: a memory budget below the first bracket's need, or a budget that
+// stopped the run before its first bracket. Package bounds states them in
+// words only (no sentinel error), so they are recognised by their wording;
+// an unrecognised error is returned as it is.
+func budgetError(ctx context.Context, err error) error {
+	switch {
+	case err == nil:
+		return nil
+	case ctx.Err() != nil:
+		return fmt.Errorf("%w (%v)", ctx.Err(), err)
+	case strings.Contains(err.Error(), "memory budget"), strings.Contains(err.Error(), "before the first bracket"):
+		return fmt.Errorf("%w: %v", ErrBudget, err)
+	}
+	return err
+}
+
+// finish builds the certificate of a run and returns it once the checker
+// accepts it.
+func (p *plan) finish(ctx context.Context, res *bounds.Result, digits int, opts Options) (*Result, error) {
+	buildCtx := ctx
+	if errors.Is(ctx.Err(), context.DeadlineExceeded) {
+		// The deadline stopped the bracket run in time to keep its best
+		// bracket: certify that one. Building the certificate may take
+		// one more bracket at the same k (periodic and reducible sets).
+		buildCtx = context.WithoutCancel(ctx)
+	}
+	c, err := BuildCertificate(buildCtx, opts.tool(), p.rep, p.states, res, digits)
+	if err != nil {
+		return nil, budgetError(ctx, err)
+	}
+	if err := check(ctx, c, p.rep.Set, opts); err != nil {
+		return nil, fmt.Errorf("prove: the certificate built for %s did not pass the checker: %w", p.rep.Set, err)
+	}
+	return &Result{Set: p.rep.Set, Report: p.rep, States: p.states, Step: p.step, Blocks: p.blocks, Bracket: res, Certificate: c}, nil
+}

@@ -1,0 +1,143 @@
+package prove_test
+
+import (
+	"context"
+	"errors"
+	"math/big"
+	"strings"
+	"testing"
+
+	"avoidcert/bounds"
+	"avoidcert/internal/settest"
+	"avoidcert/interval"
+	"avoidcert/prove"
+)
+
+func claimOf(t *testing.T, decimal string) interval.Interval {
+	t.Helper()
+	lo, hi, err := interval.ClaimRange(decimal, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return interval.Interval{Lo: lo, Hi: hi}
+}
+
+// Certify returns a checked certificate whose interval holds the published
+// growth rate.
+func TestCertifyContainsPublished(t *testing.T) {
+	ctx := context.Background()
+	for _, p := range []string{"132", "1342"} {
+		r, err := prove.Certify(ctx, settest.Must(t, p), prove.Options{Digits: 8})
+		if err != nil {
+			t.Fatal(err)
+		}
+		pub, _ := interval.PublishedGrowth(p) // OEIS A111004 (132), A117156 (1342)
+		q := prove.Enclosure(r.Certificate, bounds.QuantityLambda)
+		want := pub.LambdaRange()
+		if q.Lo.Cmp(want.Hi) > 0 || q.Hi.Cmp(want.Lo) < 0 {
+			t.Errorf("%s: certified %s misses %s (%s)", p, q.String(12), pub.Digits, pub.Source())
+		}
+		if !r.Done() {
+			t.Errorf("%s: the 8-digit target was not met: %s", p, r.Bracket.Stop)
+		}
+	}
+}
+
+// Judge: a growth rate right to its last digit is proved, one wrong in its
+// last digit is refuted, and a budget too small leaves it undecided.
+// lambda(1342) = 0.95461183447... (OEIS A117156).
+func TestJudge(t *testing.T) {
+	ctx := context.Background()
+	set := settest.Must(t, "1342")
+	for _, tc := range []struct {
+		value string
+		of    bounds.Quantity
+		maxK  int
+		want  bounds.Verdict
+	}{
+		{"0.9546118", bounds.QuantityLambda, 0, bounds.Proved},
+		{"0.9546119", bounds.QuantityLambda, 0, bounds.Refuted},
+		{"1.047546", bounds.QuantityRadius, 0, bounds.Proved}, // 1/0.954611834... = 1.0475462...
+		{"0.9546118", bounds.QuantityLambda, 6, bounds.Undecided},
+	} {
+		j, err := prove.Judge(ctx, set, claimOf(t, tc.value), tc.of, prove.Options{MaxK: tc.maxK})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if j.Verdict != tc.want {
+			t.Errorf("%s = %s (max k %d): %s, want %s; certified %s", tc.of, tc.value, tc.maxK, j.Verdict, tc.want, j.Certified.String(12))
+		}
+	}
+}
+
+// Compare: lambda(1342) = 0.95461... < lambda(1324) = 0.95585... (OEIS
+// A117156, A113228); the reverse order is refuted; {132, 231} has
+// lambda = 0 (subexponential, proved by the structure section).
+func TestCompare(t *testing.T) {
+	ctx := context.Background()
+	for _, tc := range []struct {
+		first, second []string
+		want          bounds.Verdict
+	}{
+		{[]string{"1342"}, []string{"1324"}, bounds.Proved},
+		{[]string{"1324"}, []string{"1342"}, bounds.Refuted},
+		{[]string{"132", "231"}, []string{"123"}, bounds.Proved},
+	} {
+		c, err := prove.Compare(ctx, settest.Must(t, tc.first...), settest.Must(t, tc.second...), prove.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c.Verdict != tc.want {
+			t.Errorf("lambda(%v) < lambda(%v): %s, want %s", tc.first, tc.second, c.Verdict, tc.want)
+		}
+	}
+}
+
+// Counts agree with OEIS A049774 (123).
+func TestCountsOEIS(t *testing.T) {
+	got, err := prove.Counts(context.Background(), settest.Must(t, "123"), 12, prove.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// OEIS A049774: 1, 1, 2, 5, 17, 70, 349, 2017, 13358, 99377, 822041, 7477162, 74207209
+	want := []int64{1, 1, 2, 5, 17, 70, 349, 2017, 13358, 99377, 822041, 7477162, 74207209}
+	for n, w := range want {
+		if got[n].Cmp(big.NewInt(w)) != 0 {
+			t.Errorf("a_%d = %s, OEIS A049774 gives %d", n, got[n], w)
+		}
+	}
+	if _, err := prove.Counts(context.Background(), settest.Must(t, "1342"), 300, prove.Options{MaxMemory: 1 << 20}); !errors.Is(err, prove.ErrBudget) {
+		t.Errorf("a count over the memory budget: %v, want ErrBudget", err)
+	}
+}
+
+// A certificate changed after the checker accepted it is refused by
+// Recheck.
+func TestRecheckTampered(t *testing.T) {
+	ctx := context.Background()
+	set := settest.Must(t, "132")
+	r, err := prove.Certify(ctx, set, prove.Options{Digits: 6})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := prove.Recheck(ctx, r.Certificate, set, prove.Options{}); err != nil {
+		t.Fatalf("the untouched certificate: %v", err)
+	}
+	c := *r.Certificate
+	c.Statement.Lambda.Lo = new(big.Rat).Add(c.Statement.Lambda.Lo, big.NewRat(1, 1000))
+	if err := prove.Recheck(ctx, &c, set, prove.Options{}); err == nil {
+		t.Error("a raised lambda.lo passed the checker")
+	}
+	if err := prove.Recheck(ctx, r.Certificate, settest.Must(t, "123"), prove.Options{}); err == nil || !strings.Contains(err.Error(), "expected set") {
+		t.Errorf("a certificate for another set: %v", err)
+	}
+}
+
+// A memory budget too small for the first bracket is a budget refusal
+// (ErrBudget), not a failure.
+func TestBudgetTooSmall(t *testing.T) {
+	_, err := prove.Certify(context.Background(), settest.Must(t, "1342"), prove.Options{MaxMemory: 1024})
+	if !errors.Is(err, prove.ErrBudget) {
+		t.Errorf("got %v, want ErrBudget", err)
+	}
+}
