@@ -7,8 +7,8 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
-	"avoidcert/prove"
 	"avoidcert/pattern"
+	"avoidcert/prove"
 	"avoidcert/structure"
 	"avoidcert/transfer"
 )

@@ -12,9 +12,9 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
-	"avoidcert/prove"
 	"avoidcert/interval"
 	"avoidcert/pattern"
+	"avoidcert/prove"
 	"avoidcert/structure"
 	"avoidcert/transfer"
 )

@@ -9,10 +9,10 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
-	"avoidcert/prove"
 	"avoidcert/internal/brute"
 	"avoidcert/interval"
 	"avoidcert/pattern"
+	"avoidcert/prove"
 	"avoidcert/structure"
 	"avoidcert/transfer"
 )
