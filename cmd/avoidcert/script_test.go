@@ -10,8 +10,13 @@ import (
 )
 
 // TestMain lets the test binary act as the real avoidcert command inside
-// the scripts, so every script runs the program end to end.
+// the scripts, so every script runs the program end to end; with
+// AVOIDCERT_TEST_AS_COMMAND=1 in its environment it is the command itself
+// (tests start it as a child process to kill it).
 func TestMain(m *testing.M) {
+	if os.Getenv("AVOIDCERT_TEST_AS_COMMAND") == "1" {
+		os.Exit(run(context.Background(), &env{stdout: os.Stdout, stderr: os.Stderr}, os.Args[1:]))
+	}
 	testscript.Main(m, map[string]func(){
 		"avoidcert": func() {
 			os.Exit(run(context.Background(), &env{stdout: os.Stdout, stderr: os.Stderr}, os.Args[1:]))
