@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math/big"
 	"sync"
+	"time"
 
 	"avoidcert/pattern"
 )
@@ -236,6 +237,7 @@ feed:
 // certifyClass counts and certifies the representative of c and journals
 // the row.
 func certifyClass(ctx context.Context, opts Options, j *journal, c pattern.Class) (Row, error) {
+	start := time.Now()
 	rep := c.Representative.String()
 	set := pattern.NewSet(c.Representative)
 	counts, err := opts.Count(ctx, set, opts.Params.To)
@@ -262,7 +264,7 @@ func certifyClass(ctx context.Context, opts Options, j *journal, c pattern.Class
 	for _, a := range counts {
 		row.Counts = append(row.Counts, a.String())
 	}
-	row, err = j.record(row, cert.Certificate)
+	row, err = j.record(row, cert.Certificate, time.Since(start).Seconds())
 	if err != nil {
 		return Row{}, fmt.Errorf("class %s: %w", rep, err)
 	}

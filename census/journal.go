@@ -120,18 +120,26 @@ func (j *journal) recordPath(rep string) string {
 	return filepath.Join(j.dir, journalDir, rep+".json")
 }
 
+// record is a journal entry: the row, and the wall time its class took
+// (working state for benchmarks: it never reaches the tables, which must
+// not depend on the machine).
+type record struct {
+	Row
+	Seconds float64 `json:"seconds"`
+}
+
 // record journals a finished row: the certificate first, then the record
 // that names its digest, each written atomically. A record therefore
 // never exists without its certificate. It returns the row with the
 // certificate's path and digest.
-func (j *journal) record(row Row, certificate []byte) (Row, error) {
+func (j *journal) record(row Row, certificate []byte, seconds float64) (Row, error) {
 	sum := sha256.Sum256(certificate)
 	row.Certificate = certificateDir + "/" + row.Representative + ".json"
 	row.CertificateSHA256 = hex.EncodeToString(sum[:])
 	if err := atomicfile.WriteFile(filepath.Join(j.dir, row.Certificate), certificate, 0o644); err != nil {
 		return Row{}, fmt.Errorf("writing the certificate: %v", err)
 	}
-	data, err := marshal(row)
+	data, err := marshal(record{Row: row, Seconds: seconds})
 	if err != nil {
 		return Row{}, err
 	}
@@ -155,10 +163,11 @@ func (j *journal) finished(classes []pattern.Class) (map[string]Row, error) {
 		if err != nil {
 			return nil, err
 		}
-		var row Row
-		if err := json.Unmarshal(data, &row); err != nil {
+		var rec record
+		if err := json.Unmarshal(data, &rec); err != nil {
 			return nil, inputErrorf("journal record %s is not readable (%v): it was changed by hand; remove it to redo the class", j.recordPath(rep), err)
 		}
+		row := rec.Row
 		if err := row.fits(c, j.params); err != nil {
 			return nil, inputErrorf("journal record %s: %v; remove it to redo the class", j.recordPath(rep), err)
 		}

@@ -27,6 +27,9 @@ func censusCertifier(maxMemory int64) census.Certifier {
 		}
 		opts := bounds.Options{Digits: digits, Step: p.step, MaxK: certify.MaxK, MaxMemory: maxMemory, Digests: true}
 		res, err := p.bracket(ctx, opts, nil)
+		if err == nil {
+			err = ctx.Err() // an interrupt ends the bracket early, without an error
+		}
 		if err != nil {
 			return census.Certified{}, err
 		}
