@@ -2,6 +2,7 @@ package census
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math/big"
 	"sync"
@@ -135,6 +136,9 @@ func Run(ctx context.Context, opts Options) (*Report, error) {
 	}
 	if err := opts.Shard.Validate(); err != nil {
 		return nil, err
+	}
+	if opts.Certify == nil || opts.Count == nil {
+		return nil, errors.New("census: Options.Certify and Options.Count are required")
 	}
 	if opts.Shard.Whole() {
 		opts.Shard = Shard{}
