@@ -114,7 +114,12 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 		Tool:     "avoidcert " + version,
 		Certify:  censusCertifier(int64(maxMemory) / int64(*jobs)),
 		Count:    censusCounter,
-		Progress: bar.update,
+		Progress: func(ev census.Event) {
+			if ev.Class == "" && ev.Resumed > 0 {
+				fmt.Fprintf(e.stderr, "avoidcert: continuing the census in %s: %d of %d classes are in its journal\n", dir, ev.Resumed, ev.Total)
+			}
+			bar.update(ev)
+		},
 	})
 	bar.finish(err == nil)
 	if err != nil {
