@@ -282,7 +282,7 @@ func TestMergeRefusals(t *testing.T) {
 		{"unfinished shard", []string{dirs[0], dirs[1], unfinished}, "the shard is not finished"},
 		{"changed certificate", []string{dirs[0], changed, dirs[2]}, "1243: " + filepath.Join(changed, certificateDir, "1243.json") + " does not have the SHA-256"},
 		{"missing class", []string{dropped, dirs[1], dirs[2]}, "lacks class"},
-		{"output is a shard", dirs, "is also a shard folder"},
+		{"output is a shard", dirs, "holds the journal of a census run"},
 	} {
 		out := t.TempDir()
 		if c.name == "output is a shard" {
