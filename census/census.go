@@ -121,8 +121,9 @@ type Options struct {
 	Tool    string // the producing tool and version, written into census.json
 	Certify Certifier
 	Count   Counter
-	// Progress, if set, is called after each finished class, never
-	// concurrently.
+	// Progress, if set, is called once when the run starts (with the
+	// classes taken from the journal) and after each finished class,
+	// never concurrently.
 	Progress func(Event)
 }
 
