@@ -76,7 +76,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	}
 	var lines bytes.Buffer
 	if err := claims.WriteJSON(&lines, results); err == nil {
-		err = atomicfile.Write(filepath.Join(dir, "verdicts.jsonl"), lines.Bytes())
+		err = atomicfile.WriteFile(filepath.Join(dir, "verdicts.jsonl"), lines.Bytes(), 0o644)
 	}
 	if err != nil {
 		return failure(e, fmt.Errorf("demo: cannot write the verdicts: %v", err))

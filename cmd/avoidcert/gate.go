@@ -164,7 +164,7 @@ func (g *gateRun) run(ctx context.Context, e *env) ([]claims.Result, int) {
 	if g.junit != "" {
 		data, err := claims.JUnit(filepath.Base(g.manifest.File), results)
 		if err == nil {
-			err = atomicfile.Write(g.junit, data)
+			err = atomicfile.WriteFile(g.junit, data, 0o644)
 		}
 		if err != nil {
 			return nil, failure(e, fmt.Errorf("cannot write the JUnit file: %v", err))

@@ -14,8 +14,13 @@ import (
 )
 
 // TestMain lets the test binary act as the real avoidcert command inside
-// the scripts, so every script runs the program end to end.
+// the scripts, so every script runs the program end to end; with
+// AVOIDCERT_TEST_AS_COMMAND=1 in its environment it is the command itself
+// (tests start it as a child process to kill it).
 func TestMain(m *testing.M) {
+	if os.Getenv("AVOIDCERT_TEST_AS_COMMAND") == "1" {
+		os.Exit(runProcess())
+	}
 	testscript.Main(m, map[string]func(){
 		"avoidcert": func() {
 			os.Exit(runProcess())

@@ -1,0 +1,225 @@
+package census
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"slices"
+
+	"avoidcert/internal/atomicfile"
+	"avoidcert/pattern"
+)
+
+// The folder layout. The journal holds params.json and one record per
+// finished class; the certificates sit beside the tables.
+const (
+	journalDir     = "journal"
+	certificateDir = "certificates"
+	paramsFile     = "params.json"
+	lockFile       = "lock"
+)
+
+// InputError marks a refusal caused by what the user asked for (a folder
+// holding another census, shards that do not fit together): the message
+// names the problem and what to do.
+type InputError struct{ Msg string }
+
+func (e *InputError) Error() string { return e.Msg }
+
+func inputErrorf(format string, args ...any) error {
+	return &InputError{Msg: fmt.Sprintf(format, args...)}
+}
+
+// journalHeader binds a folder to one census: a run with other
+// parameters or another shard is refused rather than mixed in.
+type journalHeader struct {
+	Format string `json:"format"`
+	Params Params `json:"parameters"`
+	Shard  *Shard `json:"shard,omitempty"`
+}
+
+const journalFormat = "avoidcert-census-journal-1"
+
+// journal is an open census folder, locked against a second run.
+type journal struct {
+	dir    string
+	params Params
+	unlock func()
+}
+
+func openJournal(dir string, params Params, shard Shard) (*journal, error) {
+	for _, d := range []string{dir, filepath.Join(dir, journalDir), filepath.Join(dir, certificateDir)} {
+		if err := os.MkdirAll(d, 0o755); err != nil {
+			return nil, inputErrorf("cannot create the census folder %s: %v; choose another --out", d, err)
+		}
+	}
+	unlock, err := lockFolder(filepath.Join(dir, journalDir, lockFile))
+	if err != nil {
+		return nil, inputErrorf("%s is in use by another census run (%v); wait for it or choose another --out", dir, err)
+	}
+	j := &journal{dir: dir, params: params, unlock: unlock}
+	ok := false
+	defer func() {
+		if !ok {
+			unlock()
+		}
+	}()
+	// With the lock held no other writer is active: temporary files are
+	// leftovers of a killed run.
+	for _, d := range []string{dir, filepath.Join(dir, journalDir), filepath.Join(dir, certificateDir)} {
+		if err := atomicfile.RemoveStale(d); err != nil {
+			return nil, err
+		}
+	}
+	want := journalHeader{Format: journalFormat, Params: params}
+	if !shard.Whole() {
+		want.Shard = &shard
+	}
+	wantBytes, err := marshal(want)
+	if err != nil {
+		return nil, err
+	}
+	path := filepath.Join(dir, journalDir, paramsFile)
+	have, err := os.ReadFile(path)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		if err := atomicfile.WriteFile(path, wantBytes, 0o644); err != nil {
+			return nil, err
+		}
+	case err != nil:
+		return nil, err
+	case !bytes.Equal(have, wantBytes):
+		var h journalHeader
+		if json.Unmarshal(have, &h) != nil || h.Format != journalFormat {
+			return nil, inputErrorf("%s holds a journal this version cannot read (%s); choose another --out", dir, path)
+		}
+		return nil, inputErrorf("%s holds a census of %s; this run asks for %s: choose another --out, or repeat the earlier parameters to continue it",
+			dir, describe(h.Params, h.Shard), describe(params, want.Shard))
+	}
+	ok = true
+	return j, nil
+}
+
+func describe(p Params, s *Shard) string {
+	d := fmt.Sprintf("length %d, counts to %d, %d digits", p.Length, p.To, p.Digits)
+	if s != nil {
+		d += ", shard " + s.String()
+	}
+	return d
+}
+
+func (j *journal) close() { j.unlock() }
+
+func (j *journal) recordPath(rep string) string {
+	return filepath.Join(j.dir, journalDir, rep+".json")
+}
+
+// record is a journal entry: the row, and the wall time its class took
+// (working state for benchmarks: it never reaches the tables, which must
+// not depend on the machine).
+type record struct {
+	Row
+	Seconds float64 `json:"seconds"`
+}
+
+// record journals a finished row: the certificate first, then the record
+// that names its digest, each written atomically. A record therefore
+// never exists without its certificate. It returns the row with the
+// certificate's path and digest.
+func (j *journal) record(row Row, certificate []byte, seconds float64) (Row, error) {
+	sum := sha256.Sum256(certificate)
+	row.Certificate = certificateDir + "/" + row.Representative + ".json"
+	row.CertificateSHA256 = hex.EncodeToString(sum[:])
+	if err := atomicfile.WriteFile(filepath.Join(j.dir, row.Certificate), certificate, 0o644); err != nil {
+		return Row{}, fmt.Errorf("writing the certificate: %v", err)
+	}
+	data, err := marshal(record{Row: row, Seconds: seconds})
+	if err != nil {
+		return Row{}, err
+	}
+	if err := atomicfile.WriteFile(j.recordPath(row.Representative), data, 0o644); err != nil {
+		return Row{}, fmt.Errorf("writing the journal: %v", err)
+	}
+	return row, nil
+}
+
+// finished returns the journalled rows of the given classes, by
+// representative. A record whose certificate is missing or differs from
+// its digest is not counted: that class is done again.
+func (j *journal) finished(classes []pattern.Class) (map[string]Row, error) {
+	rows := make(map[string]Row)
+	for _, c := range classes {
+		rep := c.Representative.String()
+		data, err := os.ReadFile(j.recordPath(rep))
+		if errors.Is(err, fs.ErrNotExist) {
+			continue
+		}
+		if err != nil {
+			return nil, err
+		}
+		var rec record
+		if err := json.Unmarshal(data, &rec); err != nil {
+			return nil, inputErrorf("journal record %s is not readable (%v): it was changed by hand; remove it to redo the class", j.recordPath(rep), err)
+		}
+		row := rec.Row
+		if err := row.fits(c, j.params); err != nil {
+			return nil, inputErrorf("journal record %s: %v; remove it to redo the class", j.recordPath(rep), err)
+		}
+		if _, err := readCertificate(j.dir, row); err == nil {
+			rows[rep] = row
+		}
+	}
+	return rows, nil
+}
+
+// fits reports whether a row is the census row of class c under params.
+func (r Row) fits(c pattern.Class, params Params) error {
+	var members []string
+	for _, m := range c.Members {
+		members = append(members, m.String())
+	}
+	switch {
+	case r.Representative != c.Representative.String():
+		return fmt.Errorf("the row is about %s, not %s", r.Representative, c.Representative)
+	case !slices.Equal(r.Members, members):
+		return fmt.Errorf("members %v, want %v", r.Members, members)
+	case len(r.Counts) != params.To+1:
+		return fmt.Errorf("%d counts, want a_0..a_%d", len(r.Counts), params.To)
+	case r.Certificate != certificateDir+"/"+r.Representative+".json":
+		return fmt.Errorf("certificate path %q, want %q", r.Certificate, certificateDir+"/"+r.Representative+".json")
+	}
+	return nil
+}
+
+// readCertificate returns the row's certificate file in dir, checked
+// against the row's digest.
+func readCertificate(dir string, row Row) ([]byte, error) {
+	data, err := os.ReadFile(filepath.Join(dir, row.Certificate))
+	if err != nil {
+		return nil, err
+	}
+	sum := sha256.Sum256(data)
+	if hex.EncodeToString(sum[:]) != row.CertificateSHA256 {
+		return nil, fmt.Errorf("%s does not have the SHA-256 its row records: the file was changed", filepath.Join(dir, row.Certificate))
+	}
+	return data, nil
+}
+
+// marshal is the one JSON layout of every file the census writes:
+// indented, no HTML escaping, a final newline.
+func marshal(v any) ([]byte, error) {
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false)
+	enc.SetIndent("", "  ")
+	if err := enc.Encode(v); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}

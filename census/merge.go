@@ -1,0 +1,157 @@
+package census
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"io/fs"
+	"math/big"
+	"os"
+	"path/filepath"
+
+	"avoidcert/internal/atomicfile"
+)
+
+// Merge combines the finished shards in dirs into the whole census in
+// out: the same tables and certificates an unsharded run writes. It
+// refuses (with an *InputError) shards of different parameters, tools or
+// shard counts, a shard given twice or missing, a class missing or
+// present twice, and a certificate whose file differs from its digest.
+func Merge(out string, dirs []string) (*Report, error) {
+	if len(dirs) == 0 {
+		return nil, inputErrorf("no shard folder given; name the folders of every shard")
+	}
+	if _, err := os.Stat(filepath.Join(out, journalDir, paramsFile)); err == nil {
+		return nil, inputErrorf("the output folder %s holds the journal of a census run, whose tables the merge would replace; choose another --out", out)
+	}
+	var (
+		first  *Report
+		seen   = make(map[int]string) // shard index -> folder
+		rows   []Row
+		owner  = make(map[string]string) // representative -> folder
+		certOf = make(map[string][]byte)
+	)
+	for _, dir := range dirs {
+		rep, err := ReadReport(dir)
+		if err != nil {
+			return nil, err
+		}
+		if rep.Shard == nil {
+			return nil, inputErrorf("%s holds a whole census, not a shard; merge only the folders of 'census --shard I/N' runs", dir)
+		}
+		if first == nil {
+			first = rep
+		}
+		switch {
+		case rep.Params != first.Params:
+			return nil, inputErrorf("%s is a census of %s but %s is of %s; merge shards of one census only",
+				dir, describe(rep.Params, nil), dirs[0], describe(first.Params, nil))
+		case rep.Tool != first.Tool:
+			return nil, inputErrorf("%s was made by %s but %s by %s; run every shard with one version", dir, rep.Tool, dirs[0], first.Tool)
+		case rep.Shard.Of != first.Shard.Of:
+			return nil, inputErrorf("%s is shard %s but %s is shard %s: the shard counts differ; merge shards of one split only",
+				dir, rep.Shard, dirs[0], first.Shard)
+		}
+		if other, dup := seen[rep.Shard.Index]; dup {
+			return nil, inputErrorf("shard %s is given twice: %s and %s; name each shard once", rep.Shard, other, dir)
+		}
+		seen[rep.Shard.Index] = dir
+		classes := rep.Shard.Classes(rep.Params.Length)
+		mine := make(map[string]bool)
+		for _, r := range rep.Rows {
+			if other, dup := owner[r.Representative]; dup {
+				return nil, inputErrorf("class %s is in %s and in %s; a class must come from one shard", r.Representative, other, dir)
+			}
+			owner[r.Representative] = dir
+			mine[r.Representative] = true
+			cert, err := readCertificate(dir, r)
+			if err != nil {
+				return nil, inputErrorf("%s: class %s: %v", dir, r.Representative, err)
+			}
+			certOf[r.Representative] = cert
+			r.Group = 0
+			rows = append(rows, r)
+		}
+		for _, c := range classes {
+			if !mine[c.Representative.String()] {
+				return nil, inputErrorf("%s (shard %s) lacks class %s, which belongs to that shard; run the shard again to complete it", dir, rep.Shard, c.Representative)
+			}
+		}
+		for _, r := range rep.Rows {
+			i := -1
+			for k, c := range classes {
+				if c.Representative.String() == r.Representative {
+					i = k
+				}
+			}
+			if i < 0 {
+				return nil, inputErrorf("%s (shard %s) holds class %s, which belongs to another shard; the folder was mixed by hand", dir, rep.Shard, r.Representative)
+			}
+			if err := r.fits(classes[i], rep.Params); err != nil {
+				return nil, inputErrorf("%s: class %s: %v", dir, r.Representative, err)
+			}
+		}
+	}
+	for i := 1; i <= first.Shard.Of; i++ {
+		if _, ok := seen[i]; !ok {
+			return nil, inputErrorf("shard %d/%d is missing; name the folders of all %d shards", i, first.Shard.Of, first.Shard.Of)
+		}
+	}
+	if err := os.MkdirAll(filepath.Join(out, certificateDir), 0o755); err != nil {
+		return nil, inputErrorf("cannot create the output folder %s: %v; choose another --out", out, err)
+	}
+	for _, r := range rows {
+		if err := atomicfile.WriteFile(filepath.Join(out, r.Certificate), certOf[r.Representative], 0o644); err != nil {
+			return nil, err
+		}
+	}
+	rep := summarize(first.Tool, first.Params, Shard{}, rows)
+	if err := writeOutputs(out, rep); err != nil {
+		return nil, err
+	}
+	return rep, nil
+}
+
+// ReadReport reads a folder's census.json strictly: the format, every
+// member known, every number well formed. It returns an *InputError for
+// a file that is missing or not a census.
+func ReadReport(dir string) (*Report, error) {
+	data, err := os.ReadFile(filepath.Join(dir, JSONFile))
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, inputErrorf("%s has no %s: the shard is not finished (run it again with the same flags to complete it) or the folder is not a census", dir, JSONFile)
+	}
+	if err != nil {
+		return nil, inputErrorf("cannot read %s: %v", filepath.Join(dir, JSONFile), err)
+	}
+	var rep Report
+	dec := json.NewDecoder(bytes.NewReader(data))
+	dec.DisallowUnknownFields()
+	if err := dec.Decode(&rep); err != nil {
+		return nil, inputErrorf("%s is not a census file: %v", filepath.Join(dir, JSONFile), err)
+	}
+	if rep.Format != ReportFormat || rep.Version != ReportVersion {
+		return nil, inputErrorf("%s is %q version %d; this version merges %q version %d only",
+			filepath.Join(dir, JSONFile), rep.Format, rep.Version, ReportFormat, ReportVersion)
+	}
+	if err := rep.Params.Validate(); err != nil {
+		return nil, inputErrorf("%s: %v", filepath.Join(dir, JSONFile), err)
+	}
+	if rep.Shard != nil {
+		if err := rep.Shard.Validate(); err != nil || rep.Shard.Whole() {
+			return nil, inputErrorf("%s: shard %s names no slice", filepath.Join(dir, JSONFile), rep.Shard)
+		}
+	}
+	for _, r := range rep.Rows {
+		for _, s := range []string{r.Lambda.Lo, r.Lambda.Hi, r.Radius.Lo, r.Radius.Hi} {
+			if _, ok := new(big.Rat).SetString(s); s != "" && !ok {
+				return nil, inputErrorf("%s: class %s: %q is not a decimal", filepath.Join(dir, JSONFile), r.Representative, s)
+			}
+		}
+		for _, a := range r.Counts {
+			if _, ok := new(big.Int).SetString(a, 10); !ok {
+				return nil, inputErrorf("%s: class %s: count %q is not an integer", filepath.Join(dir, JSONFile), r.Representative, a)
+			}
+		}
+	}
+	return &rep, nil
+}

@@ -1,0 +1,261 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math/big"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strconv"
+	"strings"
+
+	"github.com/vbauerster/mpb/v8"
+	"github.com/vbauerster/mpb/v8/decor"
+
+	"avoidcert/census"
+	"avoidcert/certify"
+	"avoidcert/pattern"
+	"avoidcert/transfer"
+)
+
+func init() {
+	commands["census"] = command{
+		summary: "every symmetry class of one pattern length: counts, certified lambda, groups, order",
+		usage: `Usage: avoidcert census --length K [--to N] [--digits D] [--out DIR] [--jobs J] [--shard I/N]
+       avoidcert census merge [--out DIR] SHARD-DIR...
+
+Tabulates every symmetry class (reverse, complement, both) of single
+patterns of length K (3..7): exact counts a_0..a_N, lambda and 1/lambda
+certified to D significant digits with a certificate the checker accepted,
+the asymptotic form; the groups of classes with equal counts up to N
+(candidate c-Wilf equivalences; different groups are proved inequivalent at
+the recorded first n where counts differ); and the order of the classes by
+lambda, strict where certified ranges are disjoint.
+
+DIR receives census.md, census.csv, census.json (everything) and
+certificates/. A run killed at any moment continues where it stopped when
+run again with the same flags: finished classes are in DIR/journal.
+
+Flags:
+  --length K       pattern length, 3 to 7 (required)
+  --to N           counts a_0..a_N (default 20)
+  --digits D       significant digits of lambda to certify (default 10)
+  --out DIR        output folder (default census-K, or census-K-shard-I-of-N)
+  --jobs J         classes certified at once (default: the number of CPUs)
+  --shard I/N      only the I-th of N slices of the classes (1 <= I <= N), for
+                   a cluster job array; merge the N folders afterwards
+  --max-memory B   memory budget shared by the J classes at work (default 8G)
+  --quiet          no progress bar (it is shown only when stderr is a terminal)
+
+merge combines the folders of all N shards of one census into DIR (default
+census-K), writing the same bytes as an unsharded run. It refuses shards of
+different parameters, a missing or duplicated shard or class, and changed
+certificates (exit 2).
+
+Exit codes: 0 done, 2 bad input (or a folder holding another census), 4
+interrupted or a class failed (the finished classes are kept: run again).
+`,
+		run: runCensus,
+	}
+}
+
+func runCensus(ctx context.Context, e *env, args []string) int {
+	if len(args) > 0 && args[0] == "merge" {
+		return runCensusMerge(e, args[1:])
+	}
+	fs := newFlags("census")
+	length := fs.Int("length", 0, "")
+	to := fs.Int("to", 20, "")
+	digits := fs.Int("digits", 10, "")
+	out := fs.String("out", "", "")
+	jobs := fs.Int("jobs", runtime.NumCPU(), "")
+	shardFlag := fs.String("shard", "", "")
+	quiet := fs.Bool("quiet", false, "")
+	maxMemory := byteSize(8 << 30)
+	fs.Var(&maxMemory, "max-memory", "")
+	pos, err := parseArgs(fs, args)
+	if err != nil {
+		return failure(e, err)
+	}
+	params := census.Params{Length: *length, To: *to, Digits: *digits}
+	switch {
+	case len(pos) > 0:
+		return failure(e, usagef("census: unexpected argument %q; the census takes flags only (or 'census merge DIR...')", pos[0]))
+	case *length == 0:
+		return failure(e, usagef("census: --length is required, e.g. 'avoidcert census --length 5'"))
+	case *jobs < 1:
+		return failure(e, usagef("census: --jobs must be at least 1"))
+	case *digits > certify.MaxDigits-5:
+		return failure(e, usagef("census: --digits must be between 1 and %d", certify.MaxDigits-5))
+	}
+	if err := params.Validate(); err != nil {
+		return failure(e, usagef("census: %v", err))
+	}
+	shard, err := parseShard(*shardFlag, len(pattern.SymmetryClasses(*length)))
+	if err != nil {
+		return failure(e, err)
+	}
+	dir := *out
+	if dir == "" {
+		dir = "census-" + strconv.Itoa(*length)
+		if !shard.Whole() {
+			dir += fmt.Sprintf("-shard-%d-of-%d", shard.Index, shard.Of)
+		}
+	}
+	limitMemory(int64(maxMemory))
+	bar := newCensusBar(ctx, e, *quiet)
+	rep, err := census.Run(ctx, census.Options{
+		Params:   params,
+		Shard:    shard,
+		Dir:      dir,
+		Jobs:     *jobs,
+		Tool:     "avoidcert " + version,
+		Certify:  censusCertifier(int64(maxMemory) / int64(*jobs)),
+		Count:    censusCounter,
+		Progress: func(ev census.Event) {
+			if ev.Class == "" && ev.Resumed > 0 {
+				fmt.Fprintf(e.stderr, "avoidcert: continuing the census in %s: %d of %d classes are in its journal\n", dir, ev.Resumed, ev.Total)
+			}
+			bar.update(ev)
+		},
+	})
+	bar.finish(err == nil)
+	if err != nil {
+		return censusFailure(e, dir, err)
+	}
+	writeCensusSummary(e, dir, rep)
+	return exitOK
+}
+
+func censusCounter(ctx context.Context, set pattern.Set, n int) ([]*big.Int, error) {
+	return transfer.Counts(ctx, set, n, nil)
+}
+
+// parseShard reads --shard I/N; "" is the whole census.
+func parseShard(s string, classes int) (census.Shard, error) {
+	if s == "" {
+		return census.Shard{}, nil
+	}
+	i, n, ok := strings.Cut(s, "/")
+	index, err1 := strconv.Atoi(i)
+	of, err2 := strconv.Atoi(n)
+	if !ok || err1 != nil || err2 != nil || of < 1 || index < 1 || index > of {
+		return census.Shard{}, usagef("census: --shard %q is not I/N with 1 <= I <= N, e.g. --shard 2/8", s)
+	}
+	if of > classes {
+		return census.Shard{}, usagef("census: --shard %s: there are only %d classes of this length; use at most %d shards", s, classes, classes)
+	}
+	return census.Shard{Index: index, Of: of}, nil
+}
+
+// censusFailure reports a failed run: an interrupt or a failed class
+// keeps the journal, and the message says how to continue.
+func censusFailure(e *env, dir string, err error) int {
+	var in *census.InputError
+	switch {
+	case errors.As(err, &in):
+		return failure(e, usagef("census: %v", err))
+	case errors.Is(err, context.Canceled):
+		fmt.Fprintf(e.stderr, "avoidcert: census interrupted; finished classes are kept in %s: run the same command again to continue\n",
+			filepath.Join(dir, "journal"))
+	default:
+		fmt.Fprintf(e.stderr, "avoidcert: census: %v\nfinished classes are kept in %s: run the same command again to continue\n",
+			err, filepath.Join(dir, "journal"))
+	}
+	return exitAborted
+}
+
+func runCensusMerge(e *env, args []string) int {
+	fs := newFlags("census merge")
+	out := fs.String("out", "", "")
+	dirs, err := parseArgs(fs, args)
+	if err != nil {
+		return failure(e, err)
+	}
+	if len(dirs) == 0 {
+		return failure(e, usagef("census merge: name the folders of every shard, e.g. 'avoidcert census merge --out census-5 census-5-shard-*'"))
+	}
+	dir := *out
+	if dir == "" {
+		rep, err := census.ReadReport(dirs[0])
+		if err != nil {
+			return failure(e, usagef("census merge: %v", err))
+		}
+		dir = "census-" + strconv.Itoa(rep.Params.Length)
+	}
+	rep, err := census.Merge(dir, dirs)
+	if err != nil {
+		var in *census.InputError
+		if errors.As(err, &in) {
+			return failure(e, usagef("census merge: %v", err))
+		}
+		return failure(e, err)
+	}
+	writeCensusSummary(e, dir, rep)
+	return exitOK
+}
+
+func writeCensusSummary(e *env, dir string, rep *census.Report) {
+	strict := 0
+	for _, s := range rep.Order {
+		if s.Relation == ">" {
+			strict++
+		}
+	}
+	what := fmt.Sprintf("census of length %d", rep.Params.Length)
+	if rep.Shard != nil {
+		what += ", shard " + rep.Shard.String()
+	}
+	fmt.Fprintf(e.stdout, "%s: %d classes, %d groups with equal counts up to n = %d (separated by n = %d), %d of %d adjacent pairs strictly ordered by lambda\n",
+		what, len(rep.Rows), len(rep.Groups), rep.Params.To, rep.SeparatingN, strict, len(rep.Order))
+	fmt.Fprintf(e.stdout, "tables: %s, %s, %s; certificates in %s\n",
+		filepath.Join(dir, census.MarkdownFile), filepath.Join(dir, census.CSVFile), filepath.Join(dir, census.JSONFile),
+		filepath.Join(dir, "certificates"))
+}
+
+// censusBar shows the classes done on a terminal; without one (or with
+// --quiet) it does nothing.
+type censusBar struct {
+	progress *mpb.Progress
+	bar      *mpb.Bar
+}
+
+func newCensusBar(ctx context.Context, e *env, quiet bool) *censusBar {
+	b := &censusBar{}
+	if f, ok := e.stderr.(*os.File); !quiet && ok {
+		if info, err := f.Stat(); err == nil && info.Mode()&os.ModeCharDevice != 0 {
+			b.progress = mpb.NewWithContext(ctx, mpb.WithOutput(f), mpb.WithWidth(40))
+		}
+	}
+	return b
+}
+
+func (b *censusBar) update(ev census.Event) {
+	if b.progress == nil || ev.Total == ev.Resumed {
+		return
+	}
+	if b.bar == nil {
+		// The bar counts this run's classes, so the estimate of the time
+		// left is not skewed by the ones taken from the journal.
+		name := "classes"
+		if ev.Resumed > 0 {
+			name = fmt.Sprintf("classes (%d from the journal)", ev.Resumed)
+		}
+		b.bar = b.progress.AddBar(int64(ev.Total-ev.Resumed),
+			mpb.PrependDecorators(decor.Name(name+" "), decor.CountersNoUnit("%d/%d")),
+			mpb.AppendDecorators(decor.Percentage(), decor.Name(" left "), decor.AverageETA(decor.ET_STYLE_GO)))
+	}
+	b.bar.SetCurrent(int64(ev.Done - ev.Resumed))
+}
+
+func (b *censusBar) finish(ok bool) {
+	if b.progress == nil {
+		return
+	}
+	if b.bar != nil && !ok {
+		b.bar.Abort(false)
+	}
+	b.progress.Wait()
+}
