@@ -8,8 +8,9 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
-	"strings"
 	"time"
+
+	"avoidcert/internal/atomicfile"
 )
 
 // outFile is where a command writes a file it produces: a path, standard
@@ -34,9 +35,6 @@ type outFile struct {
 	skip   bool
 }
 
-// tempInfix marks our temp files; after it come only digits.
-const tempInfix = ".avoidcert-tmp-"
-
 // started is when this process began, to tell a killed run's temp file
 // from one a concurrent run is writing.
 var started = time.Now()
@@ -56,7 +54,7 @@ func openOut(cmd, flag, path string, skip bool) (*outFile, error) {
 	}
 	// A folder we may not write in fails now, not after the work.
 	dir, base := filepath.Split(o.target)
-	probe, err := os.CreateTemp(cmp.Or(dir, "."), "."+base+tempInfix+"*")
+	probe, err := os.CreateTemp(cmp.Or(dir, "."), atomicfile.TempPattern(base))
 	if err != nil {
 		return nil, usagef("%s: cannot write to %s: %v; choose another %s", cmd, quote(path), err, flag)
 	}
@@ -146,62 +144,12 @@ func (o *outFile) write(stdout io.Writer, data []byte) (err error) {
 		return err
 	}
 	dir, base := filepath.Split(o.target)
-	dir = cmp.Or(dir, ".")
-	removeStaleTemps(dir, base)
+	atomicfile.RemoveStaleOf(cmp.Or(dir, "."), base, started) // best effort: a killed run's leftovers
 	mode := fs.FileMode(0o644)
 	if info, err := os.Stat(o.target); err == nil {
 		mode = info.Mode().Perm()
 	}
-	tmp, err := os.CreateTemp(dir, "."+base+tempInfix+"*")
-	if err != nil {
-		return err
-	}
-	defer func() {
-		if err != nil {
-			tmp.Close()
-			os.Remove(tmp.Name())
-		}
-	}()
-	if _, err = tmp.Write(data); err != nil {
-		return err
-	}
-	if err = tmp.Chmod(mode); err != nil {
-		return err
-	}
-	if err = tmp.Sync(); err != nil {
-		return err
-	}
-	if err = tmp.Close(); err != nil {
-		return err
-	}
-	if err = os.Rename(tmp.Name(), o.target); err != nil {
-		return err
-	}
-	if d, derr := os.Open(dir); derr == nil {
-		d.Sync() // make the rename durable where the platform allows
-		d.Close()
-	}
-	return nil
-}
-
-// removeStaleTemps removes regular files named exactly
-// ".BASE.avoidcert-tmp-DIGITS" in dir that were last modified before this
-// process started: a run killed while writing left them.
-func removeStaleTemps(dir, base string) {
-	entries, err := os.ReadDir(dir)
-	if err != nil {
-		return
-	}
-	prefix := "." + base + tempInfix
-	for _, e := range entries {
-		suffix, ok := strings.CutPrefix(e.Name(), prefix)
-		if !ok || suffix == "" || strings.Trim(suffix, "0123456789") != "" || !e.Type().IsRegular() {
-			continue
-		}
-		if info, err := e.Info(); err == nil && info.ModTime().Before(started) {
-			os.Remove(filepath.Join(dir, e.Name()))
-		}
-	}
+	return atomicfile.WriteFile(o.target, data, mode)
 }
 
 // quote quotes s for a message, cut to a few dozen characters.

@@ -5,6 +5,7 @@ import (
 	"path/filepath"
 	"syscall"
 	"testing"
+	"time"
 )
 
 func TestWriteFileReplacesAndLeavesNoTemp(t *testing.T) {
@@ -41,7 +42,7 @@ func TestWriteFileRefusesNonRegular(t *testing.T) {
 
 func TestRemoveStale(t *testing.T) {
 	dir := t.TempDir()
-	for _, name := range []string{".a.json.123.tmp", "a.json", "notes.tmp"} {
+	for _, name := range []string{".a.json.avoidcert-tmp-123", "a.json", "notes.tmp", ".b.avoidcert-tmp-x1"} {
 		if err := os.WriteFile(filepath.Join(dir, name), nil, 0o644); err != nil {
 			t.Fatal(err)
 		}
@@ -54,7 +55,36 @@ func TestRemoveStale(t *testing.T) {
 	for _, e := range entries {
 		left = append(left, e.Name())
 	}
-	if len(left) != 2 || left[0] != "a.json" || left[1] != "notes.tmp" {
-		t.Fatalf("left %v, want [a.json notes.tmp]", left)
+	if len(left) != 3 || left[0] != ".b.avoidcert-tmp-x1" || left[1] != "a.json" || left[2] != "notes.tmp" {
+		t.Fatalf("left %v, want [.b.avoidcert-tmp-x1 a.json notes.tmp]", left)
+	}
+}
+
+// RemoveStaleOf removes only the named file's temporary files, and only
+// those older than the cut (a concurrent writer's stays).
+func TestRemoveStaleOf(t *testing.T) {
+	dir := t.TempDir()
+	cut := time.Now()
+	old, recent, other := ".a.json.avoidcert-tmp-1", ".a.json.avoidcert-tmp-2", ".b.json.avoidcert-tmp-3"
+	for _, name := range []string{old, recent, other} {
+		if err := os.WriteFile(filepath.Join(dir, name), nil, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for _, name := range []string{old, other} {
+		if err := os.Chtimes(filepath.Join(dir, name), cut.Add(-time.Hour), cut.Add(-time.Hour)); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := os.Chtimes(filepath.Join(dir, recent), cut.Add(time.Minute), cut.Add(time.Minute)); err != nil {
+		t.Fatal(err)
+	}
+	if err := RemoveStaleOf(dir, "a.json", cut); err != nil {
+		t.Fatal(err)
+	}
+	for name, want := range map[string]bool{old: false, recent: true, other: true} {
+		if _, err := os.Stat(filepath.Join(dir, name)); (err == nil) != want {
+			t.Errorf("%s: exists %v, want %v", name, err == nil, want)
+		}
 	}
 }
