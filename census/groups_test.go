@@ -2,14 +2,11 @@ package census
 
 import (
 	"context"
-	"flag"
 	"testing"
 
 	"avoidcert/pattern"
 	"avoidcert/transfer"
 )
-
-var long = flag.Bool("long", false, "run the length-6 count-group test (minutes with today's engine)")
 
 // countRows returns one row per symmetry class of the length with its
 // exact counts a_0..a_n from the engine.
@@ -42,24 +39,13 @@ var groupCases = []struct {
 	{3, 2, 2, 4},
 	{4, 8, 7, 7},
 	{5, 32, 25, 12},
+	{6, 192, 92, 15},
 }
 
 func TestCountGroupsMatchA262480(t *testing.T) {
 	for _, c := range groupCases {
 		checkGroups(t, c.length, c.classes, c.groups, c.separatingN)
 	}
-}
-
-// TestCountGroupsLength6 runs the length-6 row of OEIS A262480 (92 groups
-// among 192 symmetry classes). Today's engine counts the 192 classes in
-// minutes, so it runs only with -long:
-//
-//	go test ./census/ -run CountGroupsLength6 -long -v
-func TestCountGroupsLength6(t *testing.T) {
-	if !*long {
-		t.Skip("minutes with today's engine; run with -long")
-	}
-	checkGroups(t, 6, 192, 92, 15)
 }
 
 func checkGroups(t *testing.T, length, classes, groups, separatingN int) {
