@@ -27,7 +27,9 @@ const (
 
 // ErrBudget is wrapped by every refusal that a larger budget could lift:
 // a count whose iterates would not fit in Options.MaxMemory, a certificate
-// over the checker's limits.
+// over the checker's limits, and the bracket run's refusals
+// (bounds.ErrBudget: a memory budget below the first bracket's need, a
+// budget that stopped the run before its first bracket).
 var ErrBudget = errors.New("over the budget")
 
 // Options set the target and the budgets of a call. The zero value is

@@ -28,6 +28,9 @@ bound on the exact iterates, until lo and hi agree to D significant digits
 (truncated) or hi - lo <= W. Prints lambda and the radius 1/lambda, both
 rounded outward, bounds on a_n/n! valid for every n >= n0, the structure class,
 and writes a certificate that 'avoidcert check' re-verifies independently.
+Nothing is printed or written before the independent checker has accepted
+that certificate: the intervals and the bounds for every n shown are its
+statement.
 
 The structure decides the method: periodic sets are bracketed through T^d,
 reducible ones block by block; for subexponential sets lambda = 0 is proved by
@@ -46,7 +49,8 @@ Flags:
                       "estimate, not certified",...},"stop":...,"certificate":PATH}
   --max-k K           stop at this k (default 1000, the checker's limit)
   --max-memory B      stop before a step that would need more (default 8G)
-  --timeout T         stop after this long, e.g. 90s or 10m (default none)
+  --timeout T         stop the bracket after this long, e.g. 90s or 10m, and
+                      certify the best one (default none)
   --progress          one line per bracket on stderr (for logs)
   --quiet             no live progress bar (shown on a terminal by default)
 
@@ -62,7 +66,8 @@ Exit codes: 0 target met (or lambda decided exactly), 3 a budget stopped the
 run first (the best certified bracket is printed and certified; when it stops
 before a first bracket nothing is written), 2 bad input, 4 interrupted
 (Ctrl-C: nothing is written; use --timeout to stop early and keep a
-certificate).
+certificate) or a certificate the checker refused (with its reason; nothing
+is written).
 `,
 		run: runBound,
 	}
