@@ -284,21 +284,26 @@ func stopWords(res *bounds.Result) string {
 }
 
 // certified returns the lambda and radius intervals the checked
-// certificate states, and the digits they are printed with.
-func certified(c *certify.Certificate) (lambda, radius bounds.Enclosure, digits int) {
+// certificate states, the digits they are printed with, and the
+// significant digits of lambda they agree on (0 unless lambda > 0).
+func certified(c *certify.Certificate) (lambda, radius bounds.Enclosure, digits, agreed int) {
 	st := c.Statement
-	return bounds.Enclosure{Lo: st.Lambda.Lo, Hi: st.Lambda.Hi}, bounds.Enclosure{Lo: st.Radius.Lo, Hi: st.Radius.Hi}, st.Lambda.Digits
+	lambda = bounds.Enclosure{Lo: st.Lambda.Lo, Hi: st.Lambda.Hi}
+	if lambda.Finite() && lambda.Lo.Sign() > 0 {
+		agreed = interval.CommonDigits(lambda.Lo, lambda.Hi)
+	}
+	return lambda, bounds.Enclosure{Lo: st.Radius.Lo, Hi: st.Radius.Hi}, st.Lambda.Digits, agreed
 }
 
 func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
 	res, rep := r.Bracket, r.Report
-	lambda, radius, digits := certified(r.Certificate)
+	lambda, radius, digits, agreed := certified(r.Certificate)
 	fmt.Fprintf(w, "patterns: %s (window length %d)\n", r.Set, r.Set.Window())
 	printWrapped(w, "class: "+classLine(rep), "  ")
 	if rep.Class == structure.Subexponential {
 		fmt.Fprintln(w, "lambda = 0 (proved by the structure pass: no cyclic avoider of any length)")
 	}
-	fmt.Fprintf(w, "lambda   in %s  (%s)\n", lambda.String(digits), digitWords(lambda, res.Digits))
+	fmt.Fprintf(w, "lambda   in %s  (%s)\n", lambda.String(digits), digitWords(lambda, agreed))
 	fmt.Fprintf(w, "1/lambda in %s\n", radius.String(digits))
 	for _, br := range res.Brackets {
 		fmt.Fprintf(w, "bracket: n = %d, step %d, start %s, on %d of %d prefix states\n", br.N, br.Step, br.Start, len(br.States), r.States.Len())
@@ -433,9 +438,9 @@ func ends(x bounds.Enclosure, digits int) endsJSON {
 
 func writeBoundJSON(w io.Writer, r *prove.Result, dest *outFile) {
 	res, rep := r.Bracket, r.Report
-	lambda, radius, digits := certified(r.Certificate)
+	lambda, radius, digits, agreed := certified(r.Certificate)
 	out := boundJSON{Patterns: r.Set.Strings(), Class: string(rep.Class),
-		Lambda: ends(lambda, digits), Radius: ends(radius, digits), K: r.K(), Digits: min(res.Digits, 1000),
+		Lambda: ends(lambda, digits), Radius: ends(radius, digits), K: r.K(), Digits: min(agreed, 1000),
 		Stop: string(res.Stop), Seconds: res.Elapsed.Seconds()}
 	out.Period, out.Exponent = periodExponent(rep)
 	out.AllN = allNJSONOf(r.Certificate.Statement.AllN, digits)
