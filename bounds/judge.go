@@ -85,11 +85,17 @@ func (g judgeGoal) quantity(l Enclosure) Enclosure {
 	return l
 }
 
-func (g judgeGoal) verdict(q Enclosure) Verdict {
+func (g judgeGoal) verdict(q Enclosure) Verdict { return Decide(q, g.claim) }
+
+// Decide judges the claim "the value lies in the closed interval claim"
+// against a certified enclosure q: proved when q lies inside the claim,
+// refuted when it misses it (an infinite value, Lo nil, misses every
+// claim), undecided when they overlap.
+func Decide(q Enclosure, claim interval.Interval) Verdict {
 	switch {
-	case q.Finite() && g.claim.Lo.Cmp(q.Lo) <= 0 && q.Hi.Cmp(g.claim.Hi) <= 0:
+	case q.Finite() && claim.Lo.Cmp(q.Lo) <= 0 && q.Hi.Cmp(claim.Hi) <= 0:
 		return Proved
-	case q.Lo == nil || q.Lo.Cmp(g.claim.Hi) > 0 || (q.Hi != nil && q.Hi.Cmp(g.claim.Lo) < 0):
+	case q.Lo == nil || q.Lo.Cmp(claim.Hi) > 0 || (q.Hi != nil && q.Hi.Cmp(claim.Lo) < 0):
 		return Refuted
 	}
 	return Undecided

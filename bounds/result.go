@@ -1,6 +1,7 @@
 package bounds
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/big"
@@ -120,6 +121,26 @@ const (
 	StopTimeout   StopReason = "timeout"   // the context deadline (stopped in time to keep a bracket)
 	StopCancelled StopReason = "cancelled" // the context was cancelled
 )
+
+// ErrBudget is wrapped by every refusal that a larger budget would lift:
+// a memory budget below the need of the first bracket, and a budget
+// (MaxN, MaxMemory, the context's deadline) that stopped a run before its
+// first bracket. Such errors are *BudgetError values; errors.Is(err,
+// ErrBudget) recognises them, errors.As gives the budget that ran out.
+var ErrBudget = errors.New("bounds: over the budget")
+
+// BudgetError is a run refused or left without a bracket by a budget.
+type BudgetError struct {
+	// Stop names the budget: StopMemory (Options.MaxMemory), StopMaxN
+	// (Options.MaxN) or StopTimeout (the context's deadline).
+	Stop StopReason
+	msg  string
+}
+
+func (e *BudgetError) Error() string { return e.msg }
+
+// Is makes errors.Is(err, ErrBudget) hold for a *BudgetError.
+func (e *BudgetError) Is(target error) bool { return target == ErrBudget }
 
 // Result is the outcome of Run, RunBlocks or Judge.
 type Result struct {

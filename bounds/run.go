@@ -4,6 +4,7 @@ import (
 	"slices"
 
 	"context"
+	"errors"
 	"fmt"
 	"gonum.org/v1/gonum/graph"
 	"gonum.org/v1/gonum/graph/simple"
@@ -36,7 +37,8 @@ type Progress func(Event)
 // budget stop is not an error: the result then holds the best certified
 // bracket found and says why it stopped. Errors are bad options, a memory
 // budget too small for even the first bracket, and a stop before any
-// bracket was taken.
+// bracket was taken (both *BudgetError, wrapping ErrBudget, unless the
+// context was cancelled).
 func Run(ctx context.Context, st *transfer.States, opts Options, progress Progress) (*Result, error) {
 	if err := opts.validate(true); err != nil {
 		return nil, err
@@ -331,7 +333,7 @@ func checkFirstMemory(runners []*runner, opts Options) error {
 			return nil
 		}
 		if above == 0 {
-			return fmt.Errorf("bounds: the memory budget of %s is below the %s needed for a first bracket; raise it", bytesize.Format(opts.MaxMemory), bytesize.Format(need))
+			return &BudgetError{Stop: StopMemory, msg: fmt.Sprintf("bounds: the memory budget of %s is below the %s needed for a first bracket; raise it", bytesize.Format(opts.MaxMemory), bytesize.Format(need))}
 		}
 	}
 	return nil
@@ -412,7 +414,11 @@ func finish(runners []*runner, e *env, stop StopReason, detail string, start tim
 		}
 	}
 	if len(res.Brackets) == 0 {
-		return nil, fmt.Errorf("bounds: stopped (%s) before the first bracket: %s", stop, detail)
+		msg := fmt.Sprintf("bounds: stopped (%s) before the first bracket: %s", stop, detail)
+		if stop == StopCancelled {
+			return nil, errors.New(msg) // an interrupt, not a budget
+		}
+		return nil, &BudgetError{Stop: stop, msg: msg}
 	}
 	res.Lambda = combined(runners)
 	for _, b := range res.Brackets {

@@ -243,6 +243,10 @@ func TestBudgetStops(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), "memory budget") {
 			t.Fatalf("got %v, want a refusal naming the memory budget", err)
 		}
+		var be *BudgetError
+		if !errors.Is(err, ErrBudget) || !errors.As(err, &be) || be.Stop != StopMemory {
+			t.Errorf("got %#v, want a *BudgetError of StopMemory wrapping ErrBudget", err)
+		}
 	})
 	t.Run("timeout", func(t *testing.T) {
 		ctx, cancel := context.WithTimeout(context.Background(), 400*time.Millisecond)
@@ -282,6 +286,19 @@ func TestBudgetStops(t *testing.T) {
 		_, err := Run(ctx, sys123, Options{Digits: 10}, nil)
 		if err == nil || !strings.Contains(err.Error(), "before the first bracket") {
 			t.Fatalf("got %v, want an error saying no bracket was taken", err)
+		}
+		if errors.Is(err, ErrBudget) {
+			t.Errorf("an interrupt before the first bracket is not a budget refusal: %v", err)
+		}
+	})
+	t.Run("deadline before any bracket", func(t *testing.T) {
+		ctx, cancel := context.WithTimeout(context.Background(), time.Nanosecond)
+		defer cancel()
+		<-ctx.Done()
+		_, err := Run(ctx, sys123, Options{Digits: 10}, nil)
+		var be *BudgetError
+		if !errors.Is(err, ErrBudget) || !errors.As(err, &be) || be.Stop != StopTimeout {
+			t.Fatalf("got %v, want a *BudgetError of StopTimeout wrapping ErrBudget", err)
 		}
 	})
 }

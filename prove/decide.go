@@ -34,16 +34,11 @@ func Enclosure(c *certify.Certificate, of bounds.Quantity) bounds.Enclosure {
 }
 
 // Decide judges the claim "the value lies in the closed interval claim"
-// against a certified enclosure q: proved when q lies inside the claim,
-// refuted when it misses it, undecided when they overlap.
+// against the enclosure q of a checked certificate (Enclosure), by the
+// rule the bracket runs aim for (bounds.Decide): proved when q lies inside
+// the claim, refuted when it misses it, undecided when they overlap.
 func Decide(q bounds.Enclosure, claim interval.Interval) bounds.Verdict {
-	switch {
-	case q.Finite() && claim.Lo.Cmp(q.Lo) <= 0 && q.Hi.Cmp(claim.Hi) <= 0:
-		return bounds.Proved
-	case q.Lo == nil || q.Lo.Cmp(claim.Hi) > 0 || (q.Hi != nil && q.Hi.Cmp(claim.Lo) < 0):
-		return bounds.Refuted
-	}
-	return bounds.Undecided
+	return bounds.Decide(q, claim)
 }
 
 // DecideOrder judges lambda(first) < lambda(second) from two checked

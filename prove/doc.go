@@ -17,17 +17,25 @@
 //   - Counts returns a_0..a_n only when the fast engine (package transfer)
 //     and the checker's own iteration (certify.Counts) give the same
 //     numbers; otherwise its error names the first n where they differ.
-//   - A budget (Options.MaxK, MaxMemory, the context's deadline) never
-//     turns into a verdict: a bracket stopped by it still gives a checked
-//     certificate whose verdict may be undecided, and a refusal before the
-//     work is an error wrapping ErrBudget. The deadline bounds the
-//     engine's work; the check of the certificate of the bracket it kept
-//     follows it (the checker does not take a context yet). Cancelling
-//     the context (an interrupt) stops everything with its error.
+//   - A budget (Options.MaxK, MaxMemory, Deadline, the context's deadline)
+//     never turns into a verdict: a bracket stopped by it still gives a
+//     checked certificate whose verdict may be undecided, and a refusal
+//     before the work is an error wrapping ErrBudget (and, from the
+//     bracket run, a *bounds.BudgetError naming the budget). Options.Deadline
+//     bounds the structure pass and the bracket run; building and checking
+//     the certificate of the bracket it kept follow it. A deadline of the
+//     context bounds the check too. Cancelling the context (an interrupt)
+//     stops everything with an error wrapping context.Canceled.
+//   - Estimates (Result.Estimates) are floating-point figures for
+//     orientation, not proved; callers label them "estimate, not
+//     certified" wherever they show them.
 //
 // This package is the only one outside package main that calls into
-// transfer, bounds and certify together; the claims gate, the census and
-// the command line call it instead of orchestrating on their own.
+// transfer, bounds and certify together; the commands bound and claim,
+// the claims gate and the census call it instead of orchestrating on
+// their own. Progress reaches the caller through Options.Progress (the
+// bracket runs' events, with the number of blocks) and
+// Options.CheckProgress (the checker's work).
 //
 // Results are fresh values; the caller may keep and read them from any
 // goroutine, and must not modify them while another goroutine reads them.

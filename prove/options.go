@@ -1,8 +1,10 @@
 package prove
 
 import (
+	"context"
 	"errors"
 	"math/big"
+	"time"
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
@@ -25,7 +27,9 @@ const (
 
 // ErrBudget is wrapped by every refusal that a larger budget could lift:
 // a count whose iterates would not fit in Options.MaxMemory, a certificate
-// over the checker's limits.
+// over the checker's limits, and the bracket run's refusals
+// (bounds.ErrBudget: a memory budget below the first bracket's need, a
+// budget that stopped the run before its first bracket).
 var ErrBudget = errors.New("over the budget")
 
 // Options set the target and the budgets of a call. The zero value is
@@ -47,8 +51,37 @@ type Options struct {
 	CheckWork int64
 	// Tool is written into certificates (default "avoidcert").
 	Tool string
-	// Progress, if set, receives the bracket runs' events.
-	Progress bounds.Progress
+	// Deadline, if not zero, stops the bracket run (and the structure
+	// pass before it) in time to keep its best bracket; building and
+	// checking that bracket's certificate follow it and stop only when ctx
+	// is cancelled. A deadline of ctx itself stops everything, the
+	// certificate's check included.
+	Deadline time.Time
+	// ResidueConstants asks Certify and Judge for Estimates.ByResidue on
+	// periodic sets (it counts a_n once more, to the bracket's n).
+	ResidueConstants bool
+	// Progress, if set, receives the bracket runs' events, from the
+	// goroutine doing the work; it must not block for long.
+	Progress func(Event)
+	// CheckProgress, if set, receives the checker's estimated work done
+	// and total (certify.CheckOptions.Progress).
+	CheckProgress func(done, total int64)
+}
+
+// Event is a progress event of a bracket run, with the number of blocks
+// the set is bracketed by (0: the whole system at once); Block in the
+// embedded event counts from 0.
+type Event struct {
+	bounds.Event
+	Blocks int
+}
+
+// withDeadline returns ctx with Deadline applied; cancel must be called.
+func (o Options) withDeadline(ctx context.Context) (context.Context, context.CancelFunc) {
+	if o.Deadline.IsZero() {
+		return ctx, func() {}
+	}
+	return context.WithDeadline(ctx, o.Deadline)
 }
 
 // maxN is the largest bracket n the budget allows on states st.

@@ -4,7 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"strings"
+	"math/big"
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
@@ -28,7 +28,28 @@ type Result struct {
 	// Certificate is the certificate built from the run, accepted by
 	// certify.Check for Set.
 	Certificate *certify.Certificate
+	// Estimates are floating-point figures for orientation, not proved.
+	Estimates Estimates
 }
+
+// Estimates are figures for orientation: estimate, not certified, and to
+// be labelled so wherever they are shown. Zero or nil means unknown or not
+// meaningful for the set's class.
+type Estimates struct {
+	// Rate is the observed decay of the bracket width per unit of k, an
+	// estimate of |lambda_2|/lambda (not for subexponential sets).
+	Rate float64
+	// C estimates c in a_n ~ c lambda^n n! (primitive sets only).
+	C float64
+	// ByResidue estimates, for a periodic set of period d, the constants
+	// c_r in a_n/n! = lambda^n (c_(n mod d) + o(1)), r = 0..d-1, from the
+	// exact counts (only with Options.ResidueConstants).
+	ByResidue []float64
+}
+
+// K is the bracket's k = n - M, M the longest prefix state: the steps
+// above the longest state of the (first) bracket the result rests on.
+func (r *Result) K() int { return r.Bracket.Brackets[0].N - r.States.MaxLength() }
 
 // Done reports whether the bracket run reached its goal (a target met,
 // lambda exact, a claim decided, or lambda = 0 proved by the structure
@@ -45,7 +66,9 @@ func (r *Result) Done() bool {
 // a budget stops it), builds the certificate and returns it once the
 // checker has accepted it.
 func Certify(ctx context.Context, set pattern.Set, opts Options) (*Result, error) {
-	p, err := planFor(ctx, set)
+	runCtx, cancel := opts.withDeadline(ctx)
+	defer cancel()
+	p, err := planFor(runCtx, set)
 	if err != nil {
 		return nil, err
 	}
@@ -54,7 +77,7 @@ func Certify(ctx context.Context, set pattern.Set, opts Options) (*Result, error
 	if bo.Digits == 0 && bo.Width == nil {
 		bo.Digits = defaultDigits
 	}
-	res, err := p.bracket(ctx, bo, opts.Progress)
+	res, err := p.bracket(runCtx, bo, p.progress(opts))
 	if err != nil {
 		return nil, err
 	}
@@ -83,7 +106,9 @@ func Judge(ctx context.Context, set pattern.Set, claim interval.Interval, of bou
 	if claim.Lo == nil || claim.Hi == nil || claim.Lo.Cmp(claim.Hi) > 0 {
 		return nil, errors.New("prove: a claimed interval needs finite ends with lo <= hi")
 	}
-	p, err := planFor(ctx, set)
+	runCtx, cancel := opts.withDeadline(ctx)
+	defer cancel()
+	p, err := planFor(runCtx, set)
 	if err != nil {
 		return nil, err
 	}
@@ -93,10 +118,10 @@ func Judge(ctx context.Context, set pattern.Set, claim interval.Interval, of bou
 		// lambda = 0 is proved by the structure pass; a short run gives
 		// the certificate its upper bound
 		bo.Digits = 1
-		res, err = p.bracket(ctx, bo, opts.Progress)
+		res, err = p.bracket(runCtx, bo, p.progress(opts))
 	} else {
-		_, res, err = bounds.JudgeBlocks(ctx, p.states, p.blocks, claim, of, bo, opts.Progress)
-		err = budgetError(ctx, err)
+		_, res, err = bounds.JudgeBlocks(runCtx, p.states, p.blocks, claim, of, bo, p.progress(opts))
+		err = budgetError(runCtx, err)
 	}
 	if err != nil {
 		return nil, err
@@ -158,7 +183,7 @@ func check(ctx context.Context, c *certify.Certificate, set pattern.Set, opts Op
 	if errors.Is(ctx.Err(), context.Canceled) {
 		return ctx.Err()
 	}
-	err := certify.Check(ctx, c, certify.CheckOptions{Expect: set.Strings(), MaxWork: opts.checkWork(), MaxMemory: opts.maxMemory()})
+	err := certify.Check(ctx, c, certify.CheckOptions{Expect: set.Strings(), MaxWork: opts.checkWork(), MaxMemory: opts.maxMemory(), Progress: opts.CheckProgress})
 	if errors.Is(err, certify.ErrLimit) {
 		return fmt.Errorf("%w: %w", ErrBudget, err)
 	}
@@ -212,18 +237,18 @@ func (p *plan) bracket(ctx context.Context, opts bounds.Options, progress bounds
 }
 
 // budgetError marks the bracket runs' refusals that a larger budget would
-// lift: a memory budget below the first bracket's need, or a budget that
-// stopped the run before its first bracket. Package bounds states them in
-// words only (no sentinel error), so they are recognised by their wording;
-// an unrecognised error is returned as it is.
+// lift (bounds.ErrBudget: a memory budget below the first bracket's need,
+// or a budget that stopped the run before its first bracket) with
+// ErrBudget, keeping the bounds error (and its *bounds.BudgetError) in the
+// chain. A stop by the context wraps the context's error.
 func budgetError(ctx context.Context, err error) error {
 	switch {
 	case err == nil:
 		return nil
 	case ctx.Err() != nil:
-		return fmt.Errorf("%w (%v)", ctx.Err(), err)
-	case strings.Contains(err.Error(), "memory budget"), strings.Contains(err.Error(), "before the first bracket"):
-		return fmt.Errorf("%w: %v", ErrBudget, err)
+		return fmt.Errorf("%w (%w)", ctx.Err(), err)
+	case errors.Is(err, bounds.ErrBudget):
+		return fmt.Errorf("%w: %w", ErrBudget, err)
 	}
 	return err
 }
@@ -243,7 +268,62 @@ func (p *plan) finish(ctx context.Context, res *bounds.Result, digits int, opts 
 		return nil, budgetError(ctx, err)
 	}
 	if err := check(ctx, c, p.rep.Set, opts); err != nil {
+		if errors.Is(err, ErrBudget) || ctx.Err() != nil {
+			return nil, fmt.Errorf("prove: checking the certificate built for %s: %w", p.rep.Set, err)
+		}
 		return nil, fmt.Errorf("prove: the certificate built for %s did not pass the checker: %w", p.rep.Set, err)
 	}
-	return &Result{Set: p.rep.Set, Report: p.rep, States: p.states, Step: p.step, Blocks: p.blocks, Bracket: res, Certificate: c}, nil
+	r := &Result{Set: p.rep.Set, Report: p.rep, States: p.states, Step: p.step, Blocks: p.blocks, Bracket: res, Certificate: c}
+	r.Estimates = p.estimates(buildCtx, c, res, opts)
+	return r, nil
+}
+
+// estimates are the run's figures for orientation, kept only for the
+// classes where they mean something.
+func (p *plan) estimates(ctx context.Context, c *certify.Certificate, res *bounds.Result, opts Options) Estimates {
+	var est Estimates
+	if p.rep.Class != structure.Subexponential {
+		est.Rate = res.Estimates.Rate
+	}
+	if p.rep.Class == structure.Primitive {
+		est.C = res.Estimates.C
+	}
+	if p.rep.Class == structure.Periodic && opts.ResidueConstants {
+		est.ByResidue = residueConstants(ctx, p.rep.Set, p.rep.Period, res.Brackets[0].N, Enclosure(c, bounds.QuantityLambda))
+	}
+	return est
+}
+
+// residueConstants estimates, for a periodic set of period d, the
+// constants c_r in a_n/n! = lambda^n (c_(n mod d) + o(1)) as
+// a_n/(n! mid^n) at the d lengths n from n0 on, mid the middle of the
+// certified lambda: estimates, not certified. nil when lambda is not
+// known to be positive, or when the counting is interrupted.
+func residueConstants(ctx context.Context, set pattern.Set, d, n0 int, lambda bounds.Enclosure) []float64 {
+	if !lambda.Finite() || lambda.Lo.Sign() <= 0 {
+		return nil
+	}
+	counts, err := transfer.Counts(ctx, set, n0+d-1, nil)
+	if err != nil {
+		return nil
+	}
+	mid := new(big.Rat).Add(lambda.Lo, lambda.Hi)
+	mid.Quo(mid, big.NewRat(2, 1))
+	c := make([]float64, d)
+	for n := n0; n < n0+d; n++ {
+		den := new(big.Rat).SetInt(new(big.Int).MulRange(1, int64(n)))
+		den.Mul(den, pow(mid, n))
+		c[n%d], _ = new(big.Rat).Quo(new(big.Rat).SetInt(counts[n]), den).Float64()
+	}
+	return c
+}
+
+// progress passes the bracket runs' events on with the plan's number of
+// blocks.
+func (p *plan) progress(opts Options) bounds.Progress {
+	if opts.Progress == nil {
+		return nil
+	}
+	blocks := len(p.blocks)
+	return func(ev bounds.Event) { opts.Progress(Event{Event: ev, Blocks: blocks}) }
 }

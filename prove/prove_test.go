@@ -3,9 +3,11 @@ package prove_test
 import (
 	"context"
 	"errors"
+	"math"
 	"math/big"
 	"strings"
 	"testing"
+	"time"
 
 	"avoidcert/bounds"
 	"avoidcert/internal/settest"
@@ -139,5 +141,106 @@ func TestBudgetTooSmall(t *testing.T) {
 	_, err := prove.Certify(context.Background(), settest.Must(t, "1342"), prove.Options{MaxMemory: 1024})
 	if !errors.Is(err, prove.ErrBudget) {
 		t.Errorf("got %v, want ErrBudget", err)
+	}
+	var be *bounds.BudgetError
+	if !errors.As(err, &be) || be.Stop != bounds.StopMemory {
+		t.Errorf("got %v, want the bracket run's *bounds.BudgetError (memory) in the chain", err)
+	}
+}
+
+// Options.Deadline stops the bracket run in time to keep its best
+// bracket, whose certificate is still built and checked (Certify returns
+// only checked certificates); cancelling the context instead leaves
+// nothing.
+func TestDeadlineKeepsBestBracket(t *testing.T) {
+	ctx := context.Background()
+	set := settest.Must(t, "1342")
+	r, err := prove.Certify(ctx, set, prove.Options{Digits: 900, Deadline: time.Now().Add(300 * time.Millisecond)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Bracket.Stop != bounds.StopTimeout || r.Done() {
+		t.Fatalf("stop %s, want a timeout stop", r.Bracket.Stop)
+	}
+	if r.Certificate == nil || r.Certificate.Statement.Lambda.Lo == nil {
+		t.Fatal("no certificate for the kept bracket")
+	}
+	cancelled, cancel := context.WithCancel(ctx)
+	cancel()
+	if _, err := prove.Certify(cancelled, set, prove.Options{Digits: 900}); !errors.Is(err, context.Canceled) {
+		t.Errorf("a cancelled context: %v, want context.Canceled", err)
+	}
+}
+
+// Progress events carry the number of blocks: 0 for a set bracketed as a
+// whole, the number of strongly connected components for a reducible set
+// ({1243, 1342, 2314, 2413, 3421, 4132}, 4 blocks of prefix states: from
+// this tool's structure pass, no published source). The checker's
+// progress reaches its total.
+func TestProgressEvents(t *testing.T) {
+	ctx := context.Background()
+	for _, tc := range []struct {
+		set    []string
+		blocks int
+	}{
+		{[]string{"1342"}, 0},
+		{[]string{"1243", "1342", "2314", "2413", "3421", "4132"}, 4},
+	} {
+		var events int
+		var lastDone, lastTotal int64
+		opts := prove.Options{Digits: 6,
+			Progress: func(ev prove.Event) {
+				events++
+				if ev.Blocks != tc.blocks || ev.Block < 0 || (tc.blocks > 0 && ev.Block >= tc.blocks) {
+					t.Errorf("%v: event of block %d of %d, want %d blocks", tc.set, ev.Block, ev.Blocks, tc.blocks)
+				}
+			},
+			CheckProgress: func(done, total int64) { lastDone, lastTotal = done, total },
+		}
+		r, err := prove.Certify(ctx, settest.Must(t, tc.set...), opts)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if events == 0 || len(r.Blocks) != tc.blocks {
+			t.Errorf("%v: %d events, %d blocks in the result, want some events and %d blocks", tc.set, events, len(r.Blocks), tc.blocks)
+		}
+		if lastTotal == 0 || lastDone != lastTotal {
+			t.Errorf("%v: the checker's progress ended at %d of %d", tc.set, lastDone, lastTotal)
+		}
+	}
+}
+
+// The labelled estimates: for {123, 321}, a_n = 2 E_n (alternating
+// permutations) and E_n/n! ~ 2 (2/pi)^(n+1) (Andre 1879), so both
+// constants c_r of a_n/n! = lambda^n (c_(n mod 2) + o(1)) are
+// 8/pi = 2.546479...; for 1342 c in a_n ~ c lambda^n n! is near 1.15
+// (this tool's own estimate, no published source: only its order is
+// checked), and for a periodic set there is no such c.
+func TestEstimates(t *testing.T) {
+	ctx := context.Background()
+	r, err := prove.Certify(ctx, settest.Must(t, "123", "321"), prove.Options{Digits: 12, ResidueConstants: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Estimates.ByResidue) != 2 {
+		t.Fatalf("c_r: %v, want two", r.Estimates.ByResidue)
+	}
+	for i, c := range r.Estimates.ByResidue {
+		if math.Abs(c-8/math.Pi) > 1e-4 {
+			t.Errorf("c_%d ~ %g, want 8/pi = %g (Andre 1879)", i, c, 8/math.Pi)
+		}
+	}
+	if r.Estimates.C != 0 {
+		t.Errorf("a periodic set has c = %g, want none", r.Estimates.C)
+	}
+	r, err = prove.Certify(ctx, settest.Must(t, "1342"), prove.Options{Digits: 8})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c := r.Estimates.C; c < 1 || c > 1.3 || r.Estimates.ByResidue != nil {
+		t.Errorf("1342: c ~ %g and c_r %v, want c near 1.15 and no c_r", c, r.Estimates.ByResidue)
+	}
+	if r.K() != r.Bracket.Brackets[0].N-r.States.MaxLength() || r.K() < 1 {
+		t.Errorf("k = %d for a bracket at n = %d", r.K(), r.Bracket.Brackets[0].N)
 	}
 }

@@ -16,7 +16,6 @@ import (
 	"avoidcert/pattern"
 	"avoidcert/prove"
 	"avoidcert/structure"
-	"avoidcert/transfer"
 )
 
 func init() {
@@ -29,6 +28,9 @@ bound on the exact iterates, until lo and hi agree to D significant digits
 (truncated) or hi - lo <= W. Prints lambda and the radius 1/lambda, both
 rounded outward, bounds on a_n/n! valid for every n >= n0, the structure class,
 and writes a certificate that 'avoidcert check' re-verifies independently.
+Nothing is printed or written before the independent checker has accepted
+that certificate: the intervals and the bounds for every n shown are its
+statement.
 
 The structure decides the method: periodic sets are bracketed through T^d,
 reducible ones block by block; for subexponential sets lambda = 0 is proved by
@@ -47,7 +49,8 @@ Flags:
                       "estimate, not certified",...},"stop":...,"certificate":PATH}
   --max-k K           stop at this k (default 1000, the checker's limit)
   --max-memory B      stop before a step that would need more (default 8G)
-  --timeout T         stop after this long, e.g. 90s or 10m (default none)
+  --timeout T         stop the bracket after this long, e.g. 90s or 10m, and
+                      certify the best one (default none)
   --progress          one line per bracket on stderr (for logs)
   --quiet             no live progress bar (shown on a terminal by default)
 
@@ -63,7 +66,8 @@ Exit codes: 0 target met (or lambda decided exactly), 3 a budget stopped the
 run first (the best certified bracket is printed and certified; when it stops
 before a first bracket nothing is written), 2 bad input, 4 interrupted
 (Ctrl-C: nothing is written; use --timeout to stop early and keep a
-certificate).
+certificate) or a certificate the checker refused (with its reason; nothing
+is written).
 `,
 		run: runBound,
 	}
@@ -114,36 +118,31 @@ func (b *budget) validate(cmd string) error {
 	return nil
 }
 
-// start applies the budget (the runtime memory limit, the deadline) and
-// plans the bracket from the set's structure. The caller must call cancel.
-func (b *budget) start(ctx context.Context, set pattern.Set) (context.Context, context.CancelFunc, *plan, error) {
+// options are the prove options of the budget: --max-k, --max-memory (also
+// the runtime's memory limit) and the deadline of --timeout from now.
+func (b *budget) options() prove.Options {
 	limitMemory(int64(b.maxMemory))
-	cancel := context.CancelFunc(func() {})
+	opts := prove.Options{MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Tool: "avoidcert " + version}
 	if b.timeout > 0 {
-		ctx, cancel = context.WithTimeout(ctx, time.Duration(b.timeout))
+		opts.Deadline = time.Now().Add(time.Duration(b.timeout))
 	}
-	p, err := planFor(ctx, set)
-	if err != nil {
-		cancel()
-		return nil, nil, nil, err
-	}
-	return ctx, cancel, p, nil
+	return opts
 }
 
-// watch returns the progress report of a bracket run towards wanted
-// digits: a live bar on a terminal (unless --quiet), one line per bracket
-// with --progress, else nothing. done must be called before the result is
-// printed.
-func (b *budget) watch(e *env, p *plan, wanted int) (report bounds.Progress, done func()) {
-	where := func(ev bounds.Event) string {
+// watch sets the progress reports of opts, for the bracket run towards
+// wanted digits and for the check of its certificate: live bars on a
+// terminal (unless --quiet), lines with --progress, else nothing. done
+// must be called before the result is printed.
+func (b *budget) watch(e *env, opts *prove.Options, wanted int) (done func()) {
+	where := func(ev prove.Event) string {
 		n := ev.N // the newest iterate, or the n of the bracket just taken
 		if ev.Bracket != nil {
 			n = ev.Bracket.N
 		}
-		if p.blocks == nil {
+		if ev.Blocks == 0 {
 			return fmt.Sprintf("n=%d", n)
 		}
-		return fmt.Sprintf("block %d of %d, n=%d", ev.Block+1, len(p.blocks), n)
+		return fmt.Sprintf("block %d of %d, n=%d", ev.Block+1, ev.Blocks, n)
 	}
 	agreed := func(x bounds.Enclosure) int {
 		if !x.Finite() || x.Lo.Sign() <= 0 {
@@ -153,43 +152,36 @@ func (b *budget) watch(e *env, p *plan, wanted int) (report bounds.Progress, don
 	}
 	switch {
 	case b.progress:
-		return func(ev bounds.Event) {
+		opts.Progress = func(ev prove.Event) {
 			if ev.Bracket != nil {
 				d := agreed(ev.Lambda)
 				fmt.Fprintf(e.stderr, "%s: lambda in %s (%d of %d digits agreed)\n", where(ev), ev.Lambda.String(max(d+3, 8)), d, wanted)
 			}
-		}, func() {}
+		}
+		opts.CheckProgress = checkLines(e.stderr)
+		return func() {}
 	case e.progress && !b.quiet:
 		bar := newLiveBar(e.stderr, int64(wanted), "digits")
-		return func(ev bounds.Event) {
+		opts.Progress = func(ev prove.Event) {
 			bar.set(where(ev)+" ", int64(agreed(ev.Lambda)), int64(wanted))
-		}, bar.finish
+		}
+		var checking *liveBar // the checker's bar, once the bracket run is over
+		opts.CheckProgress = func(done, total int64) {
+			if checking == nil {
+				bar.finish()
+				checking = newLiveBar(e.stderr, total, "operations")
+			}
+			checking.set("checking ", done, total)
+		}
+		return func() {
+			if checking == nil {
+				bar.finish()
+			} else {
+				checking.finish()
+			}
+		}
 	}
-	return nil, func() {}
-}
-
-// plan is how a set is bracketed, decided from its structure.
-type plan struct {
-	rep    *structure.Report
-	states *transfer.States
-	step   int
-	blocks [][]int // nil: the whole system
-}
-
-func planFor(ctx context.Context, set pattern.Set) (*plan, error) {
-	// Certificates list witnesses up to prove.MaxWitnessM.
-	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: set.Window()-1 <= prove.MaxWitnessM})
-	if err != nil {
-		return nil, err
-	}
-	p := &plan{rep: rep, states: transfer.NewStates(set), step: 1}
-	switch rep.Class {
-	case structure.Periodic:
-		p.step = rep.Period
-	case structure.Reducible:
-		p.blocks = bounds.Blocks(p.states) // the components of the state digraph
-	}
-	return p, nil
+	return func() {}
 }
 
 func runBound(ctx context.Context, e *env, args []string) int {
@@ -206,7 +198,8 @@ func runBound(ctx context.Context, e *env, args []string) int {
 	}
 	given := map[string]bool{}
 	fs.Visit(func(f *flag.Flag) { given[f.Name] = true })
-	opts := bounds.Options{Digits: *digits, MaxMemory: int64(b.maxMemory), Digests: true}
+	opts := b.options()
+	opts.Digits, opts.ResidueConstants = *digits, true
 	switch {
 	case given["digits"] && given["width"]:
 		return failure(e, usagef("bound: give --digits or --width, not both"))
@@ -235,15 +228,12 @@ func runBound(ctx context.Context, e *env, args []string) int {
 		report = e.stderr // standard output carries the certificate alone
 	}
 
-	runCtx, cancel, p, err := b.start(ctx, set)
-	if err != nil {
-		return failure(e, err)
-	}
-	defer cancel()
-	opts.Step = p.step
-	opts.MaxN = p.maxN(b.maxK)
-	progress, progressDone := b.watch(e, p, wantedDigits(opts))
-	res, err := p.bracket(runCtx, opts, progress)
+	// prove.Certify stops the bracket run at --timeout and certifies the
+	// best bracket; only Ctrl-C stops the certificate's build and check.
+	// The certificate is made even with --no-certificate: the explicit
+	// bound printed is its statement.
+	progressDone := b.watch(e, &opts, wantedDigits(opts))
+	r, err := prove.Certify(ctx, set, opts)
 	progressDone()
 	if ctx.Err() != nil {
 		return interrupted(e)
@@ -251,30 +241,19 @@ func runBound(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	// The budget is spent; certifying the best bracket is not cut short
-	// by --timeout, only by Ctrl-C. The certificate is made even with
-	// --no-certificate: the explicit bound printed is its statement.
-	cert, err := prove.BuildCertificate(ctx, "avoidcert "+version, p.rep, p.states, res, printDigits(opts))
+	data, err := certify.Marshal(r.Certificate)
 	if err != nil {
 		return failure(e, err)
-	}
-	data, err := certify.Marshal(cert)
-	if err != nil {
-		return failure(e, err)
-	}
-	if ctx.Err() != nil {
-		return interrupted(e)
 	}
 	if err := dest.write(e.stdout, data); err != nil {
 		return failure(e, usagef("bound: cannot write the certificate to %s: %v; choose another --out", quote(path), err))
 	}
-	phases := phaseConstants(ctx, set, p, res)
 	if *asJSON {
-		writeBoundJSON(report, set, p, res, cert.Statement.AllN, dest, phases, printDigits(opts))
+		writeBoundJSON(report, r, dest)
 	} else {
-		writeBoundText(report, set, p, res, cert.Statement.AllN, dest, phases, printDigits(opts))
+		writeBoundText(report, r, dest)
 	}
-	if res.Stop == bounds.StopTarget || res.Stop == bounds.StopExact || p.rep.Class == structure.Subexponential {
+	if r.Done() {
 		return exitOK
 	}
 	return exitUndecided
@@ -282,41 +261,13 @@ func runBound(ctx context.Context, e *env, args []string) int {
 
 // wantedDigits is the digits target shown by progress: --digits, or the
 // digits a bracket of width --width has at lambda about 1.
-func wantedDigits(opts bounds.Options) int {
+func wantedDigits(opts prove.Options) int {
 	if opts.Width == nil {
 		return opts.Digits
 	}
 	w, _ := opts.Width.Float64()
 	return max(1, int(math.Ceil(-math.Log10(w))))
 }
-
-// printDigits is how many significant digits the interval is printed with:
-// a few more than certified, so that the printed ends show the bracket.
-func printDigits(opts bounds.Options) int {
-	if opts.Digits > 0 {
-		return opts.Digits + 3
-	}
-	return 20
-}
-
-// bracket runs the bracket search the plan asks for. A subexponential set
-// has lambda = 0 proved: only a short run for the explicit upper bound.
-func (p *plan) bracket(ctx context.Context, opts bounds.Options, progress bounds.Progress) (*bounds.Result, error) {
-	if p.rep.Class == structure.Subexponential {
-		opts.MaxN = min(opts.MaxN, p.maxN(40))
-	}
-	if p.blocks != nil {
-		return bounds.RunBlocks(ctx, p.states, p.blocks, opts, progress)
-	}
-	return bounds.Run(ctx, p.states, opts, progress)
-}
-
-// maxN turns --max-k (steps above the longest state, k = n - m) into the
-// largest n of a bracket, within what a certificate checker accepts.
-func (p *plan) maxN(maxK int) int { return min(maxK+p.states.MaxLength(), certify.MaxN) }
-
-// k returns a bracket's n - m, the steps above the longest state.
-func (p *plan) k(br bounds.Bracket) int { return br.N - p.states.MaxLength() }
 
 func stopWords(res *bounds.Result) string {
 	switch res.Stop {
@@ -332,32 +283,47 @@ func stopWords(res *bounds.Result) string {
 	}
 }
 
-func writeBoundText(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, allN certify.AllN, dest *outFile, phases []float64, digits int) {
-	fmt.Fprintf(w, "patterns: %s (window length %d)\n", set, set.Window())
-	printWrapped(w, "class: "+classLine(p.rep), "  ")
-	if p.rep.Class == structure.Subexponential {
+// certified returns the lambda and radius intervals the checked
+// certificate states, the digits they are printed with, and the
+// significant digits of lambda they agree on (0 unless lambda > 0).
+func certified(c *certify.Certificate) (lambda, radius bounds.Enclosure, digits, agreed int) {
+	st := c.Statement
+	lambda = bounds.Enclosure{Lo: st.Lambda.Lo, Hi: st.Lambda.Hi}
+	if lambda.Finite() && lambda.Lo.Sign() > 0 {
+		agreed = interval.CommonDigits(lambda.Lo, lambda.Hi)
+	}
+	return lambda, bounds.Enclosure{Lo: st.Radius.Lo, Hi: st.Radius.Hi}, st.Lambda.Digits, agreed
+}
+
+func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
+	res, rep := r.Bracket, r.Report
+	lambda, radius, digits, agreed := certified(r.Certificate)
+	fmt.Fprintf(w, "patterns: %s (window length %d)\n", r.Set, r.Set.Window())
+	printWrapped(w, "class: "+classLine(rep), "  ")
+	if rep.Class == structure.Subexponential {
 		fmt.Fprintln(w, "lambda = 0 (proved by the structure pass: no cyclic avoider of any length)")
 	}
-	fmt.Fprintf(w, "lambda   in %s  (%s)\n", res.Lambda.String(digits), digitWords(res))
-	fmt.Fprintf(w, "1/lambda in %s\n", res.Radius.String(digits))
+	fmt.Fprintf(w, "lambda   in %s  (%s)\n", lambda.String(digits), digitWords(lambda, agreed))
+	fmt.Fprintf(w, "1/lambda in %s\n", radius.String(digits))
 	for _, br := range res.Brackets {
-		fmt.Fprintf(w, "bracket: n = %d, step %d, start %s, on %d of %d prefix states\n", br.N, br.Step, br.Start, len(br.States), p.states.Len())
+		fmt.Fprintf(w, "bracket: n = %d, step %d, start %s, on %d of %d prefix states\n", br.N, br.Step, br.Start, len(br.States), r.States.Len())
 	}
-	if line := allNLine(allN, !dest.skip, digits); line != "" {
+	if line := allNLine(r.Certificate.Statement.AllN, !dest.skip, digits); line != "" {
 		fmt.Fprintln(w, line)
 	}
-	if est := res.Estimates; est.Rate > 0 && p.rep.Class != structure.Subexponential {
+	est := r.Estimates
+	if est.Rate > 0 {
 		fmt.Fprintf(w, "estimate, not certified: |lambda_2|/lambda ~ %.3g (from the width decay)\n", est.Rate)
 	}
-	if est := res.Estimates; est.C > 0 && p.rep.Class == structure.Primitive {
+	if est.C > 0 {
 		fmt.Fprintf(w, "estimate, not certified: c in a_n ~ c lambda^n n! ~ %.6g\n", est.C)
 	}
-	for r, c := range phases {
-		fmt.Fprintf(w, "estimate, not certified: c_%d in a_n/n! = lambda^n (c_(n mod %d) + o(1)) ~ %.6g (from the exact a_n)\n", r, len(phases), c)
+	for i, c := range est.ByResidue {
+		fmt.Fprintf(w, "estimate, not certified: c_%d in a_n/n! = lambda^n (c_(n mod %d) + o(1)) ~ %.6g (from the exact a_n)\n", i, len(est.ByResidue), c)
 	}
-	if p.rep.Class == structure.Subexponential {
+	if rep.Class == structure.Subexponential {
 		fmt.Fprintf(w, "stopped: upper bound taken at k = %d (lambda = 0 is proved; the bracket only bounds the decay) after %.1f s\n",
-			p.k(res.Brackets[0]), res.Elapsed.Seconds())
+			r.K(), res.Elapsed.Seconds())
 	} else {
 		fmt.Fprintf(w, "stopped: %s after %.1f s\n", stopWords(res), res.Elapsed.Seconds())
 	}
@@ -409,44 +375,14 @@ func allNJSONOf(x certify.AllN, digits int) *allNJSON {
 	return j
 }
 
-// phaseConstants estimates, for a periodic set of period d, the constants
-// c_r in a_n/n! = lambda^n (c_(n mod d) + o(1)) as a_n/(n! mid^n) at the d
-// lengths n from the bracket's n0 on, mid the middle of the lambda
-// bracket: estimates, not certified. nil for other classes, or when the
-// counting is interrupted.
-func phaseConstants(ctx context.Context, set pattern.Set, p *plan, res *bounds.Result) []float64 {
-	if p.rep.Class != structure.Periodic || len(res.Brackets) == 0 || !res.Lambda.Finite() || res.Lambda.Lo.Sign() <= 0 {
-		return nil
-	}
-	d, n0 := p.rep.Period, res.Brackets[0].N
-	counts, err := transfer.Counts(ctx, set, n0+d-1, nil)
-	if err != nil {
-		return nil
-	}
-	mid := new(big.Rat).Add(res.Lambda.Lo, res.Lambda.Hi)
-	mid.Quo(mid, big.NewRat(2, 1))
-	c := make([]float64, d)
-	for n := n0; n < n0+d; n++ {
-		den := new(big.Rat).SetInt(new(big.Int).MulRange(1, int64(n)))
-		pow := new(big.Rat).SetInt64(1)
-		for range n {
-			pow.Mul(pow, mid)
-		}
-		den.Mul(den, pow)
-		c[n%d], _ = new(big.Rat).Quo(new(big.Rat).SetInt(counts[n]), den).Float64()
-	}
-	return c
-}
-
-func digitWords(res *bounds.Result) string {
-	x := res.Lambda
+func digitWords(x bounds.Enclosure, digits int) string {
 	switch {
 	case x.Lo != nil && x.Hi != nil && x.Lo.Cmp(x.Hi) == 0:
 		return "exact"
 	case x.Lo != nil && x.Lo.Sign() == 0:
 		return "an upper bound only"
 	}
-	return fmt.Sprintf("%d significant digits certified", res.Digits)
+	return fmt.Sprintf("%d significant digits certified", digits)
 }
 
 // boundJSON is the --json output of bound.
@@ -500,21 +436,20 @@ func ends(x bounds.Enclosure, digits int) endsJSON {
 	return out
 }
 
-func writeBoundJSON(w io.Writer, set pattern.Set, p *plan, res *bounds.Result, allN certify.AllN, dest *outFile, phases []float64, digits int) {
-	out := boundJSON{Patterns: set.Strings(), Class: string(p.rep.Class),
-		Lambda: ends(res.Lambda, digits), Radius: ends(res.Radius, digits), Digits: min(res.Digits, 1000),
+func writeBoundJSON(w io.Writer, r *prove.Result, dest *outFile) {
+	res, rep := r.Bracket, r.Report
+	lambda, radius, digits, agreed := certified(r.Certificate)
+	out := boundJSON{Patterns: r.Set.Strings(), Class: string(rep.Class),
+		Lambda: ends(lambda, digits), Radius: ends(radius, digits), K: r.K(), Digits: min(agreed, 1000),
 		Stop: string(res.Stop), Seconds: res.Elapsed.Seconds()}
-	out.Period, out.Exponent = periodExponent(p.rep)
-	if len(res.Brackets) > 0 {
-		out.K = p.k(res.Brackets[0])
+	out.Period, out.Exponent = periodExponent(rep)
+	out.AllN = allNJSONOf(r.Certificate.Statement.AllN, digits)
+	est := &estimatesJSON{Note: "estimate, not certified", CPhases: r.Estimates.ByResidue}
+	if x := r.Estimates.Rate; x > 0 {
+		est.Rate = &x
 	}
-	out.AllN = allNJSONOf(allN, digits)
-	est := &estimatesJSON{Note: "estimate, not certified", CPhases: phases}
-	if r := res.Estimates.Rate; r > 0 && p.rep.Class != structure.Subexponential {
-		est.Rate = &r
-	}
-	if c := res.Estimates.C; c > 0 && p.rep.Class == structure.Primitive {
-		est.C = &c
+	if x := r.Estimates.C; x > 0 {
+		est.C = &x
 	}
 	if est.Rate != nil || est.C != nil || est.CPhases != nil {
 		out.Estimates = est

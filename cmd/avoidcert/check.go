@@ -109,13 +109,7 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	var bar *liveBar // drawn from the first report on: a refusal before the work draws nothing
 	switch {
 	case *progress:
-		shown := int64(-1)
-		opts.Progress = func(done, total int64) {
-			if pct := 100 * done / max(total, 1); pct > shown { // at most one line per percent
-				shown = pct
-				fmt.Fprintf(e.stderr, "checked %d%%: about %d of %d coefficient operations\n", pct, done, total)
-			}
-		}
+		opts.Progress = checkLines(e.stderr)
 	case e.progress && !*quiet:
 		opts.Progress = func(done, total int64) {
 			if bar == nil {

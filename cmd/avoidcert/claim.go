@@ -7,6 +7,7 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/interval"
+	"avoidcert/prove"
 )
 
 func init() {
@@ -16,7 +17,11 @@ func init() {
 
 Decides a claim about lambda (default) or the radius 1/lambda, tightening the
 certified bracket until it lies inside the claim (proved) or misses it
-(refuted), or a budget stops it (undecided).
+(refuted), or a budget stops it (undecided). The final bracket is written into
+a certificate that the independent checker (as in 'avoidcert check') must
+accept before anything is printed: every verdict, and the certified interval
+shown, is read from that checked certificate. Should the checker ever refuse
+it, claim says why and exits 4.
 
 A claimed decimal X means the true value lies within half a unit of X's last
 digit: --value 0.9546 claims [0.95455, 0.95465]. With --truncated, X is the
@@ -34,8 +39,9 @@ Flags:
   --max-k K, --max-memory B, --timeout T   budgets, as for bound
   --progress, --quiet                       progress, as for bound
 
-Exit codes: 0 proved, 1 refuted, 3 undecided within the budget, 2 bad input,
-4 interrupted (Ctrl-C).
+Exit codes: 0 proved, 1 refuted, 3 undecided within the budget (--timeout
+stops the bracket in time to certify the best one), 2 bad input, 4 interrupted
+(Ctrl-C) or a certificate the checker refused.
 `,
 		run: runClaim,
 	}
@@ -61,14 +67,9 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	runCtx, cancel, p, err := b.start(ctx, set)
-	if err != nil {
-		return failure(e, err)
-	}
-	defer cancel()
-	opts := bounds.Options{Step: p.step, MaxN: p.maxN(b.maxK), MaxMemory: int64(b.maxMemory)}
-	progress, progressDone := b.watch(e, p, interval.CommonDigits(claimed.Lo, claimed.Hi)+1)
-	verdict, res, err := bounds.JudgeBlocks(runCtx, p.states, p.blocks, claimed, quantity, opts, progress)
+	opts := b.options()
+	progressDone := b.watch(e, &opts, interval.CommonDigits(claimed.Lo, claimed.Hi)+1)
+	j, err := prove.Judge(ctx, set, claimed, quantity, opts)
 	progressDone()
 	if ctx.Err() != nil {
 		return interrupted(e)
@@ -76,18 +77,18 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	shown := res.Lambda
-	if quantity == bounds.QuantityRadius {
-		shown = res.Radius
-	}
+	// The verdict and the interval shown are read from the certificate
+	// the checker accepted.
+	res := j.Bracket
 	digits := claimDigits(claimed)
 	words, code := "undecided: "+stopWords(res), exitUndecided
-	switch verdict {
+	switch j.Verdict {
 	case bounds.Proved:
 		words, code = "proved: the certified interval lies inside the claim", exitOK
 	case bounds.Refuted:
 		words, code = "refuted: the certified interval misses the claim", exitFailed
 	}
+	verdict, reason, _ := strings.Cut(words, ":")
 	if *asJSON {
 		writeJSON(e.stdout, struct {
 			Patterns  []string `json:"patterns"`
@@ -99,13 +100,13 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 			Verdict   string   `json:"verdict"`
 			Reason    string   `json:"reason"`
 			Seconds   float64  `json:"seconds"`
-		}{set.Strings(), string(p.rep.Class), string(quantity),
-			ends(bounds.Enclosure{Lo: claimed.Lo, Hi: claimed.Hi}, digits), ends(shown, digits),
-			p.k(res.Brackets[0]), strings.SplitN(words, ":", 2)[0], strings.TrimSpace(strings.SplitN(words, ":", 2)[1]), res.Elapsed.Seconds()})
+		}{set.Strings(), string(j.Report.Class), string(quantity),
+			ends(bounds.Enclosure{Lo: claimed.Lo, Hi: claimed.Hi}, digits), ends(j.Certified, digits),
+			j.K(), verdict, strings.TrimSpace(reason), res.Elapsed.Seconds()})
 		return code
 	}
 	fmt.Fprintf(e.stdout, "claim: %s(%s) in %s\n", quantity, set, claimed.String(digits))
-	fmt.Fprintf(e.stdout, "certified: %s in %s (k = %d)\n", quantity, shown.String(digits), p.k(res.Brackets[0]))
+	fmt.Fprintf(e.stdout, "certified: %s in %s (k = %d)\n", quantity, j.Certified.String(digits), j.K())
 	fmt.Fprintln(e.stdout, words)
 	return code
 }

@@ -12,7 +12,9 @@ import (
 	"os/signal"
 	"runtime/debug"
 	"sort"
-	"strings"
+
+	"avoidcert/bounds"
+	"avoidcert/prove"
 )
 
 // Exit codes, documented in the README.
@@ -139,10 +141,12 @@ Exit codes: 0 success, 1 a claim or check failed, 2 usage or input error,
 }
 
 // failure reports an error on stderr and picks the exit code: usage and
-// input errors are 2, a --timeout that ran out before there was anything
-// to report is 3, an interrupt or anything unexpected is 4.
+// input errors are 2, a budget that ran out before there was anything to
+// report is 3, an interrupt or anything unexpected (a certificate the
+// checker refused among them) is 4.
 func failure(e *env, err error) int {
 	var ue usageError
+	var be *bounds.BudgetError
 	switch {
 	case errors.As(err, &ue):
 		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)
@@ -152,13 +156,18 @@ func failure(e *env, err error) int {
 	case errors.Is(err, context.DeadlineExceeded):
 		fmt.Fprintln(e.stderr, "avoidcert: undecided: --timeout ran out before a first result; nothing was written; raise --timeout")
 		return exitUndecided
-	case strings.Contains(err.Error(), "before the first bracket"):
-		// bounds stops before its first bracket only for a budget
-		// (--timeout, --max-memory, --max-k): undecided, not a fault.
-		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise the budget\n", err)
+	case errors.As(err, &be) && be.Stop == bounds.StopMemory:
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v: raise --max-memory; nothing was written\n", be)
 		return exitUndecided
-	case strings.Contains(err.Error(), "memory budget of"):
-		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v: raise --max-memory; nothing was written\n", err)
+	case errors.As(err, &be):
+		raise := map[bounds.StopReason]string{bounds.StopMaxN: "--max-k", bounds.StopTimeout: "--timeout"}[be.Stop]
+		if raise == "" {
+			raise = "the budget"
+		}
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise %s\n", be, raise)
+		return exitUndecided
+	case errors.Is(err, prove.ErrBudget):
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise the budget\n", err)
 		return exitUndecided
 	default:
 		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"fmt"
 	"io"
 	"os"
 	"sync/atomic"
@@ -57,4 +58,16 @@ func (lb *liveBar) set(label string, current, total int64) {
 func (lb *liveBar) finish() {
 	lb.bar.Abort(false)
 	lb.container.Wait()
+}
+
+// checkLines reports the checker's progress as lines on w, for logs: at
+// most one line per percent of the estimated work.
+func checkLines(w io.Writer) func(done, total int64) {
+	shown := int64(-1)
+	return func(done, total int64) {
+		if pct := 100 * done / max(total, 1); pct > shown {
+			shown = pct
+			fmt.Fprintf(w, "checked %d%%: about %d of %d coefficient operations\n", pct, done, total)
+		}
+	}
 }

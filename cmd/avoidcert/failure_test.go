@@ -1,0 +1,45 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"fmt"
+	"strings"
+	"testing"
+
+	"avoidcert/bounds"
+	"avoidcert/internal/settest"
+	"avoidcert/prove"
+)
+
+// failure picks the exit code from the error's chain, never from its
+// wording: budgets are 3 (naming the flag to raise), a certificate the
+// checker refused is 4 with the reason, an interrupt is 4.
+func TestFailureExitCodes(t *testing.T) {
+	ctx := context.Background()
+	// a real memory refusal, wrapped as prove returns it
+	_, memory := prove.Certify(ctx, settest.Must(t, "1342"), prove.Options{MaxMemory: 1024})
+	for _, tc := range []struct {
+		name string
+		err  error
+		code int
+		say  string
+	}{
+		{"usage", usagef("bound: --digits 0 is out of range"), exitUsage, "--digits 0"},
+		{"memory budget", memory, exitUndecided, "raise --max-memory"},
+		{"max-n budget", fmt.Errorf("prove: %w", &bounds.BudgetError{Stop: bounds.StopMaxN}), exitUndecided, "raise --max-k"},
+		{"checker limits", fmt.Errorf("checking: %w", prove.ErrBudget), exitUndecided, "raise the budget"},
+		{"deadline", fmt.Errorf("x: %w", context.DeadlineExceeded), exitUndecided, "raise --timeout"},
+		{"interrupt", fmt.Errorf("x: %w", context.Canceled), exitAborted, "interrupted"},
+		{"checker refusal", errors.New("prove: the certificate built for 132 did not pass the checker: lambda.lo too high"), exitAborted, "did not pass the checker: lambda.lo too high"},
+		// the wording of a budget without the sentinel is not a budget
+		{"wording only", errors.New("the memory budget of 1 KiB; stopped before the first bracket"), exitAborted, "memory budget"},
+	} {
+		var stderr bytes.Buffer
+		code := failure(&env{stdout: &bytes.Buffer{}, stderr: &stderr}, tc.err)
+		if code != tc.code || !strings.Contains(stderr.String(), tc.say) {
+			t.Errorf("%s: exit %d, %q; want exit %d saying %q", tc.name, code, stderr.String(), tc.code, tc.say)
+		}
+	}
+}
