@@ -107,13 +107,13 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	limitMemory(int64(maxMemory))
 	bar := newCensusBar(ctx, e, *quiet)
 	rep, err := census.Run(ctx, census.Options{
-		Params:   params,
-		Shard:    shard,
-		Dir:      dir,
-		Jobs:     *jobs,
-		Tool:     "avoidcert " + version,
-		Certify:  censusCertifier(int64(maxMemory) / int64(*jobs)),
-		Count:    censusCounter,
+		Params:  params,
+		Shard:   shard,
+		Dir:     dir,
+		Jobs:    *jobs,
+		Tool:    "avoidcert " + version,
+		Certify: censusCertifier(int64(maxMemory) / int64(*jobs)),
+		Count:   censusCounter,
 		Progress: func(ev census.Event) {
 			if ev.Class == "" && ev.Resumed > 0 {
 				fmt.Fprintf(e.stderr, "avoidcert: continuing the census in %s: %d of %d classes are in its journal\n", dir, ev.Resumed, ev.Total)
