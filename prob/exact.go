@@ -1,0 +1,58 @@
+package prob
+
+import (
+	"context"
+	"fmt"
+	"math/big"
+
+	"avoidcert/internal/bytesize"
+	"avoidcert/pattern"
+	"avoidcert/prove"
+	"avoidcert/transfer"
+)
+
+// MaxExactN is the largest N that Exact counts to: a_N for N <= 500 takes
+// seconds for patterns of length 3 and grows with the longest prefix state
+// (docs/benchmarks.md); the memory limit of Exact decides below it.
+const MaxExactN = 500
+
+// ExactMemory is the default memory limit of the exact range: a count whose
+// engine iterates are estimated (transfer.CountsFootprint) to need more is
+// answered with a certified interval instead. At 1 GiB a count takes at most
+// about a minute on one core (common practice for this tool, measured on
+// 1342: N = 150 needs 0.4 GB and 3 s).
+const ExactMemory = 1 << 30
+
+// InExactRange reports whether a_N is counted exactly within memory bytes
+// (N <= MaxExactN and the estimated footprint fits), and the estimate.
+func InExactRange(set pattern.Set, N int, memory int64) (bool, int64) {
+	if N < 0 || N > MaxExactN {
+		return false, 0
+	}
+	need := transfer.CountsFootprint(set, N)
+	return need <= memory, need
+}
+
+// Exact returns a_N and a_N/N! for set, counted by the engine and the
+// checker side by side (prove.Counts). It refuses N outside the exact range
+// for memory bytes before any work.
+func Exact(ctx context.Context, set pattern.Set, N int, memory int64) (*big.Int, *big.Rat, error) {
+	ok, need := InExactRange(set, N, memory)
+	if !ok {
+		if N < 0 || N > MaxExactN {
+			return nil, nil, fmt.Errorf("prob: N = %d is outside the exact range 0..%d", N, MaxExactN)
+		}
+		return nil, nil, fmt.Errorf("%w: counting %s to N = %d needs about %s, over %s",
+			prove.ErrBudget, set, N, bytesize.Format(need), bytesize.Format(memory))
+	}
+	counts, err := prove.Counts(ctx, set, N, prove.Options{MaxMemory: memory})
+	if err != nil {
+		return nil, nil, err
+	}
+	a := counts[N]
+	return a, new(big.Rat).SetFrac(a, factorial(N)), nil
+}
+
+func factorial(n int) *big.Int {
+	return new(big.Int).MulRange(1, int64(n))
+}
