@@ -1,0 +1,145 @@
+package report
+
+import (
+	"avoidcert/certify"
+	"fmt"
+	"html"
+	"io"
+	"strings"
+)
+
+// recomputedNote says where the figures' data come from.
+const recomputedNote = "The certificate holds only its final brackets. The figures are recomputed " +
+	"by this report with the engine: a bracket run to the certificate's digits (widths after each " +
+	"bracket) and exact counts a_n; they illustrate, the certificate proves."
+
+// statement lines shared by Markdown and HTML, plain text.
+func (r *Certificate) lines() [][2]string {
+	lo, hi := r.Lambda()
+	rlo, rhi := r.Radius()
+	b := r.Bound()
+	upper := "no upper bound for every n is stated"
+	if b.MuHi != "" {
+		upper = fmt.Sprintf("a_n/n! ≤ %s · %s^(n−%d)", b.AHi, b.MuHi, b.N0)
+	}
+	return [][2]string{
+		{"pattern set", strings.Join(r.Patterns(), ", ") + " (consecutive patterns)"},
+		{"growth rate λ", fmt.Sprintf("[%s, %s]", lo, hi)},
+		{"radius 1/λ", fmt.Sprintf("[%s, %s]", rlo, rhi)},
+		{"digits the ends share", fmt.Sprint(r.Digits)},
+		{"bound for every n ≥ " + fmt.Sprint(b.N0), fmt.Sprintf("%s · %s^(n−%d) ≤ a_n/n!; %s", b.ALo, b.MuLo, b.N0, upper)},
+		{"asymptotic form", r.Asymptotics()},
+		{"certificate", r.Name},
+		{"SHA-256", r.Digest()},
+		{"produced by", r.Cert.Tool},
+		{"checked", "valid: the independent checker re-verified it while this report was made"},
+		{"re-check", r.Recheck()},
+	}
+}
+
+// Markdown writes the report of the certificates as Markdown. Figures are
+// in the HTML page; Markdown lists their data as tables.
+func Markdown(w io.Writer, rs []*Certificate) error {
+	var b strings.Builder
+	b.WriteString("# avoidcert report\n\n")
+	for _, r := range rs {
+		fmt.Fprintf(&b, "## %s\n\n| | |\n|---|---|\n", strings.Join(r.Patterns(), ", "))
+		for _, l := range r.lines() {
+			fmt.Fprintf(&b, "| %s | %s |\n", l[0], strings.ReplaceAll(l[1], "|", `\|`))
+		}
+		fmt.Fprintf(&b, "\n%s\n\n", recomputedNote)
+		b.WriteString("| n | width of the λ bracket |\n|---:|---:|\n")
+		for _, p := range r.Widths {
+			fmt.Fprintf(&b, "| %d | %.3g |\n", p.N, p.Value)
+		}
+		fmt.Fprintf(&b, "\nObserved rate of the width per step of n: %.3g (estimate, not certified).\n\n", r.Rate)
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// HTML writes a standalone page: inline CSS and SVG, nothing fetched.
+func HTML(w io.Writer, rs []*Certificate) error {
+	var b strings.Builder
+	b.WriteString(`<!DOCTYPE html>
+<html lang="en"><head><meta charset="utf-8"><title>avoidcert report</title>
+<style>body{font-family:sans-serif;max-width:60em;margin:2em auto;color:#222}
+table{border-collapse:collapse}td,th{border:1px solid #bbb;padding:.3em .6em;text-align:left;vertical-align:top}
+td code{word-break:break-all}figure{margin:1.5em 0}figcaption{font-size:.9em;color:#444}</style>
+</head><body>
+<h1>avoidcert report</h1>
+`)
+	for _, r := range rs {
+		fmt.Fprintf(&b, "<h2>%s</h2>\n<table>\n", html.EscapeString(strings.Join(r.Patterns(), ", ")))
+		for _, l := range r.lines() {
+			v := html.EscapeString(l[1])
+			if l[0] == "SHA-256" || l[0] == "re-check" {
+				v = "<code>" + v + "</code>"
+			}
+			fmt.Fprintf(&b, "<tr><th>%s</th><td>%s</td></tr>\n", html.EscapeString(l[0]), v)
+		}
+		b.WriteString("</table>\n<p>" + html.EscapeString(recomputedNote) + "</p>\n")
+		width, err := r.WidthFigure()
+		if err != nil {
+			return err
+		}
+		ratio, err := r.RatioFigure()
+		if err != nil {
+			return err
+		}
+		fmt.Fprintf(&b, "<figure>%s<figcaption>Width hi − lo of the certified enclosure of λ after each bracket of a recomputed run, against n (log scale); dashed: the fitted geometric rate %.3g per step of n, an estimate, not certified.</figcaption></figure>\n", width, r.Rate)
+		fmt.Fprintf(&b, "<figure>%s<figcaption>Distance of the ratio a_(n+1)/((n+1)·a_n) of exact counts from λ (the midpoint of the certified range) against n, log scale; dashed: half the width of the certified range, so points below it lie inside the range. Differences are exact, then rounded for drawing.</figcaption></figure>\n", ratio)
+	}
+	b.WriteString("</body></html>\n")
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// TeX writes a LaTeX fragment to \input: one theorem per certificate. It
+// defines the theorem environment only when the document has none.
+func TeX(w io.Writer, rs []*Certificate) error {
+	var b strings.Builder
+	b.WriteString("% avoidcert report: a fragment to \\input; needs amsmath (or plain \\ensuremath math).\n")
+	b.WriteString("\\ifdefined\\theorem\\else\\newtheorem{theorem}{Theorem}\\fi\n")
+	for _, r := range rs {
+		lo, hi := r.Lambda()
+		bd := r.Bound()
+		set := "\\{" + strings.Join(r.Patterns(), ",\\,") + "\\}"
+		fmt.Fprintf(&b, "\n\\begin{theorem}[certified by avoidcert]\nLet $a_n$ be the number of permutations of $\\{1,\\dots,n\\}$ that avoid every pattern of $S = %s$ consecutively. Then the growth rate $\\lambda = \\lim_{n\\to\\infty} (a_n/n!)^{1/n}$ satisfies\n\\[ %s \\le \\lambda \\le %s \\]\n(the ends share %d significant digits), and for every $n \\ge %d$\n",
+			set, lo, hi, r.Digits, bd.N0)
+		if bd.MuHi != "" {
+			fmt.Fprintf(&b, "\\[ %s \\cdot %s^{\\,n-%d} \\le \\frac{a_n}{n!} \\le %s \\cdot %s^{\\,n-%d}. \\]\n", bd.ALo, bd.MuLo, bd.N0, bd.AHi, bd.MuHi, bd.N0)
+		} else {
+			fmt.Fprintf(&b, "\\[ %s \\cdot %s^{\\,n-%d} \\le \\frac{a_n}{n!}. \\]\n", bd.ALo, bd.MuLo, bd.N0)
+		}
+		fmt.Fprintf(&b, "%s\n\\end{theorem}\n", r.texAsymptotics())
+		fmt.Fprintf(&b, "\\noindent Certificate \\texttt{%s}, SHA-256 \\texttt{\\detokenize{%s}}; re-check with \\texttt{\\detokenize{%s}}.\n",
+			texText(r.Name), r.Digest(), r.Recheck())
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// texAsymptotics is Asymptotics as a sentence of LaTeX.
+func (r *Certificate) texAsymptotics() string {
+	switch r.Form.Class {
+	case certify.ClassPrimitive:
+		return "The transfer operator of $S$ is primitive, so $a_n/n! = c\\,\\lambda^n\\,(1 + O(\\theta^n))$ with constants $c > 0$ and $0 \\le \\theta < 1$."
+	case certify.ClassPeriodic:
+		d := r.Form.Period
+		return fmt.Sprintf("The transfer operator of $S$ is irreducible with period %d, so $a_n/n! = \\lambda^n\\,(c_{n \\bmod %d} + o(1))$ with constants $c_r \\ge 0$.", d, d)
+	case certify.ClassReducible:
+		return "The transfer operator of $S$ is reducible; $\\lambda$ is the largest growth rate of its strongly connected blocks."
+	case certify.ClassFinite:
+		return "Moreover $a_n = 0$ for every large $n$."
+	case certify.ClassSubexponential:
+		return "Moreover $\\lambda = 0$ and $a_n > 0$ for every $n$."
+	}
+	return "(The certificate states no structure class.)"
+}
+
+// texText escapes the characters LaTeX treats specially.
+func texText(s string) string {
+	rep := strings.NewReplacer(`\`, `\textbackslash{}`, "_", `\_`, "%", `\%`, "&", `\&`, "#", `\#`, "$", `\$`, "{", `\{`, "}", `\}`, "^", `\^{}`, "~", `\~{}`)
+	return rep.Replace(s)
+}
