@@ -28,7 +28,7 @@ func TestHTMLInChromium(t *testing.T) {
 	}
 	dir := t.TempDir()
 	var page bytes.Buffer
-	if err := HTML(&page, load(t, "cert-1342.json")); err != nil {
+	if err := HTML(&page, &Document{Certificates: load(t, "cert-1342.json")}); err != nil {
 		t.Fatal(err)
 	}
 	html := filepath.Join(dir, "report.html")

@@ -56,6 +56,24 @@ const (
 // FromCertificate reads a certificate, has the checker verify it and
 // recomputes the figures' data.
 func FromCertificate(ctx context.Context, name string, data []byte) (*Certificate, error) {
+	c, err := checked(ctx, name, data)
+	if err != nil {
+		return nil, err
+	}
+	set, err := pattern.ParseSet(c.Statement.Given)
+	if err != nil {
+		return nil, err
+	}
+	r := &Certificate{Name: name, SHA256: sha256.Sum256(data), Cert: c, Form: prove.FormOf(c)}
+	if err := r.recompute(ctx, set); err != nil {
+		return nil, fmt.Errorf("%s: recomputing the figures: %v", name, err)
+	}
+	return r, nil
+}
+
+// checked reads a certificate and has the checker accept it for its own
+// pattern set.
+func checked(ctx context.Context, name string, data []byte) (*certify.Certificate, error) {
 	c, err := certify.Read(bytes.NewReader(data))
 	if err != nil {
 		return nil, fmt.Errorf("%s: %v", name, err)
@@ -70,11 +88,7 @@ func FromCertificate(ctx context.Context, name string, data []byte) (*Certificat
 		}
 		return nil, refused{fmt.Errorf("%s: the checker refuses the certificate: %v", name, err)}
 	}
-	r := &Certificate{Name: name, SHA256: sha256.Sum256(data), Cert: c, Form: prove.FormOf(c)}
-	if err := r.recompute(ctx, set); err != nil {
-		return nil, fmt.Errorf("%s: recomputing the figures: %v", name, err)
-	}
-	return r, nil
+	return c, nil
 }
 
 func (r *Certificate) recompute(ctx context.Context, set pattern.Set) error {

@@ -1,10 +1,14 @@
 package report
 
 import (
+	"avoidcert/census"
 	"bytes"
 	"fmt"
 	"image/color"
 	"math"
+	"math/big"
+	"sort"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -134,4 +138,95 @@ func svgOf(p *plot.Plot) ([]byte, error) {
 		out = out[i:]
 	}
 	return out, nil
+}
+
+// groupColors mark the count groups with more than one class.
+var groupColors = []color.RGBA{{R: 200, G: 80, B: 30, A: 255}, {R: 40, G: 140, B: 60, A: 255}, {R: 140, G: 60, B: 160, A: 255}, {R: 20, G: 150, B: 170, A: 255}}
+
+// LambdaFigure is the SVG of lambda by class, in the census's order, with
+// the certified ranges as bars; classes of one count group (equal counts
+// up to N) share a colour.
+func (c *Census) LambdaFigure() ([]byte, error) {
+	p := plot.New()
+	p.Title.Text = fmt.Sprintf("Growth rate λ by class, length %d (certified ranges as bars)", c.Report.Params.Length)
+	p.X.Label.Text = "class, ordered by λ (largest first)"
+	p.Y.Label.Text = "λ"
+	p.Add(plotter.NewGrid())
+	group := c.groupOf()
+	shared := map[int]census.Group{} // the groups of several classes, by id
+	colour := map[int]color.RGBA{}
+	for i, g := range c.sharedGroups() {
+		shared[g.ID], colour[g.ID] = g, groupColors[i%len(groupColors)]
+	}
+	var names []string
+	type series struct {
+		pts  plotter.XYs
+		errs plotter.YErrors
+	}
+	yMin, yMax := math.Inf(1), math.Inf(-1)
+	bySeries := map[int]*series{} // by shared group id, -1 for classes alone in their group
+	keys := []int{}
+	for i, row := range c.Report.Rows {
+		lo, _ := ratOf(row.Lambda.Lo)
+		hi, _ := ratOf(row.Lambda.Hi)
+		mid := (lo + hi) / 2
+		k := -1
+		if _, ok := shared[group[row.Representative]]; ok {
+			k = group[row.Representative]
+		}
+		s := bySeries[k]
+		if s == nil {
+			s = &series{}
+			bySeries[k] = s
+			keys = append(keys, k)
+		}
+		s.pts = append(s.pts, plotter.XY{X: float64(i), Y: mid}) // NominalX puts name i at x = i
+		yMin, yMax = math.Min(yMin, lo), math.Max(yMax, hi)
+		s.errs = append(s.errs, struct{ Low, High float64 }{mid - lo, hi - mid})
+		names = append(names, row.Representative)
+	}
+	sort.Ints(keys)
+	for _, k := range keys {
+		s := bySeries[k]
+		sc, err := plotter.NewScatter(s.pts)
+		if err != nil {
+			return nil, err
+		}
+		sc.GlyphStyle.Shape = draw.CircleGlyph{}
+		sc.GlyphStyle.Radius = vg.Points(3)
+		eb, err := plotter.NewYErrorBars(struct {
+			plotter.XYer
+			plotter.YErrorer
+		}{s.pts, s.errs})
+		if err != nil {
+			return nil, err
+		}
+		if k >= 0 {
+			sc.GlyphStyle.Color, eb.LineStyle.Color = colour[k], colour[k]
+			g := shared[k]
+			p.Legend.Add(fmt.Sprintf("count group %d: %s (equal a_0..a_%d)", g.ID, strings.Join(g.Classes, ", "), c.Report.Params.To), sc)
+		} else {
+			sc.GlyphStyle.Color = color.RGBA{R: 31, G: 90, B: 160, A: 255}
+			p.Legend.Add("class alone in its count group", sc)
+		}
+		p.Add(eb, sc)
+	}
+	p.NominalX(names...)
+	p.X.Min, p.X.Max = -0.5, float64(len(names))-0.5
+	if pad := (yMax - yMin) * 0.3; pad > 0 {
+		p.Y.Min, p.Y.Max = yMin-pad/3, yMax+pad // room for the legend above the points
+	}
+	p.Legend.Top = true
+	p.Legend.Left = false
+	return svgOf(p)
+}
+
+// ratOf reads a decimal end of a census range for drawing.
+func ratOf(s string) (float64, bool) {
+	r, ok := new(big.Rat).SetString(s)
+	if !ok {
+		return math.NaN(), false
+	}
+	f, _ := r.Float64()
+	return f, true
 }

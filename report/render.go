@@ -37,12 +37,25 @@ func (r *Certificate) lines() [][2]string {
 	}
 }
 
-// Markdown writes the report of the certificates as Markdown. Figures are
-// in the HTML page; Markdown lists their data as tables.
-func Markdown(w io.Writer, rs []*Certificate) error {
+// Document is what one report covers, in the order of each kind.
+type Document struct {
+	Certificates []*Certificate
+	Censuses     []*Census
+	Gates        []*Gate
+}
+
+// Markdown writes the report as Markdown. Figures are in the HTML page;
+// Markdown lists their data as tables.
+func Markdown(w io.Writer, d *Document) error {
 	var b strings.Builder
 	b.WriteString("# avoidcert report\n\n")
-	for _, r := range rs {
+	for _, c := range d.Censuses {
+		b.WriteString(c.markdown())
+	}
+	for _, g := range d.Gates {
+		b.WriteString(g.markdown())
+	}
+	for _, r := range d.Certificates {
 		fmt.Fprintf(&b, "## %s\n\n| | |\n|---|---|\n", strings.Join(r.Patterns(), ", "))
 		for _, l := range r.lines() {
 			fmt.Fprintf(&b, "| %s | %s |\n", l[0], strings.ReplaceAll(l[1], "|", `\|`))
@@ -59,7 +72,7 @@ func Markdown(w io.Writer, rs []*Certificate) error {
 }
 
 // HTML writes a standalone page: inline CSS and SVG, nothing fetched.
-func HTML(w io.Writer, rs []*Certificate) error {
+func HTML(w io.Writer, d *Document) error {
 	var b strings.Builder
 	b.WriteString(`<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8"><title>avoidcert report</title>
@@ -69,7 +82,17 @@ td code{word-break:break-all}figure{margin:1.5em 0}figcaption{font-size:.9em;col
 </head><body>
 <h1>avoidcert report</h1>
 `)
-	for _, r := range rs {
+	for _, c := range d.Censuses {
+		h, err := c.html()
+		if err != nil {
+			return err
+		}
+		b.WriteString(h)
+	}
+	for _, g := range d.Gates {
+		b.WriteString(g.html())
+	}
+	for _, r := range d.Certificates {
 		fmt.Fprintf(&b, "<h2>%s</h2>\n<table>\n", html.EscapeString(strings.Join(r.Patterns(), ", ")))
 		for _, l := range r.lines() {
 			v := html.EscapeString(l[1])
@@ -97,11 +120,17 @@ td code{word-break:break-all}figure{margin:1.5em 0}figcaption{font-size:.9em;col
 
 // TeX writes a LaTeX fragment to \input: one theorem per certificate. It
 // defines the theorem environment only when the document has none.
-func TeX(w io.Writer, rs []*Certificate) error {
+func TeX(w io.Writer, d *Document) error {
 	var b strings.Builder
 	b.WriteString("% avoidcert report: a fragment to \\input; needs amsmath (or plain \\ensuremath math).\n")
 	b.WriteString("\\ifdefined\\theorem\\else\\newtheorem{theorem}{Theorem}\\fi\n")
-	for _, r := range rs {
+	for _, c := range d.Censuses {
+		b.WriteString(c.tex())
+	}
+	for _, g := range d.Gates {
+		b.WriteString(g.tex())
+	}
+	for _, r := range d.Certificates {
 		lo, hi := r.Lambda()
 		bd := r.Bound()
 		set := "\\{" + strings.Join(r.Patterns(), ",\\,") + "\\}"

@@ -40,13 +40,25 @@ func load(t *testing.T, names ...string) []*Certificate {
 }
 
 func TestGolden(t *testing.T) {
-	rs := load(t, "cert-1342.json", "cert-123.json")
+	cen, err := FromCensus(context.Background(), "testdata/census-4")
+	if err != nil {
+		t.Fatal(err)
+	}
+	gateData, err := os.ReadFile(filepath.Join("testdata", "gate.jsonl"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	gate, err := FromGate("gate.jsonl", gateData)
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc := &Document{Certificates: load(t, "cert-1342.json", "cert-123.json"), Censuses: []*Census{cen}, Gates: []*Gate{gate}}
 	for _, tc := range []struct {
 		name   string
-		render func(io.Writer, []*Certificate) error
+		render func(io.Writer, *Document) error
 	}{{"report.md", Markdown}, {"report.html", HTML}, {"report.tex", TeX}} {
 		var b bytes.Buffer
-		if err := tc.render(&b, rs); err != nil {
+		if err := tc.render(&b, doc); err != nil {
 			t.Fatal(err)
 		}
 		path := filepath.Join("testdata", tc.name+".golden")
@@ -120,7 +132,7 @@ func TestTeXCompiles(t *testing.T) {
 	}
 	dir := t.TempDir()
 	var b bytes.Buffer
-	if err := TeX(&b, load(t, "cert-1342.json")); err != nil {
+	if err := TeX(&b, &Document{Certificates: load(t, "cert-1342.json")}); err != nil {
 		t.Fatal(err)
 	}
 	os.WriteFile(filepath.Join(dir, "fragment.tex"), b.Bytes(), 0o644)
@@ -141,4 +153,37 @@ func findTool(names ...string) string {
 		}
 	}
 	return ""
+}
+
+// A census whose certificate does not match the SHA-256 in census.json is
+// refused, and so is a gate line with an unknown field.
+func TestCensusAndGateInputs(t *testing.T) {
+	dir := t.TempDir()
+	if err := os.CopyFS(dir, os.DirFS(filepath.Join("testdata", "census-4"))); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := FromCensus(context.Background(), dir); err != nil {
+		t.Fatalf("a copy of the census: %v", err)
+	}
+	cert := filepath.Join(dir, "certificates", "1234.json")
+	data, err := os.ReadFile(cert)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(cert, append(data, '\n'), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := FromCensus(context.Background(), dir); !IsRefused(err) {
+		t.Errorf("a census with an edited certificate: %v, want a refusal", err)
+	}
+	if IsGateJSON(data) {
+		t.Error("a certificate taken for a gate's output")
+	}
+	bad := []byte(`{"id":"x","kind":"count","verdict":"proved","extra":1}`)
+	if !IsGateJSON(bad) {
+		t.Error("a gate line not recognised")
+	}
+	if _, err := FromGate("bad.jsonl", bad); err == nil {
+		t.Error("a gate line with an unknown field accepted")
+	}
 }

@@ -13,9 +13,15 @@ import (
 func init() {
 	commands["report"] = command{
 		summary: "a page for readers from certificates: Markdown, HTML or LaTeX",
-		usage: `Usage: avoidcert report [--format md|html|tex] [--out FILE] CERTIFICATE...
+		usage: `Usage: avoidcert report [--format md|html|tex] [--out FILE] INPUT...
 
-Writes a report of one or more certificates (format version 3): the pattern
+Each INPUT is a certificate (format version 3), the output of
+'avoidcert gate --json' (one JSON object per line), or a census folder
+(census.json and its certificates). For a census: the classes by lambda with
+their certified ranges, count groups and order, every certificate's SHA-256
+compared and the certificate re-checked, and a figure of lambda by class with
+the ranges as bars and the count groups marked. For a gate: its verdicts as
+recorded, with their evidence and certificates. For a certificate: the pattern
 set, the certified range of lambda and 1/lambda, the explicit bound for every
 n >= n0, the asymptotic form, the certificate's SHA-256 and the command that
 re-checks it. Each certificate is re-verified by the independent checker
@@ -51,7 +57,7 @@ func runReport(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	render := map[string]func(io.Writer, []*report.Certificate) error{"md": report.Markdown, "html": report.HTML, "tex": report.TeX}[*format]
+	render := map[string]func(io.Writer, *report.Document) error{"md": report.Markdown, "html": report.HTML, "tex": report.TeX}[*format]
 	switch {
 	case render == nil:
 		return failure(e, usagef("report: --format %s is not one of md, html, tex", quote(*format)))
@@ -62,13 +68,9 @@ func runReport(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	var rs []*report.Certificate
+	var doc report.Document
 	for _, f := range files {
-		data, err := os.ReadFile(f)
-		if err != nil {
-			return failure(e, usagef("report: %v", err))
-		}
-		r, err := report.FromCertificate(ctx, f, data)
+		err := addInput(ctx, &doc, f)
 		switch {
 		case err == nil:
 		case ctx.Err() != nil:
@@ -79,14 +81,44 @@ func runReport(ctx context.Context, e *env, args []string) int {
 		default:
 			return failure(e, usagef("report: %v", err))
 		}
-		rs = append(rs, r)
 	}
 	var b bytes.Buffer
-	if err := render(&b, rs); err != nil {
+	if err := render(&b, &doc); err != nil {
 		return failure(e, err)
 	}
 	if err := out.write(e.stdout, b.Bytes()); err != nil {
 		return failure(e, err)
 	}
 	return exitOK
+}
+
+// addInput reads one input: a census folder, a gate's JSON lines or a
+// certificate.
+func addInput(ctx context.Context, doc *report.Document, path string) error {
+	if st, err := os.Stat(path); err == nil && st.IsDir() {
+		c, err := report.FromCensus(ctx, path)
+		if err != nil {
+			return err
+		}
+		doc.Censuses = append(doc.Censuses, c)
+		return nil
+	}
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return err
+	}
+	if report.IsGateJSON(data) {
+		g, err := report.FromGate(path, data)
+		if err != nil {
+			return err
+		}
+		doc.Gates = append(doc.Gates, g)
+		return nil
+	}
+	r, err := report.FromCertificate(ctx, path, data)
+	if err != nil {
+		return err
+	}
+	doc.Certificates = append(doc.Certificates, r)
+	return nil
 }
