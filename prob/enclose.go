@@ -71,7 +71,9 @@ type Certified struct {
 	Result   *prove.Result
 	// Digits is the bracket's target in significant digits of lambda.
 	Digits int
-	// Narrow reports whether the relative width met the target.
+	// Narrow reports whether the relative width met the target. It is
+	// false when the lower end is 0, which more digits do not change:
+	// lambda = 0 (the bound for every n has mu_lo = 0), or a_n = 0.
 	Narrow bool
 }
 
@@ -113,7 +115,9 @@ func Certify(ctx context.Context, set pattern.Set, N int, target float64, opts p
 			return nil, err
 		}
 		best = &Certified{Interval: x, Result: res, Digits: digits, Narrow: below(x.RelativeWidth(), target)}
-		if best.Narrow || !res.Done() {
+		if best.Narrow || !res.Done() || x.Lo.M.Sign() == 0 {
+			// a lower end 0 (lambda = 0, or a_n = 0 from some n on) is
+			// not narrowed by more digits
 			return best, nil
 		}
 		digits += 5

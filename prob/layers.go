@@ -69,7 +69,7 @@ func newLayered(set pattern.Set) *layered {
 			}
 			seq = append(seq, r+1)
 			mv := move{to: -1}
-			for start := 0; start < len(seq); start++ {
+			for start := 0; start <= len(seq); start++ { // start = len(seq): the empty suffix, always a state
 				w := pattern.Standardize(seq[start:])
 				if members[w.String()] {
 					mv.hits++

@@ -22,9 +22,15 @@ const (
 	figHeight = 9 * vg.Centimeter
 )
 
+// WidthFigure (and RatioFigure) return nil without error when there is
+// nothing to draw (lambda exact or 0, a_n = 0 from some n on).
+
 // WidthFigure is the SVG of the width of the certified enclosure of lambda
 // against n, on a logarithmic scale, with the fitted rate.
 func (r *Certificate) WidthFigure() ([]byte, error) {
+	if len(r.Widths) == 0 {
+		return nil, nil // no bracket of positive width to draw
+	}
 	p := logPlot("Width of the certified bracket of λ (recomputed)", "n (length of the iterate G_n)", "hi − lo (log scale)")
 	pts := xys(r.Widths)
 	sc, err := plotter.NewScatter(pts)
@@ -62,7 +68,7 @@ func (r *Certificate) RatioFigure() ([]byte, error) {
 	p := logPlot("Ratio a_(n+1)/((n+1)·a_n) of exact counts approaching λ", "n", "|ratio − λ| (log scale)")
 	pts := xys(r.Ratios)
 	if len(pts) == 0 {
-		return svgOf(p)
+		return nil, nil // no ratio to draw
 	}
 	l, sc, err := plotter.NewLinePoints(pts)
 	if err != nil {
@@ -101,6 +107,9 @@ func logPlot(title, x, y string) *plot.Plot {
 type powerTicks struct{}
 
 func (powerTicks) Ticks(min, max float64) []plot.Tick {
+	if !(min > 0 && max >= min) || math.IsInf(max, 0) {
+		return nil // an empty figure: nothing to mark
+	}
 	lo, hi := int(math.Floor(math.Log10(min))), int(math.Ceil(math.Log10(max)))
 	step := (hi-lo)/8 + 1
 	var ts []plot.Tick

@@ -27,7 +27,7 @@ func (r *Certificate) lines() [][2]string {
 		{"growth rate λ", fmt.Sprintf("[%s, %s]", lo, hi)},
 		{"radius 1/λ", fmt.Sprintf("[%s, %s]", rlo, rhi)},
 		{"digits the ends share", fmt.Sprint(r.Digits)},
-		{"bound for every n ≥ " + fmt.Sprint(b.N0), fmt.Sprintf("%s · %s^(n−%d) ≤ a_n/n!; %s", b.ALo, b.MuLo, b.N0, upper)},
+		{"bound for every n ≥ " + fmt.Sprint(b.N0), b.lower() + "; " + upper},
 		{"asymptotic form", r.Asymptotics()},
 		{"certificate", r.Name},
 		{"SHA-256", r.Digest()},
@@ -42,6 +42,14 @@ type Document struct {
 	Certificates []*Certificate
 	Censuses     []*Census
 	Gates        []*Gate
+}
+
+// lower is the lower half of the bound for every n, plain text.
+func (b AllN) lower() string {
+	if b.MuLo == "0" {
+		return "no exponential lower bound (the certified rate μ_lo is 0)"
+	}
+	return fmt.Sprintf("%s · %s^(n−%d) ≤ a_n/n!", b.ALo, b.MuLo, b.N0)
 }
 
 // Markdown writes the report as Markdown. Figures are in the HTML page;
@@ -110,8 +118,10 @@ td code{word-break:break-all}figure{margin:1.5em 0}figcaption{font-size:.9em;col
 		if err != nil {
 			return err
 		}
-		fmt.Fprintf(&b, "<figure>%s<figcaption>Width hi − lo of the certified enclosure of λ after each bracket of a recomputed run, against n (log scale); dashed: the fitted geometric rate %.3g per step of n, an estimate, not certified.</figcaption></figure>\n", width, r.Rate)
-		fmt.Fprintf(&b, "<figure>%s<figcaption>Distance of the ratio a_(n+1)/((n+1)·a_n) of exact counts from λ (the midpoint of the certified range) against n, log scale; dashed: half the width of the certified range, so points below it lie inside the range. Differences are exact, then rounded for drawing.</figcaption></figure>\n", ratio)
+		b.WriteString(figure(width, fmt.Sprintf("Width hi − lo of the certified enclosure of λ after each bracket of a recomputed run, against n (log scale); dashed: the fitted geometric rate %.3g per step of n, an estimate, not certified.", r.Rate),
+			"No width figure: no bracket of positive width (λ exact, 0, or a_n = 0 from some n on)."))
+		b.WriteString(figure(ratio, "Distance of the ratio a_(n+1)/((n+1)·a_n) of exact counts from λ (the midpoint of the certified range) against n, log scale; dashed: half the width of the certified range, so points below it lie inside the range. Differences are exact, then rounded for drawing.",
+			"No ratio figure: the counts give no ratio different from λ (a_n = 0 from some n on, or λ not bounded)."))
 	}
 	b.WriteString("</body></html>\n")
 	_, err := io.WriteString(w, b.String())
@@ -171,4 +181,12 @@ func (r *Certificate) texAsymptotics() string {
 func texText(s string) string {
 	rep := strings.NewReplacer(`\`, `\textbackslash{}`, "_", `\_`, "%", `\%`, "&", `\&`, "#", `\#`, "$", `\$`, "{", `\{`, "}", `\}`, "^", `\^{}`, "~", `\~{}`)
 	return rep.Replace(s)
+}
+
+// figure is an HTML figure with its caption, or the note when svg is nil.
+func figure(svg []byte, caption, none string) string {
+	if svg == nil {
+		return "<p>" + html.EscapeString(none) + "</p>\n"
+	}
+	return "<figure>" + string(svg) + "<figcaption>" + html.EscapeString(caption) + "</figcaption></figure>\n"
 }

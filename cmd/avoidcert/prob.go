@@ -132,7 +132,13 @@ func runProb(ctx context.Context, e *env, args []string) int {
 		out.Note = fmt.Sprintf("%s; from the checked certificate's bound for every n >= %d (lambda bracketed to %d digits)", why, all.N0, c.Digits)
 		narrow := c.Narrow
 		out.Narrow = &narrow
-		if !narrow {
+		switch {
+		case narrow:
+		case c.Interval.Hi.M.Sign() == 0:
+			out.Note += "; a_N = 0: the set is unavoidable from n0 on, the probability is 0"
+		case c.Interval.Lo.M.Sign() == 0:
+			out.Note += "; λ = 0 for this set (a_N/N! decays faster than any exponential), so the bound's lower end is 0 and only the upper end says something; more digits do not change that"
+		default:
 			out.Note += fmt.Sprintf("; the relative width is still above --rel-width %g: a budget stopped the bracket first", *relWidth)
 			code = exitUndecided
 		}
@@ -214,7 +220,9 @@ func writeProbText(e *env, s pattern.Set, o probOutput) {
 		fmt.Fprintf(e.stdout, "decimal:  [%s, %s]  (rounded outward)\n", o.Lo, o.Hi)
 	} else {
 		fmt.Fprintf(e.stdout, "certified: [%s, %s]  (rounded outward)\n", o.Lo, o.Hi)
-		fmt.Fprintf(e.stdout, "relative width: at most %s\n", o.RelativeWidth)
+		if o.RelativeWidth != "" {
+			fmt.Fprintf(e.stdout, "relative width: at most %s\n", o.RelativeWidth)
+		}
 	}
 	fmt.Fprintf(e.stdout, "how: %s\n", o.Note)
 	if len(o.Occurrences) > 0 {
