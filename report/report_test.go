@@ -39,7 +39,9 @@ func load(t *testing.T, names ...string) []*Certificate {
 	return rs
 }
 
-func TestGolden(t *testing.T) {
+// goldenDocument is the test certificates, census and gate output.
+func goldenDocument(t *testing.T) *Document {
+	t.Helper()
 	cen, err := FromCensus(context.Background(), "testdata/census-4")
 	if err != nil {
 		t.Fatal(err)
@@ -52,7 +54,11 @@ func TestGolden(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	doc := &Document{Certificates: load(t, "cert-1342.json", "cert-123.json"), Censuses: []*Census{cen}, Gates: []*Gate{gate}}
+	return &Document{Certificates: load(t, "cert-1342.json", "cert-123.json"), Censuses: []*Census{cen}, Gates: []*Gate{gate}}
+}
+
+func TestGolden(t *testing.T) {
+	doc := goldenDocument(t)
 	for _, tc := range []struct {
 		name   string
 		render func(io.Writer, *Document) error
@@ -132,7 +138,7 @@ func TestTeXCompiles(t *testing.T) {
 	}
 	dir := t.TempDir()
 	var b bytes.Buffer
-	if err := TeX(&b, &Document{Certificates: load(t, "cert-1342.json")}); err != nil {
+	if err := TeX(&b, goldenDocument(t)); err != nil {
 		t.Fatal(err)
 	}
 	os.WriteFile(filepath.Join(dir, "fragment.tex"), b.Bytes(), 0o644)
