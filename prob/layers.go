@@ -223,6 +223,6 @@ func nonZero(row []big.Int) bool {
 }
 
 // MaxOccurrenceWork is the largest OccurrenceWork that the command line
-// accepts: about ten seconds on one core (measured: 123 at N = 150, J = 3,
-// 2.5e8 additions in 6 s on the shared 2-core machine).
+// accepts: about ten seconds on one core (docs/benchmarks.md: 123 at
+// N = 150, J = 3, 2.5e8 additions in 4.7 s on the shared 2-core machine).
 const MaxOccurrenceWork = 5e8

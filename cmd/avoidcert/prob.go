@@ -106,7 +106,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 		out.Count = a.String()
 		out.Probability = p.RatString()
 		out.Lo, out.Hi = interval.DecimalDown(p, *digits), interval.DecimalUp(p, *digits)
-		out.Note = fmt.Sprintf("counted to N = %d (estimated memory %s), engine and checker agreeing", *n, bytesize.Format(need))
+		out.Note = fmt.Sprintf("counted to N = %d by the engine and the checker, agreeing (estimated memory %s)", *n, bytesize.Format(need))
 	} else {
 		cctx := ctx
 		if timeout > 0 {
