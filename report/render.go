@@ -9,9 +9,9 @@ import (
 )
 
 // recomputedNote says where the figures' data come from.
-const recomputedNote = "The certificate holds only its final brackets. The figures are recomputed " +
-	"by this report with the engine: a bracket run to the certificate's digits (widths after each " +
-	"bracket) and exact counts a_n; they illustrate, the certificate proves."
+const recomputedNote = "The certificate holds only its final brackets. The widths and ratios below are " +
+	"recomputed by this report with the engine: a bracket run to the certificate's digits (the width " +
+	"after each bracket) and exact counts a_n. They illustrate; the certificate proves."
 
 // statement lines shared by Markdown and HTML, plain text.
 func (r *Certificate) lines() [][2]string {
@@ -132,7 +132,7 @@ td code{word-break:break-all}figure{margin:1.5em 0}figcaption{font-size:.9em;col
 // defines the theorem environment only when the document has none.
 func TeX(w io.Writer, d *Document) error {
 	var b strings.Builder
-	b.WriteString("% avoidcert report: a fragment to \\input; needs amsmath (or plain \\ensuremath math).\n")
+	b.WriteString("% avoidcert report: a fragment to \\input into a LaTeX document; it needs no package.\n")
 	b.WriteString("\\ifdefined\\theorem\\else\\newtheorem{theorem}{Theorem}\\fi\n")
 	for _, c := range d.Censuses {
 		b.WriteString(c.tex())
