@@ -195,6 +195,7 @@ func (c *Census) LambdaFigure() ([]byte, error) {
 		names = append(names, row.Representative)
 	}
 	sort.Ints(keys)
+	legendGroups := 0
 	for _, k := range keys {
 		s := bySeries[k]
 		sc, err := plotter.NewScatter(s.pts)
@@ -213,17 +214,37 @@ func (c *Census) LambdaFigure() ([]byte, error) {
 		if k >= 0 {
 			sc.GlyphStyle.Color, eb.LineStyle.Color = colour[k], colour[k]
 			g := shared[k]
-			p.Legend.Add(fmt.Sprintf("count group %d: %s (equal a_0..a_%d)", g.ID, strings.Join(g.Classes, ", "), c.Report.Params.To), sc)
+			if legendGroups++; legendGroups <= len(groupColors) {
+				p.Legend.Add(fmt.Sprintf("count group %d: %s (equal a_0..a_%d)", g.ID, strings.Join(g.Classes, ", "), c.Report.Params.To), sc)
+			}
 		} else {
 			sc.GlyphStyle.Color = color.RGBA{R: 31, G: 90, B: 160, A: 255}
 			p.Legend.Add("class alone in its count group", sc)
 		}
 		p.Add(eb, sc)
 	}
-	p.NominalX(names...)
+	entries := min(legendGroups, len(groupColors))
+	if bySeries[-1] != nil {
+		entries++
+	}
+	if more := legendGroups - len(groupColors); more > 0 {
+		entries++
+		p.Legend.Add(fmt.Sprintf("and %d more count groups of several classes (colours repeat; see the table)", more))
+	}
+	switch {
+	case len(names) <= 12:
+		p.NominalX(names...)
+	case len(names) <= 60:
+		p.NominalX(names...)
+		p.X.Tick.Label.Rotation = math.Pi / 2
+		p.X.Tick.Label.XAlign, p.X.Tick.Label.YAlign = draw.XRight, draw.YCenter
+	default:
+		p.X.Label.Text = "rank of the class, ordered by λ (largest first; names in the table)"
+	}
 	p.X.Min, p.X.Max = -0.5, float64(len(names))-0.5
-	if pad := (yMax - yMin) * 0.3; pad > 0 {
-		p.Y.Min, p.Y.Max = yMin-pad/3, yMax+pad // room for the legend above the points
+	// room above the points for the legend, one line per entry
+	if pad := (yMax - yMin) * 0.12 * float64(entries+1); pad > 0 {
+		p.Y.Min, p.Y.Max = yMin-(yMax-yMin)*0.05, yMax+pad
 	}
 	p.Legend.Top = true
 	p.Legend.Left = false
