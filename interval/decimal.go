@@ -329,3 +329,17 @@ func ClaimRange(s string, truncated bool) (lo, hi *big.Rat, err error) {
 	}
 	return lo, hi, nil
 }
+
+// DecimalScaled prints r*10^e10 rounded outward (down, or up with up set)
+// to digits significant digits, in the format of DecimalDown, without
+// building 10^e10: for values far below any big.Rat one would want to hold
+// (a_N/N! at N = 10^9 is near 10^(-10^8)), given as a moderate r and a
+// decimal exponent.
+func DecimalScaled(r *big.Rat, e10, digits int, up bool) string {
+	if r.Sign() <= 0 {
+		return outwardDecimal(r, digits, up) // zero, or negative: no scaling needed by callers
+	}
+	e := decimalExponent(r)
+	shift := digits - 1 - e
+	return formatDecimal(scaledInteger(r, shift, up), e10-shift)
+}

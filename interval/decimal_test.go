@@ -287,3 +287,27 @@ func TestDecimalRangeRoundTrip(t *testing.T) {
 		}
 	}
 }
+
+// DecimalScaled(r, e, ...) prints what DecimalDown/Up print for r*10^e,
+// whenever the product is small enough to build.
+func TestDecimalScaled(t *testing.T) {
+	for _, c := range []struct {
+		r string
+		e int
+	}{{"22/7", -3}, {"1/3", -40}, {"123456789/1000", 25}, {"7", 0}, {"99999/100000", -7}} {
+		r, _ := new(big.Rat).SetString(c.r)
+		p := new(big.Rat).SetInt(new(big.Int).Exp(big.NewInt(10), big.NewInt(int64(abs(c.e))), nil))
+		full := new(big.Rat).Mul(r, p)
+		if c.e < 0 {
+			full.Quo(r, p)
+		}
+		for _, d := range []int{1, 4, 12} {
+			if got, want := DecimalScaled(r, c.e, d, false), DecimalDown(full, d); got != want {
+				t.Errorf("DecimalScaled(%s, %d, %d, down) = %s, want %s", c.r, c.e, d, got, want)
+			}
+			if got, want := DecimalScaled(r, c.e, d, true), DecimalUp(full, d); got != want {
+				t.Errorf("DecimalScaled(%s, %d, %d, up) = %s, want %s", c.r, c.e, d, got, want)
+			}
+		}
+	}
+}

@@ -1,0 +1,239 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"math/big"
+	"strconv"
+	"text/tabwriter"
+	"time"
+
+	"avoidcert/internal/bytesize"
+	"avoidcert/interval"
+	"avoidcert/pattern"
+	"avoidcert/prob"
+	"avoidcert/prove"
+)
+
+func init() {
+	commands["prob"] = command{
+		summary: "probability that N i.i.d. draws avoid the set, exact or certified",
+		usage: `Usage: avoidcert prob --n N [--json] [--occurrences J] PATTERN...
+
+Prints a_N/N!: the probability that N independent draws from one continuous
+distribution avoid every pattern consecutively (for 12...k: that no
+increasing run reaches length k).
+
+Within the counting range (N <= 500 and the count's estimated memory within
+--max-memory, checked before any work) the answer is exact: a fraction, and
+its decimal rounded outward. Beyond it, up to N = 10^9, it is a certified
+interval read from the explicit bound for every n >= n0 of a certificate the
+checker accepted, A mu_lo^(N-n0) <= a_N/N! <= A mu_hi^(N-n0); the bracket
+is tightened (more digits of lambda) until the interval's relative width is
+below --rel-width, and the output says when a budget stopped it first.
+
+With --occurrences J it also prints the exact P(count = j), j = 0..J, of
+the number of windows that match a member of the set, from a layered
+iteration (one layer per count); N must be within its own range (the
+estimated work is checked before it starts).
+
+These are properties of the i.i.d. model (README, "What the probabilities
+mean").
+
+Flags:
+  --n N             the number of draws, 0..1000000000 (required)
+  --json            one JSON object instead of text
+  --occurrences J   also the distribution of the number of matches, j <= J
+  --rel-width W     target relative width of a certified interval (default 1e-6)
+  --max-memory B    largest estimated memory of an exact count (default 1G);
+                    over it the certified interval answers
+  --timeout T       stop tightening the bracket after this long (e.g. 90s)
+  --digits D        significant digits of printed decimals (default 15)
+
+Exit codes: 0 success, 2 bad input, 3 the relative width is still above
+--rel-width (the interval printed is proved all the same) or --occurrences
+over its budget, 4 interrupted (Ctrl-C).
+`,
+		run: runProb,
+	}
+}
+
+func runProb(ctx context.Context, e *env, args []string) int {
+	fs := newFlags("prob")
+	n := fs.Int("n", -1, "")
+	asJSON := fs.Bool("json", false, "")
+	occ := fs.Int("occurrences", -1, "")
+	relWidth := fs.Float64("rel-width", 1e-6, "")
+	maxMem := byteSize(prob.ExactMemory)
+	fs.Var(&maxMem, "max-memory", "")
+	var timeout duration
+	fs.Var(&timeout, "timeout", "")
+	digits := fs.Int("digits", 15, "")
+	pos, err := parseArgs(fs, args)
+	if err != nil {
+		return failure(e, err)
+	}
+	set, err := parsePatterns("prob", pos)
+	if err != nil {
+		return failure(e, err)
+	}
+	switch {
+	case *n < 0:
+		return failure(e, usagef("prob: give the number of draws with --n N (0 to %d)", prob.MaxN))
+	case *n > prob.MaxN:
+		return failure(e, usagef("prob: --n %d is past %d", *n, prob.MaxN))
+	case !(*relWidth > 0 && *relWidth < 1):
+		return failure(e, usagef("prob: --rel-width must lie strictly between 0 and 1"))
+	case *digits < 1 || *digits > 100:
+		return failure(e, usagef("prob: --digits must be 1 to 100"))
+	case timeout < 0:
+		return failure(e, usagef("prob: --timeout must not be negative"))
+	}
+	out := probOutput{Patterns: set.Strings(), N: *n}
+	code := exitOK
+	exact, need := prob.InExactRange(set, *n, int64(maxMem))
+	if *occ >= 0 {
+		if c := occurrencesInto(ctx, e, &out, set, *n, *occ, maxMem); c != exitOK {
+			return c
+		}
+	}
+	if exact {
+		a, p, err := prob.Exact(ctx, set, *n, int64(maxMem))
+		if err != nil {
+			return failure(e, err)
+		}
+		out.Method = "exact"
+		out.Count = a.String()
+		out.Probability = p.RatString()
+		out.Lo, out.Hi = interval.DecimalDown(p, *digits), interval.DecimalUp(p, *digits)
+		out.Note = fmt.Sprintf("counted to N = %d by the engine and the checker, agreeing (estimated memory %s)", *n, bytesize.Format(need))
+	} else {
+		cctx := ctx
+		if timeout > 0 {
+			var cancel context.CancelFunc
+			cctx, cancel = context.WithTimeout(ctx, time.Duration(timeout))
+			defer cancel()
+		}
+		c, err := prob.Certify(cctx, set, *n, *relWidth, prove.Options{})
+		if err != nil {
+			return failure(e, err)
+		}
+		all := c.Result.Certificate.Statement.AllN
+		out.Method = "certified"
+		out.Lo, out.Hi = c.Interval.Lo.Decimal(*digits, false), c.Interval.Hi.Decimal(*digits, true)
+		if w := c.Interval.RelativeWidth(); w != nil {
+			out.RelativeWidth = interval.DecimalUp(w, 3)
+		}
+		out.AllN = &probAllN{N0: all.N0, LambdaDigits: c.Digits}
+		why := "N is past 500"
+		if *n <= prob.MaxExactN {
+			why = fmt.Sprintf("an exact count would need about %s, over --max-memory %s", bytesize.Format(need), bytesize.Format(int64(maxMem)))
+		}
+		out.Note = fmt.Sprintf("%s; from the checked certificate's bound for every n >= %d (lambda bracketed to %d digits)", why, all.N0, c.Digits)
+		narrow := c.Narrow
+		out.Narrow = &narrow
+		switch {
+		case narrow:
+		case c.Interval.Hi.M.Sign() == 0:
+			out.Note += "; a_N = 0: the set is unavoidable from n0 on, the probability is 0"
+		case c.Interval.Lo.M.Sign() == 0:
+			out.Note += "; λ = 0 for this set (a_N/N! decays faster than any exponential), so the bound's lower end is 0 and only the upper end says something; more digits do not change that"
+		default:
+			out.Note += fmt.Sprintf("; the relative width is still above --rel-width %g: a budget stopped the bracket first", *relWidth)
+			code = exitUndecided
+		}
+	}
+	if *asJSON {
+		writeJSON(e.stdout, out)
+	} else {
+		writeProbText(e, set, out)
+	}
+	return code
+}
+
+// occurrencesInto fills out.Occurrences, or reports why it cannot.
+func occurrencesInto(ctx context.Context, e *env, out *probOutput, set pattern.Set, N, J int, maxMem byteSize) int {
+	if N > prob.MaxExactN {
+		return failure(e, usagef("prob: --occurrences needs N <= %d (the counting range), not %d", prob.MaxExactN, N))
+	}
+	J = min(J, N)
+	if w := prob.OccurrenceWork(set, N, J); w > prob.MaxOccurrenceWork {
+		fmt.Fprintf(e.stderr, "avoidcert: prob: undecided: --occurrences %d at N = %d needs about %.2g additions, over the limit of %.2g (about ten seconds); lower --n or --occurrences\n", J, N, w, float64(prob.MaxOccurrenceWork))
+		return exitUndecided
+	}
+	if m := prob.OccurrenceMemory(set, N, J); m > float64(maxMem) {
+		fmt.Fprintf(e.stderr, "avoidcert: prob: undecided: --occurrences needs about %s, over --max-memory %s\n", bytesize.Format(int64(m)), bytesize.Format(int64(maxMem)))
+		return exitUndecided
+	}
+	counts, err := prob.Occurrences(ctx, set, N, J)
+	if err != nil {
+		return failure(e, err)
+	}
+	fact := new(big.Int).MulRange(1, int64(N))
+	rest := new(big.Rat).SetInt64(1)
+	for j, c := range counts {
+		p := new(big.Rat).SetFrac(c, fact)
+		rest.Sub(rest, p)
+		out.Occurrences = append(out.Occurrences, probOccurrence{J: j, Count: c.String(), Probability: p.RatString(), Decimal: roundedDecimal(p)})
+	}
+	out.MoreThanJ = rest.RatString()
+	return exitOK
+}
+
+// roundedDecimal is a display value, rounded to nearest.
+func roundedDecimal(p *big.Rat) string {
+	return new(big.Float).SetPrec(96).SetRat(p).Text('g', 10)
+}
+
+type probAllN struct {
+	N0           int `json:"n0"`
+	LambdaDigits int `json:"lambda_digits"`
+}
+
+type probOccurrence struct {
+	J           int    `json:"j"`
+	Count       string `json:"count"`
+	Probability string `json:"probability"`
+	Decimal     string `json:"decimal"`
+}
+
+type probOutput struct {
+	Patterns      []string         `json:"patterns"`
+	N             int              `json:"n"`
+	Method        string           `json:"method"`
+	Count         string           `json:"count,omitempty"`
+	Probability   string           `json:"probability,omitempty"`
+	Lo            string           `json:"lo"`
+	Hi            string           `json:"hi"`
+	RelativeWidth string           `json:"relative_width,omitempty"`
+	Narrow        *bool            `json:"narrow,omitempty"`
+	AllN          *probAllN        `json:"all_n,omitempty"`
+	Note          string           `json:"note"`
+	Occurrences   []probOccurrence `json:"occurrences,omitempty"`
+	MoreThanJ     string           `json:"more_than_j,omitempty"`
+}
+
+func writeProbText(e *env, s pattern.Set, o probOutput) {
+	fmt.Fprintf(e.stdout, "probability that %d i.i.d. continuous draws avoid %s (consecutive patterns)\n", o.N, s)
+	if o.Method == "exact" {
+		fmt.Fprintf(e.stdout, "exact:    a_N/N! = %s/%d!  = %s\n", o.Count, o.N, o.Probability)
+		fmt.Fprintf(e.stdout, "decimal:  [%s, %s]  (rounded outward)\n", o.Lo, o.Hi)
+	} else {
+		fmt.Fprintf(e.stdout, "certified: [%s, %s]  (rounded outward)\n", o.Lo, o.Hi)
+		if o.RelativeWidth != "" {
+			fmt.Fprintf(e.stdout, "relative width: at most %s\n", o.RelativeWidth)
+		}
+	}
+	fmt.Fprintf(e.stdout, "how: %s\n", o.Note)
+	if len(o.Occurrences) > 0 {
+		fmt.Fprintln(e.stdout, "\nnumber of matching windows (exact; decimals rounded to nearest for display)")
+		tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
+		fmt.Fprintln(tw, "j\tpermutations\tP(count = j)\t")
+		for _, r := range o.Occurrences {
+			fmt.Fprintf(tw, "%s\t%s\t%s\t\n", strconv.Itoa(r.J), r.Count, r.Decimal)
+		}
+		more, _ := new(big.Rat).SetString(o.MoreThanJ)
+		fmt.Fprintf(tw, "> %d\t\t%s\t\n", len(o.Occurrences)-1, roundedDecimal(more))
+		tw.Flush()
+	}
+}

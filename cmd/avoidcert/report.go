@@ -1,0 +1,124 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"io"
+	"os"
+
+	"avoidcert/report"
+)
+
+func init() {
+	commands["report"] = command{
+		summary: "a page for readers from certificates: Markdown, HTML or LaTeX",
+		usage: `Usage: avoidcert report [--format md|html|tex] [--out FILE] INPUT...
+
+Each INPUT is a certificate (format version 3), the output of
+'avoidcert gate --json' (one JSON object per line), or a census folder
+(census.json and its certificates). For a census: the classes by lambda with
+their certified ranges, count groups and order, every certificate's SHA-256
+compared and the certificate re-checked, and a figure of lambda by class with
+the ranges as bars and the count groups marked. For a gate: its verdicts as
+recorded, with their evidence and certificates. For a certificate: the pattern
+set, the certified range of lambda and 1/lambda, the explicit bound for every
+n >= n0, the asymptotic form, the certificate's SHA-256 and the command that
+re-checks it. Each certificate is re-verified by the independent checker
+first; one it refuses stops the report (exit 1).
+
+  md    Markdown, with the figures' data as tables
+  html  a standalone page (inline SVG figures, nothing fetched from the
+        network): the width of the certified bracket against n (log scale)
+        with the observed rate, and a_(n+1)/((n+1) a_n) against n with the
+        certified lambda
+  tex   a LaTeX fragment to \input: one theorem per certificate
+
+The figures are recomputed with the engine (a certificate keeps only its
+final brackets) and the page says so.
+
+Flags:
+  --format F   md (default), html or tex
+  --out FILE   write there (atomically; a folder, device or FIFO is
+               refused) instead of standard output
+
+Exit codes: 0 success, 1 a certificate the checker refuses, 2 bad input (a
+file that cannot be read or is no certificate), 4 interrupted.
+`,
+		run: runReport,
+	}
+}
+
+func runReport(ctx context.Context, e *env, args []string) int {
+	fs := newFlags("report")
+	format := fs.String("format", "md", "")
+	outPath := fs.String("out", "-", "")
+	files, err := parseArgs(fs, args)
+	if err != nil {
+		return failure(e, err)
+	}
+	render := map[string]func(io.Writer, *report.Document) error{"md": report.Markdown, "html": report.HTML, "tex": report.TeX}[*format]
+	switch {
+	case render == nil:
+		return failure(e, usagef("report: --format %s is not one of md, html, tex", quote(*format)))
+	case len(files) == 0:
+		return failure(e, usagef("report: give at least one certificate file"))
+	}
+	out, err := openOut("report", "--out", *outPath, false)
+	if err != nil {
+		return failure(e, err)
+	}
+	var doc report.Document
+	for _, f := range files {
+		err := addInput(ctx, &doc, f)
+		switch {
+		case err == nil:
+		case ctx.Err() != nil:
+			return interrupted(e)
+		case report.IsRefused(err):
+			fmt.Fprintf(e.stderr, "avoidcert: report: %v\n", err)
+			return exitFailed
+		default:
+			return failure(e, usagef("report: %v", err))
+		}
+	}
+	var b bytes.Buffer
+	if err := render(&b, &doc); err != nil {
+		return failure(e, err)
+	}
+	if err := out.write(e.stdout, b.Bytes()); err != nil {
+		return failure(e, err)
+	}
+	return exitOK
+}
+
+// addInput reads one input: a census folder, a gate's JSON lines or a
+// certificate.
+func addInput(ctx context.Context, doc *report.Document, path string) error {
+	if st, err := os.Stat(path); err == nil && st.IsDir() {
+		c, err := report.FromCensus(ctx, path)
+		if err != nil {
+			return err
+		}
+		doc.Censuses = append(doc.Censuses, c)
+		return nil
+	}
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return err
+	}
+	if report.IsGateJSON(data) {
+		g, err := report.FromGate(path, data)
+		if err != nil {
+			return err
+		}
+		doc.Gates = append(doc.Gates, g)
+		return nil
+	}
+	r, err := report.FromCertificate(ctx, path, data)
+	if err != nil {
+		return err
+	}
+	doc.Certificates = append(doc.Certificates, r)
+	return nil
+}

@@ -1,0 +1,63 @@
+package prob
+
+import (
+	"context"
+	"fmt"
+	"math/big"
+
+	"avoidcert/internal/bytesize"
+	"avoidcert/pattern"
+	"avoidcert/prove"
+	"avoidcert/transfer"
+)
+
+// MaxExactN is the largest N that Exact counts to: a_N for N <= 500 takes
+// seconds for patterns of length 3 and grows with the longest prefix state
+// (docs/benchmarks.md); the memory limit of Exact decides below it.
+const MaxExactN = 500
+
+// ExactMemory is the default memory limit of the exact range: a count
+// estimated (InExactRange) to need more is answered with a certified
+// interval instead. 123 reaches N = 500 within it (15 s, 461 MB measured).
+const ExactMemory = 1 << 30
+
+// bothCounts scales the engine's computed footprint to an estimate for
+// the engine and the checker counting side by side (prove.Counts): the
+// peak resident memory measured once was 3.8 times the engine's footprint
+// for 123 at N = 500 (461 MB) and 4.2 times for 1342 at N = 200 (2.66 GB);
+// an estimate, not a bound.
+const bothCounts = 4.5
+
+// InExactRange reports whether a_N is counted exactly within memory bytes
+// (N <= MaxExactN and the estimated memory fits), and the estimate.
+func InExactRange(set pattern.Set, N int, memory int64) (bool, int64) {
+	if N < 0 || N > MaxExactN {
+		return false, 0
+	}
+	need := int64(float64(transfer.CountsFootprint(set, N)) * bothCounts)
+	return need <= memory, need
+}
+
+// Exact returns a_N and a_N/N! for set, counted by the engine and the
+// checker side by side (prove.Counts). It refuses N outside the exact range
+// for memory bytes before any work.
+func Exact(ctx context.Context, set pattern.Set, N int, memory int64) (*big.Int, *big.Rat, error) {
+	ok, need := InExactRange(set, N, memory)
+	if !ok {
+		if N < 0 || N > MaxExactN {
+			return nil, nil, fmt.Errorf("prob: N = %d is outside the exact range 0..%d", N, MaxExactN)
+		}
+		return nil, nil, fmt.Errorf("%w: counting %s to N = %d needs about %s, over %s",
+			prove.ErrBudget, set, N, bytesize.Format(need), bytesize.Format(memory))
+	}
+	counts, err := prove.Counts(ctx, set, N, prove.Options{MaxMemory: memory})
+	if err != nil {
+		return nil, nil, err
+	}
+	a := counts[N]
+	return a, new(big.Rat).SetFrac(a, factorial(N)), nil
+}
+
+func factorial(n int) *big.Int {
+	return new(big.Int).MulRange(1, int64(n))
+}

@@ -1,0 +1,242 @@
+package report
+
+import (
+	"bytes"
+	"context"
+	"crypto/sha256"
+	"fmt"
+	"math"
+	"math/big"
+	"strings"
+
+	"avoidcert/certify"
+	"avoidcert/interval"
+	"avoidcert/pattern"
+	"avoidcert/prove"
+	"avoidcert/transfer"
+)
+
+// Point is one point of a figure.
+type Point struct {
+	N     int
+	Value float64
+}
+
+// Certificate is what a report states about one checked certificate.
+type Certificate struct {
+	Name   string // the file name as given, used in the re-check command
+	SHA256 [32]byte
+	Cert   *certify.Certificate
+	Form   prove.Form
+	// Widths are the widths of the certified enclosure of lambda after
+	// each bracket of a recomputed run to the certificate's digits.
+	Widths []Point
+	// Rate is the observed factor per unit of n by which the width shrinks
+	// (a least-squares fit of log width against n): an estimate.
+	Rate float64
+	// Ratios are |a_(n+1)/((n+1) a_n) - lambda| from exact counts, lambda
+	// the midpoint of the certified range (computed exactly, then rounded
+	// to float64 for the figure; zero differences are left out). The
+	// ratios tend to lambda for primitive sets.
+	Ratios []Point
+	// HalfWidth is half the width of the certified range of lambda.
+	HalfWidth float64
+	// Digits is the number of leading digits the certified ends share.
+	Digits int
+}
+
+// ratioN is the last n of the ratio figure, and ratioMemory the memory the
+// counts may take; the figure stops earlier for large systems.
+const (
+	ratioN      = 60
+	ratioMemory = 256 << 20
+)
+
+// FromCertificate reads a certificate, has the checker verify it and
+// recomputes the figures' data.
+func FromCertificate(ctx context.Context, name string, data []byte) (*Certificate, error) {
+	c, err := checked(ctx, name, data)
+	if err != nil {
+		return nil, err
+	}
+	set, err := pattern.ParseSet(c.Statement.Given)
+	if err != nil {
+		return nil, err
+	}
+	r := &Certificate{Name: name, SHA256: sha256.Sum256(data), Cert: c, Form: prove.FormOf(c)}
+	if err := r.recompute(ctx, set); err != nil {
+		return nil, fmt.Errorf("%s: recomputing the figures: %v", name, err)
+	}
+	return r, nil
+}
+
+// checked reads a certificate and has the checker accept it for its own
+// pattern set.
+func checked(ctx context.Context, name string, data []byte) (*certify.Certificate, error) {
+	c, err := certify.Read(bytes.NewReader(data))
+	if err != nil {
+		return nil, fmt.Errorf("%s: %v", name, err)
+	}
+	set, err := pattern.ParseSet(c.Statement.Given)
+	if err != nil {
+		return nil, fmt.Errorf("%s: patterns: %v", name, err)
+	}
+	if err := prove.Recheck(ctx, c, set, prove.Options{}); err != nil {
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
+		return nil, refused{fmt.Errorf("%s: the checker refuses the certificate: %v", name, err)}
+	}
+	return c, nil
+}
+
+func (r *Certificate) recompute(ctx context.Context, set pattern.Set) error {
+	var widths []Point
+	progress := func(e prove.Event) {
+		if e.Bracket == nil || !e.Lambda.Finite() {
+			return
+		}
+		if w, _ := e.Lambda.Width().Float64(); w > 0 {
+			widths = append(widths, Point{N: e.N, Value: w})
+		}
+	}
+	digits := max(r.Cert.Statement.Lambda.Digits-3, 1)
+	if _, err := prove.Certify(ctx, set, prove.Options{Digits: digits, Progress: progress}); err != nil {
+		return err
+	}
+	r.Widths, r.Rate = widths, fitRate(widths)
+	M := ratioN
+	for M > 10 && transfer.CountsFootprint(set, M) > ratioMemory {
+		M -= 10
+	}
+	counts, err := transfer.Counts(ctx, set, M, nil)
+	if err != nil {
+		return err
+	}
+	lam := r.Cert.Statement.Lambda
+	if lam.Lo == nil || lam.Hi == nil {
+		return nil
+	}
+	mid := new(big.Rat).Add(lam.Lo, lam.Hi)
+	mid.Quo(mid, big.NewRat(2, 1))
+	r.HalfWidth, _ = new(big.Rat).Sub(lam.Hi, mid).Float64()
+	r.Digits = interval.CommonDigits(lam.Lo, lam.Hi)
+	for n := 1; n < M; n++ {
+		if counts[n].Sign() == 0 {
+			break
+		}
+		q := new(big.Rat).SetFrac(counts[n+1], new(big.Int).Mul(counts[n], big.NewInt(int64(n+1))))
+		f, _ := q.Sub(q, mid).Abs(q).Float64()
+		if f > 0 {
+			r.Ratios = append(r.Ratios, Point{N: n, Value: f})
+		}
+	}
+	return nil
+}
+
+// fitRate fits log(width) = a + n log(rate) by least squares over the
+// second half of the points (the first brackets are far from the limit).
+func fitRate(ps []Point) float64 {
+	ps = ps[len(ps)/2:]
+	if len(ps) < 2 {
+		return math.NaN()
+	}
+	var sx, sy, sxx, sxy float64
+	for _, p := range ps {
+		x, y := float64(p.N), math.Log(p.Value)
+		sx, sy, sxx, sxy = sx+x, sy+y, sxx+x*x, sxy+x*y
+	}
+	k := float64(len(ps))
+	den := k*sxx - sx*sx
+	if den == 0 {
+		return math.NaN()
+	}
+	return math.Exp((k*sxy - sx*sy) / den)
+}
+
+// Patterns is the irredundant set as the certificate states it.
+func (r *Certificate) Patterns() []string { return r.Cert.Statement.Patterns }
+
+// Lambda returns the certified range of lambda, printed outward.
+func (r *Certificate) Lambda() (lo, hi string) { return rangeOf(r.Cert.Statement.Lambda) }
+
+// Radius returns the certified range of 1/lambda ("inf" for no upper end).
+func (r *Certificate) Radius() (lo, hi string) { return rangeOf(r.Cert.Statement.Radius) }
+
+func rangeOf(x certify.Range) (lo, hi string) {
+	lo, hi = "0", "inf"
+	if x.Lo != nil {
+		lo = interval.DecimalDown(x.Lo, x.Digits)
+	}
+	if x.Hi != nil {
+		hi = interval.DecimalUp(x.Hi, x.Digits)
+	}
+	return lo, hi
+}
+
+// AllN is the certificate's bound for every n >= N0, with A = a_N0/N0!
+// and the rates printed outward: ALo*MuLo^(n-N0) <= a_n/n! <= AHi*MuHi^(n-N0).
+type AllN struct {
+	N0                   int
+	ALo, AHi, MuLo, MuHi string // MuHi "" when there is no upper bound
+}
+
+// Bound returns the bound for every n at the certificate's digits.
+func (r *Certificate) Bound() AllN {
+	a := r.Cert.Statement.AllN
+	d := r.Cert.Statement.Lambda.Digits
+	A := new(big.Rat).SetFrac(a.AN0, new(big.Int).MulRange(1, int64(a.N0)))
+	out := AllN{N0: a.N0, ALo: interval.DecimalDown(A, d), AHi: interval.DecimalUp(A, d), MuLo: interval.DecimalDown(a.MuLo, d)}
+	if a.MuHi != nil {
+		out.MuHi = interval.DecimalUp(a.MuHi, d)
+	}
+	return out
+}
+
+// Digest is the SHA-256 of the certificate's bytes, in hex.
+func (r *Certificate) Digest() string { return fmt.Sprintf("%x", r.SHA256) }
+
+// Recheck is the command that re-verifies the certificate.
+func (r *Certificate) Recheck() string {
+	cmd := "avoidcert check " + shellQuote(r.Name)
+	for _, p := range r.Cert.Statement.Given {
+		cmd += " --expect " + p
+	}
+	return cmd
+}
+
+func shellQuote(s string) string {
+	for _, c := range s {
+		if !(c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9' || c == '.' || c == '/' || c == '-' || c == '_') {
+			return "'" + strings.ReplaceAll(s, "'", `'\''`) + "'"
+		}
+	}
+	return s
+}
+
+// Asymptotics states the asymptotic form the certificate's structure
+// section proves, in words with plain-text formulas.
+func (r *Certificate) Asymptotics() string {
+	switch r.Form.Class {
+	case certify.ClassPrimitive:
+		return "primitive: a_n/n! = c·λ^n·(1 + O(θ^n)) with c > 0 and θ < 1"
+	case certify.ClassPeriodic:
+		return fmt.Sprintf("periodic with period %d: a_n/n! = λ^n·(c_(n mod %d) + o(1)), constants c_r ≥ 0; one constant for every n is not proved", r.Form.Period, r.Form.Period)
+	case certify.ClassReducible:
+		return "reducible: λ is the largest growth rate of the strongly connected blocks; no form a_n/n! ~ c·λ^n is proved"
+	case certify.ClassFinite:
+		return "finite: a_n = 0 for every large n"
+	case certify.ClassSubexponential:
+		return "subexponential: λ = 0, and a_n > 0 for every n"
+	}
+	return "undecided: the certificate has no structure section"
+}
+
+// refused marks a certificate the checker did not accept.
+type refused struct{ error }
+
+// IsRefused reports whether err says the checker refused a certificate.
+func IsRefused(err error) bool {
+	_, ok := err.(refused)
+	return ok
+}

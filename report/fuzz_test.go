@@ -1,0 +1,29 @@
+package report
+
+import (
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// FuzzFromGate: the gate-output parser never panics, and what it accepts
+// has an id and a verdict on every claim.
+func FuzzFromGate(f *testing.F) {
+	if data, err := os.ReadFile(filepath.Join("testdata", "gate.jsonl")); err == nil {
+		f.Add(data)
+	}
+	f.Add([]byte(`{"id":"a","kind":"count","verdict":"proved"}`))
+	f.Add([]byte("{}\n{"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		IsGateJSON(data)
+		g, err := FromGate("fuzz", data)
+		if err != nil {
+			return
+		}
+		for _, c := range g.Claims {
+			if c.ID == "" || c.Verdict == "" {
+				t.Fatalf("accepted a claim without id or verdict: %+v", c)
+			}
+		}
+	})
+}

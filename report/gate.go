@@ -1,0 +1,93 @@
+package report
+
+import (
+	"bufio"
+	"bytes"
+	"encoding/json"
+	"fmt"
+)
+
+// GateClaim is one line of 'avoidcert gate --json'.
+type GateClaim struct {
+	ID           string  `json:"id"`
+	Kind         string  `json:"kind"`
+	Line         int     `json:"line"`
+	Verdict      string  `json:"verdict"`
+	Evidence     string  `json:"evidence"`
+	Cached       bool    `json:"cached"`
+	Seconds      float64 `json:"seconds"`
+	Certificates []struct {
+		Set    string `json:"set"`
+		Path   string `json:"path"`
+		SHA256 string `json:"sha256"`
+	} `json:"certificates"`
+}
+
+// Gate is a gate's JSON output: its verdicts as the gate recorded them.
+type Gate struct {
+	Name   string
+	Claims []GateClaim
+}
+
+// IsGateJSON reports whether data starts with a gate's JSON line (an
+// object with "verdict" and "kind"), as opposed to a certificate.
+func IsGateJSON(data []byte) bool {
+	line, _, _ := bytes.Cut(bytes.TrimSpace(data), []byte("\n"))
+	var probe map[string]json.RawMessage
+	if json.Unmarshal(line, &probe) != nil {
+		return false
+	}
+	_, v := probe["verdict"]
+	_, k := probe["kind"]
+	return v && k
+}
+
+// FromGate reads the JSON lines of 'avoidcert gate --json', strictly.
+func FromGate(name string, data []byte) (*Gate, error) {
+	g := &Gate{Name: name}
+	sc := bufio.NewScanner(bytes.NewReader(data))
+	sc.Buffer(nil, 1<<24)
+	for n := 1; sc.Scan(); n++ {
+		line := bytes.TrimSpace(sc.Bytes())
+		if len(line) == 0 {
+			continue
+		}
+		var c GateClaim
+		dec := json.NewDecoder(bytes.NewReader(line))
+		dec.DisallowUnknownFields()
+		if err := dec.Decode(&c); err != nil {
+			return nil, fmt.Errorf("%s:%d: not a line of 'avoidcert gate --json': %v", name, n, err)
+		}
+		if c.ID == "" || c.Verdict == "" {
+			return nil, fmt.Errorf("%s:%d: a claim without id or verdict", name, n)
+		}
+		g.Claims = append(g.Claims, c)
+	}
+	if err := sc.Err(); err != nil {
+		return nil, fmt.Errorf("%s: %v", name, err)
+	}
+	if len(g.Claims) == 0 {
+		return nil, fmt.Errorf("%s: no claims", name)
+	}
+	return g, nil
+}
+
+// tally counts the claims by verdict.
+func (g *Gate) tally() string {
+	counts := map[string]int{}
+	var order []string
+	for _, c := range g.Claims {
+		if counts[c.Verdict] == 0 {
+			order = append(order, c.Verdict)
+		}
+		counts[c.Verdict]++
+	}
+	s := ""
+	for i, v := range order {
+		if i > 0 {
+			s += ", "
+		}
+		s += fmt.Sprintf("%d %s", counts[v], v)
+	}
+	return s
+}

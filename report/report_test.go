@@ -1,0 +1,195 @@
+package report
+
+import (
+	"bytes"
+	"context"
+	"flag"
+	"io"
+	"math/big"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"avoidcert/interval"
+
+	"github.com/google/go-cmp/cmp"
+)
+
+var update = flag.Bool("update", false, "rewrite the golden files")
+
+// load builds the reports of the test certificates (made with
+// "avoidcert bound 1342 --digits 12" and "... 123 --digits 12"), named as a
+// user in testdata/ would name them.
+func load(t *testing.T, names ...string) []*Certificate {
+	t.Helper()
+	var rs []*Certificate
+	for _, n := range names {
+		data, err := os.ReadFile(filepath.Join("testdata", n))
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := FromCertificate(context.Background(), n, data)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rs = append(rs, r)
+	}
+	return rs
+}
+
+// goldenDocument is the test certificates, census and gate output.
+func goldenDocument(t *testing.T) *Document {
+	t.Helper()
+	cen, err := FromCensus(context.Background(), "testdata/census-4")
+	if err != nil {
+		t.Fatal(err)
+	}
+	gateData, err := os.ReadFile(filepath.Join("testdata", "gate.jsonl"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	gate, err := FromGate("gate.jsonl", gateData)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return &Document{Certificates: load(t, "cert-1342.json", "cert-123.json"), Censuses: []*Census{cen}, Gates: []*Gate{gate}}
+}
+
+func TestGolden(t *testing.T) {
+	doc := goldenDocument(t)
+	for _, tc := range []struct {
+		name   string
+		render func(io.Writer, *Document) error
+	}{{"report.md", Markdown}, {"report.html", HTML}, {"report.tex", TeX}} {
+		var b bytes.Buffer
+		if err := tc.render(&b, doc); err != nil {
+			t.Fatal(err)
+		}
+		path := filepath.Join("testdata", tc.name+".golden")
+		if *update {
+			if err := os.WriteFile(path, b.Bytes(), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			continue
+		}
+		want, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if d := cmp.Diff(string(want), b.String()); d != "" {
+			t.Errorf("%s differs from its golden file (go test ./report -update to accept):\n%s", tc.name, d)
+		}
+	}
+}
+
+// The statement is read from the certificate: the printed range of lambda
+// for 1342 meets the published digits (interval.PublishedGrowth, which names
+// its OEIS entry), the bound holds from the certificate's n0, and the
+// re-check names the file.
+func TestStatement(t *testing.T) {
+	r := load(t, "cert-1342.json")[0]
+	pub, ok := interval.PublishedGrowth("1342")
+	if !ok {
+		t.Fatal("no published growth rate for 1342")
+	}
+	lo, hi := r.Lambda()
+	plo, _ := new(big.Rat).SetString(lo)
+	phi, _ := new(big.Rat).SetString(hi)
+	want := pub.LambdaRange()
+	if plo == nil || phi == nil || phi.Cmp(want.Lo) < 0 || plo.Cmp(want.Hi) > 0 {
+		t.Errorf("lambda [%s, %s] misses the published range (%s) [%s, %s]", lo, hi, pub.Source(), want.Lo.FloatString(12), want.Hi.FloatString(12))
+	}
+	if got := r.Recheck(); got != "avoidcert check cert-1342.json --expect 1342" {
+		t.Errorf("re-check %q", got)
+	}
+	if r.Bound().N0 != r.Cert.Statement.AllN.N0 || r.Digits < 12 {
+		t.Errorf("bound from n0 %d, digits %d", r.Bound().N0, r.Digits)
+	}
+	if len(r.Widths) < 3 || !(r.Rate > 0 && r.Rate < 1) {
+		t.Errorf("widths %v, rate %g", r.Widths, r.Rate)
+	}
+}
+
+// A certificate whose numbers were altered gives no report: the format's
+// content digest catches the edit when the file is read.
+func TestRefusesAlteredCertificate(t *testing.T) {
+	data, err := os.ReadFile(filepath.Join("testdata", "cert-1342.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	bad := bytes.Replace(data, []byte(`"n0": `), []byte(`"n0": 1`), 1)
+	if bytes.Equal(bad, data) {
+		t.Fatal("test certificate has no n0 field to alter")
+	}
+	_, err = FromCertificate(context.Background(), "bad.json", bad)
+	if err == nil || !strings.Contains(err.Error(), "bad.json") {
+		t.Fatalf("an altered certificate: error %v, want one naming the file", err)
+	}
+}
+
+// The LaTeX fragment compiles inside a minimal document (no packages) when
+// a TeX engine is installed.
+func TestTeXCompiles(t *testing.T) {
+	engine := findTool("pdflatex", "lualatex", "xelatex")
+	if engine == "" {
+		t.Skip("no TeX engine (pdflatex, lualatex, xelatex) on PATH: the LaTeX fragment is not compiled")
+	}
+	dir := t.TempDir()
+	var b bytes.Buffer
+	if err := TeX(&b, goldenDocument(t)); err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(filepath.Join(dir, "fragment.tex"), b.Bytes(), 0o644)
+	doc := "\\documentclass{article}\n\\begin{document}\n\\input{fragment}\n\\end{document}\n" // no package: the fragment says it needs none
+	os.WriteFile(filepath.Join(dir, "doc.tex"), []byte(doc), 0o644)
+	cmd := exec.Command(engine, "-interaction=nonstopmode", "-halt-on-error", "doc.tex")
+	cmd.Dir = dir
+	if out, err := cmd.CombinedOutput(); err != nil {
+		t.Fatalf("%s: %v\n%s", engine, err, out)
+	}
+}
+
+// findTool returns the first of names found on PATH, or "".
+func findTool(names ...string) string {
+	for _, n := range names {
+		if _, err := exec.LookPath(n); err == nil {
+			return n
+		}
+	}
+	return ""
+}
+
+// A census whose certificate does not match the SHA-256 in census.json is
+// refused, and so is a gate line with an unknown field.
+func TestCensusAndGateInputs(t *testing.T) {
+	dir := t.TempDir()
+	if err := os.CopyFS(dir, os.DirFS(filepath.Join("testdata", "census-4"))); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := FromCensus(context.Background(), dir); err != nil {
+		t.Fatalf("a copy of the census: %v", err)
+	}
+	cert := filepath.Join(dir, "certificates", "1234.json")
+	data, err := os.ReadFile(cert)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(cert, append(data, '\n'), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := FromCensus(context.Background(), dir); !IsRefused(err) {
+		t.Errorf("a census with an edited certificate: %v, want a refusal", err)
+	}
+	if IsGateJSON(data) {
+		t.Error("a certificate taken for a gate's output")
+	}
+	bad := []byte(`{"id":"x","kind":"count","verdict":"proved","extra":1}`)
+	if !IsGateJSON(bad) {
+		t.Error("a gate line not recognised")
+	}
+	if _, err := FromGate("bad.jsonl", bad); err == nil {
+		t.Error("a gate line with an unknown field accepted")
+	}
+}
