@@ -355,22 +355,20 @@ func pick(runners []*runner) *runner {
 	return best
 }
 
+// wider orders runners by their brackets' widths, widest first.
 func wider(r, s *runner) bool {
-	switch {
-	case r.best == nil:
-		return s.best != nil
-	case s.best == nil:
-		return false
-	case r.best.Lambda.Hi == nil:
-		return s.best.Lambda.Hi != nil
-	case s.best.Lambda.Hi == nil:
-		return false
-	}
-	return r.best.Lambda.Width().Cmp(s.best.Lambda.Width()) > 0
+	return before(r, s, func(b *Bracket) *big.Rat { return b.Lambda.Width() })
 }
 
-// higher orders runners by their upper ends (unbounded and none first).
+// higher orders runners by their upper ends, highest first.
 func higher(r, s *runner) bool {
+	return before(r, s, func(b *Bracket) *big.Rat { return b.Lambda.Hi })
+}
+
+// before reports whether r comes before s: a runner with no bracket yet
+// first, then one whose bracket is unbounded above, then by key, largest
+// first.
+func before(r, s *runner, key func(*Bracket) *big.Rat) bool {
 	switch {
 	case r.best == nil:
 		return s.best != nil
@@ -381,7 +379,7 @@ func higher(r, s *runner) bool {
 	case s.best.Lambda.Hi == nil:
 		return false
 	}
-	return r.best.Lambda.Hi.Cmp(s.best.Lambda.Hi) > 0
+	return key(r.best).Cmp(key(s.best)) > 0
 }
 
 // dropDominated finishes the runners that cannot change the enclosure any
