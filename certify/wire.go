@@ -245,11 +245,16 @@ func Read(r io.Reader) (*Certificate, error) {
 
 // Write writes the canonical file of c to path atomically: into a
 // temporary file in the same directory, flushed to disk, then renamed over
-// path. On any error path is left as it was.
+// path. It refuses to replace anything that is not a regular file (a
+// device, a FIFO, a folder, a symbolic link). On any error path is left as
+// it was.
 func Write(path string, c *Certificate) (err error) {
 	data, err := Marshal(c)
 	if err != nil {
 		return err
+	}
+	if info, err := os.Lstat(path); err == nil && !info.Mode().IsRegular() {
+		return fmt.Errorf("certificate: %s is not a regular file (%s); it is left alone: choose another path", path, info.Mode().Type())
 	}
 	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*.tmp")
 	if err != nil {

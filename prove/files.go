@@ -7,6 +7,7 @@ import (
 	"os"
 
 	"avoidcert/certify"
+	"avoidcert/internal/atomicfile"
 )
 
 // Load reads a certificate file. It does not check it: pass the result to
@@ -24,9 +25,14 @@ func Load(path string) (*certify.Certificate, error) {
 	return c, nil
 }
 
-// Save writes a certificate file atomically.
+// Save writes a certificate file atomically, through the project's one
+// atomic writer (it never replaces a device, a FIFO or a folder).
 func Save(path string, c *certify.Certificate) error {
-	return certify.Write(path, c)
+	data, err := certify.Marshal(c)
+	if err != nil {
+		return err
+	}
+	return atomicfile.WriteFile(path, data, 0o644)
 }
 
 // Digest returns the SHA-256 of the certificate's file, in hex: the digest
