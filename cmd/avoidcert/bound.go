@@ -80,6 +80,7 @@ type budget struct {
 	timeout   duration
 	progress  bool
 	quiet     bool
+	typed     []string // the pattern arguments as typed
 }
 
 func (b *budget) register(fs *flag.FlagSet) {
@@ -92,7 +93,8 @@ func (b *budget) register(fs *flag.FlagSet) {
 }
 
 // parse registers the budget flags on fs, parses args and returns the
-// pattern set they name, with the budget checked.
+// pattern set they name, with the budget checked; b.typed keeps the
+// pattern arguments as they were typed, for the checker.
 func (b *budget) parse(fs *flag.FlagSet, args []string) (pattern.Set, error) {
 	b.register(fs)
 	pos, err := parseArgs(fs, args)
@@ -103,6 +105,7 @@ func (b *budget) parse(fs *flag.FlagSet, args []string) (pattern.Set, error) {
 	if err != nil {
 		return pattern.Set{}, err
 	}
+	b.typed = pos
 	return set, b.validate(fs.Name())
 }
 
@@ -119,10 +122,11 @@ func (b *budget) validate(cmd string) error {
 }
 
 // options are the prove options of the budget: --max-k, --max-memory (also
-// the runtime's memory limit) and the deadline of --timeout from now.
+// the runtime's memory limit), the deadline of --timeout from now, and the
+// pattern arguments as typed, which bind the checker.
 func (b *budget) options() prove.Options {
 	limitMemory(int64(b.maxMemory))
-	opts := prove.Options{MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Tool: "avoidcert " + version}
+	opts := prove.Options{MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Tool: "avoidcert " + version, Typed: b.typed}
 	if b.timeout > 0 {
 		opts.Deadline = time.Now().Add(time.Duration(b.timeout))
 	}

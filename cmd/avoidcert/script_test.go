@@ -11,6 +11,8 @@ import (
 	"time"
 
 	"github.com/rogpeppe/go-internal/testscript"
+
+	"avoidcert/pattern"
 )
 
 // TestMain lets the test binary act as the real avoidcert command inside
@@ -19,13 +21,38 @@ import (
 // (tests start it as a child process to kill it).
 func TestMain(m *testing.M) {
 	if os.Getenv("AVOIDCERT_TEST_AS_COMMAND") == "1" {
+		injectFault()
 		os.Exit(runProcess())
 	}
 	testscript.Main(m, map[string]func(){
 		"avoidcert": func() {
+			injectFault()
 			os.Exit(runProcess())
 		},
 	})
+}
+
+// injectFault gives the command, in tests only, the fault that
+// AVOIDCERT_TEST_FAULT names: "drop-last-token" makes the engine's parser
+// drop the last pattern of every comma list, so that the scripts can show
+// the checker refusing to answer for the set the engine misread.
+func injectFault() {
+	switch os.Getenv("AVOIDCERT_TEST_FAULT") {
+	case "":
+	case "drop-last-token":
+		parseSet = func(args []string) (pattern.Set, error) {
+			var misread []string
+			for _, a := range args {
+				if i := strings.LastIndex(a, ","); i >= 0 {
+					a = a[:i]
+				}
+				misread = append(misread, a)
+			}
+			return pattern.ParseSet(misread)
+		}
+	default:
+		panic("unknown AVOIDCERT_TEST_FAULT " + os.Getenv("AVOIDCERT_TEST_FAULT"))
+	}
 }
 
 // TestScripts runs testdata/script/*.txtar. Each script states the command
