@@ -2,6 +2,7 @@ package census
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"errors"
 	"io/fs"
@@ -13,11 +14,15 @@ import (
 )
 
 // Merge combines the finished shards in dirs into the whole census in
-// out: the same tables and certificates an unsharded run writes. It
-// refuses (with an *InputError) shards of different parameters, tools or
-// shard counts, a shard given twice or missing, a class missing or
-// present twice, and a certificate whose file differs from its digest.
-func Merge(out string, dirs []string) (*Report, error) {
+// out: the same tables and certificates an unsharded run writes. Every
+// shard is verified first (Verify: each row's certificate accepted by
+// check for its class, every certified field and count compared, the
+// shard's tables re-derived; a *RefusedError names what differs), so the
+// merge restates nothing a shard's file says without its certificate.
+// It refuses (with an *InputError) shards of different parameters, tools
+// or shard counts, a shard given twice or missing, and a class missing
+// or present twice. jobs rows are checked at once.
+func Merge(ctx context.Context, out string, dirs []string, check Checker, jobs int) (*Report, error) {
 	if len(dirs) == 0 {
 		return nil, inputErrorf("no shard folder given; name the folders of every shard")
 	}
@@ -32,12 +37,9 @@ func Merge(out string, dirs []string) (*Report, error) {
 		certOf = make(map[string][]byte)
 	)
 	for _, dir := range dirs {
-		rep, err := ReadReport(dir)
+		rep, certs, err := verifyShard(ctx, dir, check, jobs)
 		if err != nil {
 			return nil, err
-		}
-		if rep.Shard == nil {
-			return nil, inputErrorf("%s holds a whole census, not a shard; merge only the folders of 'census --shard I/N' runs", dir)
 		}
 		if first == nil {
 			first = rep
@@ -56,40 +58,14 @@ func Merge(out string, dirs []string) (*Report, error) {
 			return nil, inputErrorf("shard %s is given twice: %s and %s; name each shard once", rep.Shard, other, dir)
 		}
 		seen[rep.Shard.Index] = dir
-		classes := rep.Shard.Classes(rep.Params.Length)
-		mine := make(map[string]bool)
 		for _, r := range rep.Rows {
 			if other, dup := owner[r.Representative]; dup {
 				return nil, inputErrorf("class %s is in %s and in %s; a class must come from one shard", r.Representative, other, dir)
 			}
 			owner[r.Representative] = dir
-			mine[r.Representative] = true
-			cert, err := readCertificate(dir, r)
-			if err != nil {
-				return nil, inputErrorf("%s: class %s: %v", dir, r.Representative, err)
-			}
-			certOf[r.Representative] = cert
+			certOf[r.Representative] = certs[r.Representative]
 			r.Group = 0
 			rows = append(rows, r)
-		}
-		for _, c := range classes {
-			if !mine[c.Representative.String()] {
-				return nil, inputErrorf("%s (shard %s) lacks class %s, which belongs to that shard; run the shard again to complete it", dir, rep.Shard, c.Representative)
-			}
-		}
-		for _, r := range rep.Rows {
-			i := -1
-			for k, c := range classes {
-				if c.Representative.String() == r.Representative {
-					i = k
-				}
-			}
-			if i < 0 {
-				return nil, inputErrorf("%s (shard %s) holds class %s, which belongs to another shard; the folder was mixed by hand", dir, rep.Shard, r.Representative)
-			}
-			if err := r.fits(classes[i], rep.Params); err != nil {
-				return nil, inputErrorf("%s: class %s: %v", dir, r.Representative, err)
-			}
 		}
 	}
 	for i := 1; i <= first.Shard.Of; i++ {
@@ -100,8 +76,16 @@ func Merge(out string, dirs []string) (*Report, error) {
 	if err := os.MkdirAll(filepath.Join(out, certificateDir), 0o755); err != nil {
 		return nil, inputErrorf("cannot create the output folder %s: %v; choose another --out", out, err)
 	}
+	o, err := openFolder(out)
+	if err != nil {
+		return nil, err
+	}
+	defer o.close()
+	if err := o.within(certificateDir); err != nil {
+		return nil, err
+	}
 	for _, r := range rows {
-		if err := atomicfile.WriteFile(filepath.Join(out, r.Certificate), certOf[r.Representative], 0o644); err != nil {
+		if err := atomicfile.WriteFile(o.path(r.Certificate), certOf[r.Representative], 0o644); err != nil {
 			return nil, err
 		}
 	}
@@ -112,16 +96,48 @@ func Merge(out string, dirs []string) (*Report, error) {
 	return rep, nil
 }
 
+// verifyShard verifies the shard in dir and returns it with its
+// certificates' bytes (those verified) by class.
+func verifyShard(ctx context.Context, dir string, check Checker, jobs int) (*Report, map[string][]byte, error) {
+	f, err := openFolder(dir)
+	if err != nil {
+		return nil, nil, err
+	}
+	defer f.close()
+	rep, err := readReport(f)
+	if err != nil {
+		return nil, nil, err
+	}
+	if rep.Shard == nil {
+		return nil, nil, inputErrorf("%s holds a whole census, not a shard; merge only the folders of 'census --shard I/N' runs", dir)
+	}
+	return verifyFolder(ctx, f, check, jobs)
+}
+
 // ReadReport reads a folder's census.json strictly: the format, every
 // member known, every number well formed. It returns an *InputError for
-// a file that is missing or not a census.
+// a file that is missing or not a census. It verifies nothing against
+// the certificates: what it returns is untrusted (see Verify).
 func ReadReport(dir string) (*Report, error) {
-	data, err := os.ReadFile(filepath.Join(dir, JSONFile))
-	if errors.Is(err, fs.ErrNotExist) {
-		return nil, inputErrorf("%s has no %s: the shard is not finished (run it again with the same flags to complete it) or the folder is not a census", dir, JSONFile)
-	}
+	f, err := openFolder(dir)
 	if err != nil {
-		return nil, inputErrorf("cannot read %s: %v", filepath.Join(dir, JSONFile), err)
+		return nil, err
+	}
+	defer f.close()
+	return readReport(f)
+}
+
+func readReport(f *folder) (*Report, error) {
+	dir := f.dir
+	data, err := f.read(JSONFile)
+	var refused *RefusedError
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return nil, inputErrorf("%s has no %s: the shard is not finished (run it again with the same flags to complete it) or the folder is not a census", dir, JSONFile)
+	case errors.As(err, &refused):
+		return nil, err
+	case err != nil:
+		return nil, inputErrorf("%v", err)
 	}
 	var rep Report
 	dec := json.NewDecoder(bytes.NewReader(data))

@@ -303,7 +303,7 @@ func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
 	res, rep := r.Bracket, r.Report
 	lambda, radius, digits, agreed := certified(r.Certificate)
 	fmt.Fprintf(w, "patterns: %s (window length %d)\n", r.Set, r.Set.Window())
-	printWrapped(w, "class: "+classLine(rep), "  ")
+	printWrapped(w, "class: "+prove.FormOf(r.Certificate).Words(), "  ")
 	if rep.Class == structure.Subexponential {
 		fmt.Fprintln(w, "lambda = 0 (proved by the structure pass: no cyclic avoider of any length)")
 	}

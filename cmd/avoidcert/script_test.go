@@ -2,6 +2,8 @@ package main
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"os"
 	"os/exec"
@@ -66,6 +68,7 @@ func TestScripts(t *testing.T) {
 			"interrupt": interruptCmd,
 			"age":       ageCmd,
 			"mkfifo":    mkfifoCmd,
+			"sha256":    sha256Cmd,
 		},
 	})
 }
@@ -85,6 +88,20 @@ func replaceCmd(ts *testscript.TestScript, neg bool, args []string) {
 		ts.Fatalf("replace: %q not found in %s", args[1], args[0])
 	}
 	ts.Check(os.WriteFile(path, bytes.Replace(data, old, []byte(args[2]), 1), 0o644))
+}
+
+// sha256Cmd is the script command "sha256 FILE VAR": it sets the
+// environment variable VAR to the SHA-256 of FILE in hex, so that a
+// script can forge a census row that names another file by its true
+// digest.
+func sha256Cmd(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) != 2 {
+		ts.Fatalf("usage: sha256 FILE VAR")
+	}
+	data, err := os.ReadFile(ts.MkAbs(args[0]))
+	ts.Check(err)
+	sum := sha256.Sum256(data)
+	ts.Setenv(args[1], hex.EncodeToString(sum[:]))
 }
 
 // exitsCmd is "exits CODE PROG ARGS...": it runs the command like exec
