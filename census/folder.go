@@ -8,10 +8,11 @@ import (
 	"path/filepath"
 )
 
-// folder is a census folder opened so that every path read or written
-// through it stays inside it: relative, without "..", and with no
-// symbolic link leading out (os.Root refuses those, without a race
-// between the check and the use).
+// folder is a census folder opened so that every path read through it
+// stays inside it: relative, without "..", and with no symbolic link
+// leading out (os.Root refuses those, without a race between the check
+// and the use). Writes go through atomicfile into subfolders that within
+// has found inside.
 type folder struct {
 	dir  string
 	root *os.Root
