@@ -106,7 +106,7 @@ func openJournal(dir string, params Params, shard Shard) (*journal, error) {
 			return nil, err
 		}
 	case err != nil:
-		return nil, err
+		return nil, inputErrorf("%v; remove %s to start the census again", err, path)
 	case !bytes.Equal(have, wantBytes):
 		var h journalHeader
 		if json.Unmarshal(have, &h) != nil || h.Format != journalFormat {
@@ -176,7 +176,7 @@ func (j *journal) finished(ctx context.Context, classes []pattern.Class, check C
 			continue
 		}
 		if err != nil {
-			return nil, err
+			return nil, inputErrorf("journal record %s: %v; remove it to redo the class", j.recordPath(rep), err)
 		}
 		var rec record
 		if err := json.Unmarshal(data, &rec); err != nil {

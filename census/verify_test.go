@@ -245,3 +245,25 @@ func TestRunRefusesALinkedOutFolder(t *testing.T) {
 		t.Errorf("error %v after %d classes, want a refusal before any work", err, len(f.calls))
 	}
 }
+
+// A journal record that is a link leading out of the folder is never
+// followed: the run stops with an input error naming it.
+func TestRunRefusesAJournalRecordLinkedOut(t *testing.T) {
+	dir := t.TempDir()
+	if _, err := Run(context.Background(), options(dir, 3, &fakeCertifier{})); err != nil {
+		t.Fatal(err)
+	}
+	record := filepath.Join(dir, journalDir, "123.json")
+	moved := filepath.Join(t.TempDir(), "123.json")
+	if err := os.Rename(record, moved); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink(moved, record); err != nil {
+		t.Skip("no symbolic links here:", err)
+	}
+	_, err := Run(context.Background(), options(dir, 3, &fakeCertifier{}))
+	var in *InputError
+	if !errors.As(err, &in) || !strings.Contains(err.Error(), "symbolic link leads out of the census folder") {
+		t.Errorf("error %v, want an input error naming the link", err)
+	}
+}
