@@ -4,6 +4,7 @@ import (
 	"context"
 	"crypto/sha256"
 	"encoding/hex"
+	"errors"
 	"fmt"
 	"slices"
 	"strconv"
@@ -93,8 +94,12 @@ func verifyRow(ctx context.Context, f *folder, where string, row Row, to int, ch
 	}
 	c, err := check(ctx, data, []string{row.Representative})
 	if err != nil {
-		if ctx.Err() != nil {
+		switch {
+		case ctx.Err() != nil:
 			return nil, ctx.Err()
+		case errors.Is(err, prove.ErrBudget):
+			// not a refusal: a larger budget would decide it
+			return nil, fmt.Errorf("%s: class %s: checking %s: %w", where, row.Representative, f.path(row.Certificate), err)
 		}
 		return refuse("certificate", "the checker refuses %s for %s: %v", f.path(row.Certificate), row.Representative, err)
 	}

@@ -3,11 +3,15 @@ package census
 import (
 	"context"
 	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
 	"slices"
 	"strings"
 	"testing"
+
+	"avoidcert/certify"
+	"avoidcert/prove"
 )
 
 // tamper rewrites the tables of the census in dir after change has edited
@@ -265,5 +269,19 @@ func TestRunRefusesAJournalRecordLinkedOut(t *testing.T) {
 	var in *InputError
 	if !errors.As(err, &in) || !strings.Contains(err.Error(), "symbolic link leads out of the census folder") {
 		t.Errorf("error %v, want an input error naming the link", err)
+	}
+}
+
+// A certificate over the checker's budget is not a refusal of its row: a
+// larger budget would decide it.
+func TestVerifyBudgetIsNoRefusal(t *testing.T) {
+	dir := wholeCensus(t)
+	overBudget := func(ctx context.Context, data []byte, typed []string) (*certify.Certificate, error) {
+		return nil, fmt.Errorf("%w: made up", prove.ErrBudget)
+	}
+	_, err := Verify(context.Background(), dir, overBudget, 2)
+	var refused *RefusedError
+	if errors.As(err, &refused) || !errors.Is(err, prove.ErrBudget) {
+		t.Errorf("error %v, want a budget error and no refusal", err)
 	}
 }

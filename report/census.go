@@ -33,7 +33,9 @@ func FromCensus(ctx context.Context, dir string) (*Census, error) {
 	if rep.Shard != nil {
 		return nil, fmt.Errorf("%s is one shard of a census: merge the shards first (avoidcert census merge)", dir)
 	}
-	rep, err = census.Verify(ctx, dir, census.CheckerOf(prove.Options{}), runtime.GOMAXPROCS(0))
+	jobs := runtime.GOMAXPROCS(0)
+	check := census.CheckerOf(prove.Options{MaxMemory: prove.DefaultMaxMemory / int64(jobs)})
+	rep, err = census.Verify(ctx, dir, check, jobs)
 	var refusedErr *census.RefusedError
 	switch {
 	case errors.As(err, &refusedErr):

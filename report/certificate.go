@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"crypto/sha256"
+	"errors"
 	"fmt"
 	"math"
 	"math/big"
@@ -78,8 +79,11 @@ func checked(ctx context.Context, name string, data []byte) (*certify.Certificat
 		return nil, fmt.Errorf("%s: %v", name, err)
 	}
 	if err := prove.Recheck(ctx, c, pattern.Set{}, prove.Options{Typed: c.Statement.Given}); err != nil {
-		if ctx.Err() != nil {
+		switch {
+		case ctx.Err() != nil:
 			return nil, ctx.Err()
+		case errors.Is(err, prove.ErrBudget):
+			return nil, fmt.Errorf("%s: %w", name, err) // not refused: over the checker's limits
 		}
 		return nil, refused{fmt.Errorf("%s: the checker refuses the certificate: %v", name, err)}
 	}

@@ -3,10 +3,12 @@ package main
 import (
 	"bytes"
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"os"
 
+	"avoidcert/prove"
 	"avoidcert/report"
 )
 
@@ -89,6 +91,8 @@ func runReport(ctx context.Context, e *env, args []string) int {
 		case report.IsRefused(err):
 			fmt.Fprintf(e.stderr, "avoidcert: report: %v\n", err)
 			return exitFailed
+		case errors.Is(err, prove.ErrBudget):
+			return failure(e, fmt.Errorf("report: %w", err))
 		default:
 			return failure(e, usagef("report: %v", err))
 		}
