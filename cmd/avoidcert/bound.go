@@ -303,8 +303,9 @@ func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
 	res, rep := r.Bracket, r.Report
 	lambda, radius, digits, agreed := certified(r.Certificate)
 	fmt.Fprintf(w, "patterns: %s (window length %d)\n", r.Set, r.Set.Window())
-	printWrapped(w, "class: "+prove.FormOf(r.Certificate).Words(), "  ")
-	if rep.Class == structure.Subexponential {
+	form := prove.FormOf(r.Certificate)
+	printWrapped(w, "class: "+form.Words(), "  ")
+	if form.Class == certify.ClassSubexponential {
 		fmt.Fprintln(w, "lambda = 0 (proved by the structure pass: no cyclic avoider of any length)")
 	}
 	fmt.Fprintf(w, "lambda   in %s  (%s)\n", lambda.String(digits), digitWords(lambda, agreed))
@@ -441,12 +442,13 @@ func ends(x bounds.Enclosure, digits int) endsJSON {
 }
 
 func writeBoundJSON(w io.Writer, r *prove.Result, dest *outFile) {
-	res, rep := r.Bracket, r.Report
+	res := r.Bracket
 	lambda, radius, digits, agreed := certified(r.Certificate)
-	out := boundJSON{Patterns: r.Set.Strings(), Class: string(rep.Class),
+	form := prove.FormOf(r.Certificate)
+	out := boundJSON{Patterns: r.Set.Strings(), Class: string(form.Class),
 		Lambda: ends(lambda, digits), Radius: ends(radius, digits), K: r.K(), Digits: min(agreed, 1000),
 		Stop: string(res.Stop), Seconds: res.Elapsed.Seconds()}
-	out.Period, out.Exponent = periodExponent(rep)
+	out.Period, out.Exponent = periodExponent(form)
 	out.AllN = allNJSONOf(r.Certificate.Statement.AllN, digits)
 	est := &estimatesJSON{Note: "estimate, not certified", CPhases: r.Estimates.ByResidue}
 	if x := r.Estimates.Rate; x > 0 {

@@ -6,6 +6,7 @@ import (
 	"io"
 	"strings"
 
+	"avoidcert/certify"
 	"avoidcert/pattern"
 	"avoidcert/prove"
 	"avoidcert/structure"
@@ -101,7 +102,7 @@ func writeStructureJSON(e *env, rep *structure.Report, withWitnesses bool) {
 		Cells: rep.Cells, Windows: rep.Windows, Components: len(rep.Digraph.Components),
 		Exact: rep.Exact, Explanation: rep.Explanation,
 	}
-	out.Period, out.Exponent = periodExponent(rep)
+	out.Period, out.Exponent = periodExponent(prove.FormOfReport(rep))
 	if rep.Class == structure.Finite {
 		out.N1 = &rep.N1
 	}
@@ -119,14 +120,14 @@ func writeStructureJSON(e *env, rep *structure.Report, withWitnesses bool) {
 }
 
 // periodExponent returns the period (1 for primitive sets) and the
-// exponent of a report, nil where they do not apply.
-func periodExponent(rep *structure.Report) (period, exponent *int) {
-	switch rep.Class {
-	case structure.Primitive:
+// exponent of a form, nil where they do not apply.
+func periodExponent(f prove.Form) (period, exponent *int) {
+	switch f.Class {
+	case certify.ClassPrimitive:
 		one := 1
-		return &one, &rep.Exponent
-	case structure.Periodic:
-		return &rep.Period, nil
+		return &one, &f.Exponent
+	case certify.ClassPeriodic:
+		return &f.Period, nil
 	}
 	return nil, nil
 }
