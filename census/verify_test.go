@@ -54,7 +54,7 @@ func wholeCensus(t *testing.T) string {
 // checker's own counts and what the checked rows give. Each forgery below
 // is refused with the row and the field named.
 func TestVerifyRefusesForgedCensus(t *testing.T) {
-	outside := t.TempDir()
+	outside, honest := t.TempDir(), wholeCensus(t)
 	for _, tc := range []struct {
 		name   string
 		change func(t *testing.T, dir string)
@@ -161,7 +161,10 @@ func TestVerifyRefusesForgedCensus(t *testing.T) {
 		}, "a row names \"4321\", which is not a symmetry class"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			dir := wholeCensus(t)
+			dir := t.TempDir()
+			if err := os.CopyFS(dir, os.DirFS(honest)); err != nil {
+				t.Fatal(err)
+			}
 			if _, err := Verify(context.Background(), dir, fakeCheck, 2); err != nil {
 				t.Fatalf("the honest census is refused: %v", err)
 			}
