@@ -14,14 +14,14 @@ import (
 )
 
 // Merge combines the finished shards in dirs into the whole census in
-// out: the same tables and certificates an unsharded run writes. Every
-// shard is verified first (Verify: each row's certificate accepted by
-// check for its class, every certified field and count compared, the
-// shard's tables re-derived; a *RefusedError names what differs), so the
-// merge restates nothing a shard's file says without its certificate.
-// It refuses (with an *InputError) shards of different parameters, tools
-// or shard counts, a shard given twice or missing, and a class missing
-// or present twice. jobs rows are checked at once.
+// out: the same tables and certificates an unsharded run writes. It first
+// refuses (with an *InputError) shards of different parameters, tools or
+// shard counts, a shard given twice or missing, and a class missing or
+// present twice; then every shard is verified (Verify: each row's
+// certificate accepted by check for its class, every certified field and
+// count compared, the shard's tables derived again; a *RefusedError names
+// what differs), so the merge restates nothing a shard's file says
+// without its certificate. jobs rows are checked at once.
 func Merge(ctx context.Context, out string, dirs []string, check Checker, jobs int) (*Report, error) {
 	if len(dirs) == 0 {
 		return nil, inputErrorf("no shard folder given; name the folders of every shard")
@@ -29,17 +29,20 @@ func Merge(ctx context.Context, out string, dirs []string, check Checker, jobs i
 	if _, err := os.Stat(filepath.Join(out, journalDir, paramsFile)); err == nil {
 		return nil, inputErrorf("the output folder %s holds the journal of a census run, whose tables the merge would replace; choose another --out", out)
 	}
+	// The bookkeeping first, on the files as they read: it is quick, and
+	// the certificates are checked only for shards that fit together.
 	var (
 		first  *Report
 		seen   = make(map[int]string) // shard index -> folder
-		rows   []Row
-		owner  = make(map[string]string) // representative -> folder
-		certOf = make(map[string][]byte)
+		stated = make([]*Report, len(dirs))
 	)
-	for _, dir := range dirs {
-		rep, certs, err := verifyShard(ctx, dir, check, jobs)
+	for k, dir := range dirs {
+		rep, err := ReadReport(dir)
 		if err != nil {
 			return nil, err
+		}
+		if rep.Shard == nil {
+			return nil, inputErrorf("%s holds a whole census, not a shard; merge only the folders of 'census --shard I/N' runs", dir)
 		}
 		if first == nil {
 			first = rep
@@ -58,19 +61,29 @@ func Merge(ctx context.Context, out string, dirs []string, check Checker, jobs i
 			return nil, inputErrorf("shard %s is given twice: %s and %s; name each shard once", rep.Shard, other, dir)
 		}
 		seen[rep.Shard.Index] = dir
-		for _, r := range rep.Rows {
-			if other, dup := owner[r.Representative]; dup {
-				return nil, inputErrorf("class %s is in %s and in %s; a class must come from one shard", r.Representative, other, dir)
-			}
-			owner[r.Representative] = dir
-			certOf[r.Representative] = certs[r.Representative]
-			r.Group = 0
-			rows = append(rows, r)
-		}
+		stated[k] = rep
 	}
 	for i := 1; i <= first.Shard.Of; i++ {
 		if _, ok := seen[i]; !ok {
 			return nil, inputErrorf("shard %d/%d is missing; name the folders of all %d shards", i, first.Shard.Of, first.Shard.Of)
+		}
+	}
+	var (
+		rows   []Row
+		certOf = make(map[string][]byte)
+	)
+	for k, dir := range dirs {
+		rep, certs, err := verifyShard(ctx, dir, check, jobs)
+		if err != nil {
+			return nil, err
+		}
+		if rep.Shard == nil || rep.Params != first.Params || rep.Tool != first.Tool || *rep.Shard != *stated[k].Shard {
+			return nil, inputErrorf("%s changed while it was merged; merge again", dir)
+		}
+		for _, r := range rep.Rows {
+			certOf[r.Representative] = certs[r.Representative]
+			r.Group = 0
+			rows = append(rows, r)
 		}
 	}
 	if err := os.MkdirAll(filepath.Join(out, certificateDir), 0o755); err != nil {
@@ -104,13 +117,6 @@ func verifyShard(ctx context.Context, dir string, check Checker, jobs int) (*Rep
 		return nil, nil, err
 	}
 	defer f.close()
-	rep, err := readReport(f)
-	if err != nil {
-		return nil, nil, err
-	}
-	if rep.Shard == nil {
-		return nil, nil, inputErrorf("%s holds a whole census, not a shard; merge only the folders of 'census --shard I/N' runs", dir)
-	}
 	return verifyFolder(ctx, f, check, jobs)
 }
 
