@@ -56,7 +56,8 @@ Flags:
 
 Exit codes: 0 success, 1 a certificate the checker refuses or a census row
 it does not support, 2 bad input (a file that cannot be read, is no
-certificate, census or gate output), 4 interrupted.
+certificate, census or gate output), 3 a certificate over the checker's
+memory or work limit (undecided), 4 interrupted.
 `,
 		run: runReport,
 	}
