@@ -2,9 +2,9 @@ package structure
 
 import "math/bits"
 
-// bitset is a fixed-size set of small non-negative integers (joint
-// pattern ranks). Bits past the size are always zero, so equal sets have
-// equal words.
+// bitset is a fixed-size set of small non-negative integers
+// (configurations). Bits past the size are always zero, so equal sets
+// have equal words.
 type bitset []uint64
 
 func newBitset(size int) bitset { return make(bitset, (size+63)/64) }
@@ -45,6 +45,16 @@ func (b bitset) or(c bitset) {
 	for i := range b {
 		b[i] |= c[i]
 	}
+}
+
+// subsetOf reports whether every element of b is in c.
+func (b bitset) subsetOf(c bitset) bool {
+	for i := range b {
+		if b[i]&^c[i] != 0 {
+			return false
+		}
+	}
+	return true
 }
 
 // firstMissing returns the least element of within that b lacks, or -1.
