@@ -120,12 +120,7 @@ type checker struct {
 	opts CheckOptions
 	set  patternSet
 	sp   *stateSpace
-	win  windows
-	m    int
 	allN int // index of the bracket the all-n bounds come from
-	// zeroByJoints reports that the structure section claims lambda = 0
-	// where it must be decided on the joint patterns
-	zeroByJoints bool
 	// the progress of recompute, in work units
 	done, total float64
 }
@@ -197,11 +192,6 @@ func (ck *checker) statement() error {
 	}
 	ck.set = set
 	ck.sp = newStateSpace(set)
-	ck.win = windowsOf(set)
-	ck.m = ck.win.m
-	if ck.c.Evidence.CellLength != ck.m {
-		return fmt.Errorf("evidence.cell_length: %d, but the longest pattern has length %d, so m = %d", ck.c.Evidence.CellLength, ck.m+1, ck.m)
-	}
 	if n := len(ck.sp.states); ck.c.Evidence.States != n {
 		return fmt.Errorf("evidence.states: %d, but the set has %d prefix states", ck.c.Evidence.States, n)
 	}

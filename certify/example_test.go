@@ -34,13 +34,10 @@ func Example() {
 	fmt.Printf("lambda in [%s, %s]\n", st.Lambda.LoDecimal, st.Lambda.HiDecimal)
 	fmt.Printf("1/lambda in [%s, %s]\n", st.Radius.LoDecimal, st.Radius.HiDecimal)
 	fmt.Printf("for n >= %d: a_n/n! <= (%s/%d!) (%s)^(n-%d)\n", st.AllN.N0, st.AllN.AN0, st.AllN.N0, st.AllN.MuHi.RatString(), st.AllN.N0)
-	sc := c.Structure
-	fmt.Printf("%s with exponent %d (%d witnesses); lambda %s (cyclic avoider %v)\n", sc.Class, sc.Exponent, len(sc.Witnesses), sc.Lambda, sc.CyclicAvoider)
 	// Output:
 	// lambda in [0.807692307692, 0.836734693878]
 	// 1/lambda in [1.19512195121, 1.2380952381]
 	// for n >= 8: a_n/n! <= (13358/8!) (41/49)^(n-8)
-	// primitive with exponent 4 (24 witnesses); lambda positive (cyclic avoider [3 2 1])
 }
 
 // The same certificate presented for another set is refused.
@@ -84,7 +81,6 @@ func ExampleWrite() {
 		Evidence: certify.Evidence{Brackets: []certify.Bracket{
 			{States: []int{0, 1}, Start: certify.StartEmpty, Step: 1, N: 3, Lo: new(big.Rat), Hi: hi, Upper: true, IterateDigest: sha256.Sum256(stream)},
 		}},
-		Structure: &certify.Structure{Class: certify.ClassSubexponential, Lambda: certify.LambdaZero},
 	}
 	if err := certify.Derive(c); err != nil {
 		fmt.Println(err)
@@ -104,7 +100,7 @@ func ExampleWrite() {
 	f, _ := os.Open(path)
 	defer f.Close()
 	back, err := certify.Read(f)
-	fmt.Println(err, back.Statement.Lambda.HiDecimal, back.Evidence.States, back.Structure.Class, back.Structure.Lambda)
+	fmt.Println(err, back.Statement.Lambda.HiDecimal, back.Evidence.States)
 	// Output:
-	// <nil> 0.333334 2 subexponential zero
+	// <nil> 0.333334 2
 }

@@ -10,10 +10,10 @@ import (
 // The checker's own permutations and pattern sets. Nothing here is taken
 // from the engine's packages: the tests compare the results with them.
 
-// MaxPatternLength is the longest pattern a certificate may name. The
-// structure section works on the (m)! order cells and (2m)! joint patterns,
-// m = length - 1, which bounds it.
-const MaxPatternLength = 7
+// MaxPatternLength is the longest pattern a certificate may name: its
+// entries are the digits 1..9, and its prefix states (at most
+// 0! + .. + 8! = MaxStates) hold at most 8 values.
+const MaxPatternLength = 9
 
 // perm is a permutation of 1..len(p).
 type perm []int

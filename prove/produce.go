@@ -7,7 +7,6 @@ import (
 	"avoidcert/bounds"
 	"avoidcert/certify"
 	"avoidcert/interval"
-	"avoidcert/pattern"
 	"avoidcert/structure"
 	"avoidcert/transfer"
 )
@@ -25,20 +24,10 @@ func Structure(rep *structure.Report) *certify.Structure {
 	switch rep.Class {
 	case structure.Primitive:
 		st.Exponent = rep.Exponent
-		st.Mode = certify.ModeRecompute
-		if rep.Witnesses != nil && rep.M <= MaxWitnessM {
-			st.Mode = certify.ModeWitnesses
-			rep.Witnesses.Each(func(_ int, w pattern.Perm) bool {
-				st.Witnesses = append(st.Witnesses, w)
-				return true
-			})
-		}
 	case structure.Periodic:
 		st.Period = rep.Period
 	case structure.Finite:
 		st.N1 = rep.N1
-	case structure.Reducible:
-		st.Unreached = &certify.CellPair{From: rep.Unreached.From, To: rep.Unreached.To}
 	}
 	if rep.Class == structure.Periodic || (rep.Lambda == structure.LambdaZero && !rep.Digraph.SimpleCycles()) {
 		st.CycleStart, st.CycleLength = rep.CycleStart, rep.CycleLength

@@ -236,7 +236,11 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 	}
 	w := e.stdout
 	fmt.Fprintln(w, "valid")
-	fmt.Fprintf(w, "verified: the set %s (window length %d)\n", strings.Join(st.Patterns, ","), cert.Evidence.CellLength+1)
+	window := 0 // the longest member; members of at most 9 entries are written as digits
+	for _, p := range st.Patterns {
+		window = max(window, len(p))
+	}
+	fmt.Fprintf(w, "verified: the set %s (window length %d)\n", strings.Join(st.Patterns, ","), window)
 	fmt.Fprintf(w, "verified: lambda   in [%s, %s]\n", orInf(lambda.Lo), orInf(lambda.Hi))
 	fmt.Fprintf(w, "verified: 1/lambda in [%s, %s]\n", orInf(radius.Lo), orInf(radius.Hi))
 	if out.Class != nil {
