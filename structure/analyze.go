@@ -161,10 +161,11 @@ func Analyze(ctx context.Context, s pattern.Set, opts Options) (*Report, error) 
 	}
 	rep.say("joint configurations: D has %d (every ordered pair of recurrent states, every interleaving of their values); |R_k| for k = 0..%d: %s",
 		rep.Configurations, ru.last(), sizes(rep.Sizes))
-	if err := rep.decideLambda(ru); err != nil {
+	lambda, err := rep.decideLambda(ru)
+	if err != nil {
 		return nil, err
 	}
-	rep.classify(ru)
+	rep.classify(ru, lambda)
 	if rep.Class == Primitive && opts.Witnesses {
 		rep.Witnesses = &Witnesses{run: ru}
 	}
@@ -220,32 +221,30 @@ func sizes(ns []int) string {
 }
 
 // decideLambda settles lambda > 0 (a cyclic avoider from a closable
-// configuration) or lambda = 0 (none, the sequence followed to its end).
-func (r *Report) decideLambda(ru *jointRun) error {
+// configuration) or lambda = 0 (none, the sequence followed to its end),
+// and returns the sentence that says so.
+func (r *Report) decideLambda(ru *jointRun) (string, error) {
 	w := r.Set.Window()
 	if c, ok := ru.findClosing(w); ok {
 		p := ru.realise(c.k, c.r)
 		if at, member := cyclicFault(r.Set, p); member != nil {
-			return fmt.Errorf("structure: internal error: %v, built from configuration %s of R_%d, is not a cyclic avoider: its cyclic window at %d has the pattern %v",
+			return "", fmt.Errorf("structure: internal error: %v, built from configuration %s of R_%d, is not a cyclic avoider: its cyclic window at %d has the pattern %v",
 				p, ru.sp.describe(c.r), c.k, at+1, member)
 		}
 		r.Lambda, r.CyclicAvoider = LambdaPositive, p
 		r.Closing = fmt.Sprintf("%s in R_%d", ru.sp.describe(c.r), c.k)
-		r.say("lambda > 0 proved: %v is a cyclic avoider of length %d (every cyclic window of each member's length avoids that member, checked window by window), built from the closable configuration %s of R_%d",
-			p, len(p), ru.sp.describe(c.r), c.k)
-		return nil
+		return fmt.Sprintf("lambda > 0 proved: %v is a cyclic avoider of length %d (every cyclic window of each member's length avoids that member, checked window by window), built from the closable configuration %s of R_%d",
+			p, len(p), ru.sp.describe(c.r), c.k), nil
 	}
 	if !ru.recurs() {
-		r.say("lambda > 0 undecided: no closable configuration in R_k with k + |s| >= w = %d for k <= %d, and the sequence did not repeat within the step limit, so later ones are not excluded", w, ru.last())
-		return nil
+		return fmt.Sprintf("lambda > 0 undecided: no closable configuration in R_k with k + |s| >= w = %d for k <= %d, and the sequence did not repeat within the step limit, so later ones are not excluded", w, ru.last()), nil
 	}
 	if ru.exponent >= 0 {
-		return fmt.Errorf("structure: internal error: %s is primitive but no configuration of D is closable", r.Set)
+		return "", fmt.Errorf("structure: internal error: %s is primitive but no configuration of D is closable", r.Set)
 	}
 	r.Lambda = LambdaZero
-	r.say("lambda = 0 proved: no configuration of R_0 .. R_%d is closable with k + |s| >= w = %d, nor any of the joint cycle, so no cyclic avoider of any length exists",
-		ru.cycleStart+ru.cycleLength-1, w)
-	return nil
+	return fmt.Sprintf("lambda = 0 proved: no configuration of R_0 .. R_%d is closable with k + |s| >= w = %d, nor any of the joint cycle, so no cyclic avoider of any length exists",
+		ru.cycleStart+ru.cycleLength-1, w), nil
 }
 
 // cyclicFault returns the first cyclic window of p (its start, 0-based)
@@ -274,8 +273,9 @@ func cyclicFault(s pattern.Set, p pattern.Perm) (int, pattern.Perm) {
 	return 0, nil
 }
 
-// classify sets the class from the run and lambda.
-func (r *Report) classify(ru *jointRun) {
+// classify sets the class from the run and lambda, and explains it with
+// the sentence about lambda in its place.
+func (r *Report) classify(ru *jointRun, lambda string) {
 	sp := ru.sp
 	switch {
 	case ru.exponent >= 0:
@@ -288,15 +288,18 @@ func (r *Report) classify(ru *jointRun) {
 		}
 		r.say("primitive: R_%d = D, so T^%d has an a.e.-positive kernel on the recurrent states: primitivity exponent k = %d%s; by Jentzsch's theorem lambda is simple and strictly dominant, and a_n/n! = c lambda^n (1 + O(theta^n)) with c > 0, theta < 1 (proved; lambda, c and theta are not given here)",
 			ru.exponent, ru.exponent, ru.exponent, least)
+		r.say("%s", lambda)
 		return
 	case !ru.recurs():
 		r.Class = Undecided
 		r.say("undecided: R_k was not D for k = 0..%d and did not repeat within the step limit of %d", ru.last(), ru.last())
+		r.say("%s", lambda)
 		return
 	}
 	r.CycleStart, r.CycleLength = ru.cycleStart, ru.cycleLength
 	r.say("not primitive (proved): R_k is never D, and R_%d = R_%d: from k = %d on the sets repeat with period %d (the joint cycle), so no power of T has an a.e.-positive kernel",
 		ru.cycleStart, ru.cycleStart+ru.cycleLength, ru.cycleStart, ru.cycleLength)
+	r.say("%s", lambda)
 	if r.Lambda == LambdaZero {
 		r.Class = Subexponential
 		r.say("subexponential: a_n > 0 for every n (recurrent states exist) and lambda = 0, so a_n/n! decays faster than every exponential (proved)")
