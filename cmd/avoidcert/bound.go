@@ -15,7 +15,6 @@ import (
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/prove"
-	"avoidcert/structure"
 )
 
 func init() {
@@ -296,12 +295,12 @@ func certified(c *certify.Certificate) (lambda, radius bounds.Enclosure, digits,
 }
 
 func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
-	res, rep := r.Bracket, r.Report
+	res, cs := r.Bracket, r.Certificate.Structure
 	lambda, radius, digits, agreed := certified(r.Certificate)
 	fmt.Fprintf(w, "patterns: %s (window length %d)\n", r.Set, r.Set.Window())
-	printWrapped(w, "class: "+classLine(rep), "  ")
-	if rep.Class == structure.Subexponential {
-		fmt.Fprintln(w, "lambda = 0 (proved by the structure pass: no cyclic avoider of any length)")
+	printWrapped(w, "class: "+classLine(r.Certificate.Structure), "  ")
+	if cs.Class == certify.ClassSubexponential {
+		fmt.Fprintln(w, "lambda = 0 (proved by the structure test: no cyclic avoider of any length)")
 	}
 	fmt.Fprintf(w, "lambda   in %s  (%s)\n", lambda.String(digits), digitWords(lambda, agreed))
 	fmt.Fprintf(w, "1/lambda in %s\n", radius.String(digits))
@@ -321,7 +320,7 @@ func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
 	for i, c := range est.ByResidue {
 		fmt.Fprintf(w, "estimate, not certified: c_%d in a_n/n! = lambda^n (c_(n mod %d) + o(1)) ~ %.6g (from the exact a_n)\n", i, len(est.ByResidue), c)
 	}
-	if rep.Class == structure.Subexponential {
+	if cs.Class == certify.ClassSubexponential {
 		fmt.Fprintf(w, "stopped: upper bound taken at k = %d (lambda = 0 is proved; the bracket only bounds the decay) after %.1f s\n",
 			r.K(), res.Elapsed.Seconds())
 	} else {
@@ -389,8 +388,9 @@ func digitWords(x bounds.Enclosure, digits int) string {
 type boundJSON struct {
 	Patterns    []string       `json:"patterns"`
 	Class       string         `json:"class"`
+	Exponent    *int           `json:"primitivity_exponent"`
 	Period      *int           `json:"period"`
-	Exponent    *int           `json:"exponent"`
+	FiniteFrom  *int           `json:"finite_from"`
 	Lambda      endsJSON       `json:"lambda"`
 	Radius      endsJSON       `json:"radius"`
 	K           int            `json:"k"`
@@ -437,12 +437,12 @@ func ends(x bounds.Enclosure, digits int) endsJSON {
 }
 
 func writeBoundJSON(w io.Writer, r *prove.Result, dest *outFile) {
-	res, rep := r.Bracket, r.Report
+	res := r.Bracket
 	lambda, radius, digits, agreed := certified(r.Certificate)
-	out := boundJSON{Patterns: r.Set.Strings(), Class: string(rep.Class),
+	out := boundJSON{Patterns: r.Set.Strings(), Class: string(r.Certificate.Structure.Class),
 		Lambda: ends(lambda, digits), Radius: ends(radius, digits), K: r.K(), Digits: min(agreed, 1000),
 		Stop: string(res.Stop), Seconds: res.Elapsed.Seconds()}
-	out.Period, out.Exponent = periodExponent(rep)
+	out.Exponent, out.Period, out.FiniteFrom = classNumbers(r.Certificate.Structure)
 	out.AllN = allNJSONOf(r.Certificate.Statement.AllN, digits)
 	est := &estimatesJSON{Note: "estimate, not certified", CPhases: r.Estimates.ByResidue}
 	if x := r.Estimates.Rate; x > 0 {

@@ -31,8 +31,8 @@ func censusCertifier(maxMemory int64) census.Certifier {
 		return census.Certified{
 			Lambda:      outward(st.Lambda),
 			Radius:      outward(st.Radius),
-			Class:       string(r.Report.Class),
-			Form:        classLine(r.Report),
+			Class:       string(r.Certificate.Structure.Class),
+			Form:        classLine(r.Certificate.Structure),
 			Certificate: data,
 		}, nil
 	}

@@ -185,8 +185,11 @@ type checkJSON struct {
 	Reason   string    `json:"reason,omitempty"`
 	Patterns []string  `json:"patterns"`
 	Class    *string   `json:"class"`
+	Exponent *int      `json:"primitivity_exponent"`
 	Period   *int      `json:"period"`
-	Exponent *int      `json:"exponent"`
+	N1       *int      `json:"finite_from"`
+	Blocks   [][]int   `json:"blocks"`
+	LambdaSt *string   `json:"lambda_status"`
 	Lambda   *endsJSON `json:"lambda"`
 	Radius   *endsJSON `json:"radius"`
 	N        []int     `json:"n"`
@@ -217,18 +220,9 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 	all := allNJSONOf(st.AllN, st.Lambda.Digits)
 	out := checkJSON{Verdict: "valid", Patterns: st.Patterns, Lambda: &lambda, Radius: &radius, N: ns, AllN: all}
 	if cs := cert.Structure; cs != nil {
-		class := string(cs.Class)
-		out.Class = &class
-		if cs.Period > 0 {
-			out.Period = &cs.Period
-		}
-		if cs.Class == certify.ClassPrimitive {
-			one := 1 // as structure --json and bound --json say
-			out.Period = &one
-		}
-		if cs.Exponent > 0 {
-			out.Exponent = &cs.Exponent
-		}
+		class, lambda := string(cs.Class), string(cs.Lambda)
+		out.Class, out.LambdaSt, out.Blocks = &class, &lambda, cs.Blocks
+		out.Exponent, out.Period, out.N1 = classNumbers(cs)
 	}
 	if asJSON {
 		writeJSON(e.stdout, out)
@@ -247,13 +241,18 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 		line := "verified: class " + *out.Class
 		switch {
 		case out.Exponent != nil:
-			line += fmt.Sprintf(", exponent %d", *out.Exponent)
-		case out.Period != nil && *out.Period > 1:
+			line += fmt.Sprintf(", primitivity exponent k = %d", *out.Exponent)
+		case out.Period != nil:
 			line += fmt.Sprintf(", period %d", *out.Period)
+		case out.N1 != nil:
+			line += fmt.Sprintf(", a_n = 0 exactly from n = %d", *out.N1)
+		case out.Blocks != nil:
+			line += fmt.Sprintf(", %s of recurrent states", countWord(len(out.Blocks), "block"))
 		}
 		fmt.Fprintln(w, line)
+		fmt.Fprintln(w, "verified: lambda "+lambdaLine(cert.Structure))
 	} else {
-		fmt.Fprintln(w, "verified: no structure section (format version 1): the class is not certified")
+		fmt.Fprintln(w, "verified: no structure section: the class is not certified")
 	}
 	for _, b := range cert.Evidence.Brackets {
 		fmt.Fprintf(w, "verified: %s\n", bracketWords(b, cert.Evidence.States))
