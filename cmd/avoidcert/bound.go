@@ -42,8 +42,8 @@ Flags:
   --width W           absolute width target instead, e.g. 1e-20 (not with --digits)
   --out FILE          certificate path (default avoidcert-SET.json); see below
   --no-certificate    write no certificate
-  --json              {"patterns":[...],"class":...,"period":d,"exponent":e,
-                      "lambda":{"lo","hi"},"radius":{...},"k":K,"digits":D,
+  --json              {"patterns":[...],"class":...,"primitivity_exponent":k,
+                      "period":p,"finite_from":N1,"lambda":{"lo","hi"},"radius":{...},"k":K,"digits":D,
                       "all_n":{"n0","a_n0","lo","hi"},"estimates":{"note":
                       "estimate, not certified",...},"stop":...,"certificate":PATH}
   --max-k K           stop at this k (default 1000, the checker's limit)

@@ -35,8 +35,9 @@ Flags:
                       any set is accepted: say which set you expect
                       whenever you know it.
   --json              {"verdict":"valid"|"invalid"|"undecided","reason":...,
-                      "patterns":[...],"class":...,"period":d,"exponent":e,
-                      "lambda":{"lo","hi"},"radius":{...},"n":[...],
+                      "patterns":[...],"class":...,"primitivity_exponent":k,
+                      "period":p,"finite_from":N1,"blocks":[[...]],
+                      "lambda_status":...,"lambda":{"lo","hi"},"radius":{...},"n":[...],
                       "all_n":{"n0","a_n0","lo","hi"}}
   --max-work N        refuse certificates whose recomputation is estimated
                       above N coefficient operations (default 1e12; the
