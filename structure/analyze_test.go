@@ -106,6 +106,29 @@ func TestAlternatingIsPeriodic(t *testing.T) {
 	}
 }
 
+// A set of period 3, our own construction: forbidding 321 (two descents
+// in a row), 1234 (three ascents) and every pattern of length 4 that
+// descends, ascends and descends (2143, 3142, 3241, 4132, 4231) leaves the
+// sequences whose rises and descents repeat up, up, down. The structure
+// test finds period 3, and a brute-force search over every permutation
+// (the definition of a cyclic avoider, method note 5b) finds cyclic
+// avoiders only at lengths divisible by 3.
+func TestPeriodThree(t *testing.T) {
+	s := settest.Must(t, "321,1234,2143,3142,3241,4132,4231")
+	rep := analyze(t, s, Options{})
+	if rep.Class != Periodic || rep.Period != 3 || rep.Lambda != LambdaPositive {
+		t.Fatalf("class %s period %d lambda %s, want periodic 3, positive: %v", rep.Class, rep.Period, rep.Lambda, rep.Explanation)
+	}
+	if len(rep.CyclicAvoider)%3 != 0 {
+		t.Errorf("cyclic avoider %v of length %d, not a multiple of 3", rep.CyclicAvoider, len(rep.CyclicAvoider))
+	}
+	for L := 4; L <= 8; L++ {
+		if n := cyclicAvoiders(s, L); (n > 0) != (L%3 == 0) {
+			t.Errorf("%d cyclic avoiders of length %d", n, L)
+		}
+	}
+}
+
 // For {123, 231, 312, 321} the configuration of R_0 at state (12) is
 // closable but its period 2 is below w = 3 (docs/prefix-states.md): it
 // must not count, and lambda = 0.
