@@ -152,7 +152,7 @@ func Analyze(ctx context.Context, s pattern.Set, opts Options) (*Report, error) 
 	}
 	sp := newSpace(d)
 	rep.Configurations = sp.domain.count()
-	ru, err := runJoint(ctx, sp, opts.maxSteps(), opts.Witnesses)
+	ru, err := runJoint(ctx, sp, opts.maxSteps(), opts.Witnesses, rep.Cost, opts.maxMemory())
 	if err != nil {
 		return nil, err
 	}

@@ -256,6 +256,25 @@ func TestBudget(t *testing.T) {
 	}
 }
 
+// A run that would need more sets R_k than the budget holds stops with a
+// *BudgetError that says how far it got.
+func TestBudgetDuringRun(t *testing.T) {
+	s := settest.Must(t, "1234") // exponent 5: R_0 .. R_5
+	d := newStateDigraph(transfer.NewStates(s))
+	cost := estimate(d, Options{})
+	_, err := runJoint(context.Background(), newSpace(d), MaxSteps, false, cost, cost.Fixed+3*cost.PerStep)
+	var be *BudgetError
+	if !errors.As(err, &be) || be.Steps != 3 || !errors.Is(err, ErrBudget) {
+		t.Fatalf("a budget of three sets: %v", err)
+	}
+	if !strings.Contains(err.Error(), "R_0 .. R_2") {
+		t.Errorf("message %q does not say how far the test got", err)
+	}
+	if _, err := runJoint(context.Background(), newSpace(d), MaxSteps, false, cost, cost.Fixed+6*cost.PerStep); err != nil {
+		t.Errorf("a budget of six sets: %v", err)
+	}
+}
+
 func TestCancelled(t *testing.T) {
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()

@@ -54,7 +54,7 @@ func TestConfigurationsAgainstEnumeration(t *testing.T) {
 			continue
 		}
 		sp := newSpace(d)
-		ru, err := runJoint(context.Background(), sp, MaxSteps, false)
+		ru, err := runJoint(context.Background(), sp, MaxSteps, false, Cost{}, 1<<62)
 		if err != nil {
 			t.Fatal(err)
 		}

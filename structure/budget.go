@@ -21,20 +21,32 @@ const DefaultMaxMemory = 8 << 30
 // memory budget would lift (a *BudgetError); recognise it with errors.Is.
 var ErrBudget = errors.New("structure: over the budget")
 
-// BudgetError is the test refused before it starts because its estimated
-// memory is over Options.MaxMemory.
+// BudgetError is the test refused because its memory would pass
+// Options.MaxMemory: before it starts (Steps = 0), when its tables and
+// first sets R_k are estimated over it, or after Steps sets R_0 ..
+// R_(Steps-1), when one more would be.
 type BudgetError struct {
 	Cost  Cost
 	Limit int64
+	Steps int
 }
 
 func (e *BudgetError) Error() string {
+	if e.Steps > 0 {
+		return fmt.Sprintf("the structure test's sets R_0 .. R_%d of %d joint configurations did not reach D or repeat, and one more would need about %s, over the memory budget of %s",
+			e.Steps-1, e.Cost.Space, bytesize.Format(e.Cost.Fixed+int64(e.Steps+1)*e.Cost.PerStep), bytesize.Format(e.Limit))
+	}
 	return fmt.Sprintf("the structure test needs about %s for %d joint configurations (%d states, %d of them recurrent), over the memory budget of %s",
 		bytesize.Format(e.Cost.Memory), e.Cost.Space, e.Cost.States, e.Cost.Recurrent, bytesize.Format(e.Limit))
 }
 
 // Is makes errors.Is(err, ErrBudget) hold for a *BudgetError.
 func (e *BudgetError) Is(target error) bool { return target == ErrBudget }
+
+// firstSteps is the number of sets R_k the estimate counts in advance:
+// more than the exponent or the end of the joint cycle of every set tried
+// (single patterns of length 9 have exponent 10 at most).
+const firstSteps = 32
 
 // Cost is the size of the structure test of a set, known before it runs.
 type Cost struct {
@@ -45,9 +57,13 @@ type Cost struct {
 	// Space is the number of configurations the sets R_k are drawn from
 	// (every overlap), the bits of one R_k.
 	Space int
-	// Memory bounds the bytes the test holds: its tables, R_0 .. R_k up to
-	// the step limit, and with witnesses one link per configuration and
-	// step.
+	// Fixed bounds the bytes of the test's tables (the move table of every
+	// configuration, the domain, the step's output, the closable marks);
+	// PerStep those of one more set R_k (with witnesses, its links too).
+	Fixed, PerStep int64
+	// Memory is Fixed plus the first sets R_0 .. R_31 (or to the step
+	// limit): the estimate checked before the test starts. Each later set
+	// is checked against the budget as the test goes.
 	Memory int64
 }
 
@@ -74,15 +90,14 @@ func estimate(d *stateDigraph, opts Options) Cost {
 		}
 	})
 	words := int64(c.Space+63) / 64
-	steps := int64(opts.maxSteps()) + 1
-	mem := 4*int64(len(rec)*len(rec)*(d.st.MaxLength()+1)) + // block look-up
+	c.Fixed = 4*int64(len(rec)*len(rec)*(d.st.MaxLength()+1)) + // block look-up
 		128*blocks + // the blocks themselves
 		4*table + // the move table, one int32 per configuration and gap
-		8*words*(steps+4) + // R_0 .. R_MaxSteps, the domain, the step's output, the closable marks
-		64*steps // hashes of the sets
+		8*words*4 // the domain, the step's output, the cycle's union, the closable marks
+	c.PerStep = 8*words + 64 // the set and its hash
 	if opts.Witnesses {
-		mem += 8 * int64(c.Space) * steps
+		c.PerStep += 8 * int64(c.Space)
 	}
-	c.Memory = mem
+	c.Memory = c.Fixed + c.PerStep*int64(min(firstSteps, opts.maxSteps()+1))
 	return c
 }

@@ -48,10 +48,11 @@
 // sequence recurs and none is. Undecided only at the step limit.
 //
 // Cost. Before it runs, Analyze estimates the test's memory (Estimate:
-// its tables, every R_k up to the step limit, the links of witnesses) and
+// its move table, and its first 32 sets R_k with their witness links) and
 // refuses a test over Options.MaxMemory with a *BudgetError (errors.Is
-// ErrBudget). Nothing else limits the pattern length: a single pattern of
-// length 9 has |D| = 48602.
+// ErrBudget); each further set is checked against the budget as the test
+// goes. Nothing else limits the pattern length: a single pattern of length
+// 9 has |D| = 48602.
 //
 // The order-cell form of this test (window digraph, joint patterns over
 // S_2m) is gone; its verdicts on 363 sets are kept in

@@ -22,8 +22,9 @@ type jointRun struct {
 }
 
 // runJoint computes R_0, R_1, ... (docs/prefix-states.md, "The sequence
-// R_0, R_1, ... and the classes").
-func runJoint(ctx context.Context, sp *space, maxSteps int, withLinks bool) (*jointRun, error) {
+// R_0, R_1, ... and the classes"), at most maxSteps moves, and refuses
+// with a *BudgetError when one more set would pass the memory budget.
+func runJoint(ctx context.Context, sp *space, maxSteps int, withLinks bool, cost Cost, budget int64) (*jointRun, error) {
 	ru := &jointRun{sp: sp, exponent: -1}
 	cur := newBitset(sp.size)
 	for _, s := range sp.rec {
@@ -52,6 +53,9 @@ func runJoint(ctx context.Context, sp *space, maxSteps int, withLinks bool) (*jo
 		seen[h] = append(seen[h], k)
 		if k >= maxSteps {
 			return ru, nil
+		}
+		if cost.Fixed+int64(k+2)*cost.PerStep > budget {
+			return nil, &BudgetError{Cost: cost, Limit: budget, Steps: k + 1}
 		}
 		var links []uint64
 		if withLinks {

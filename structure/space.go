@@ -3,6 +3,7 @@ package structure
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -168,26 +169,37 @@ type config struct {
 // decode returns configuration r with its values.
 func (sp *space) decode(r int) config {
 	b := sp.block(r)
-	ls, lc := len(sp.perm[b.s]), len(sp.perm[b.c])
+	var x, y, starts [maxValues / 2]int
+	nx, ny := sp.decodeInto(b, r, &x, &y, &starts)
+	return config{s: b.s, c: b.c, o: b.o, x: append([]int(nil), x[:nx]...), y: append([]int(nil), y[:ny]...)}
+}
+
+// decodeInto writes the values of configuration r of block b into x and
+// y (position order) and its start values in increasing order into
+// starts, and returns |s| and |c|.
+func (sp *space) decodeInto(b *pairBlock, r int, x, y, starts *[maxValues / 2]int) (ls, lc int) {
+	ls, lc = len(sp.perm[b.s]), len(sp.perm[b.c])
 	var isStart [maxValues]bool
 	sp.unrankMask(r-b.base, b.values, ls, isStart[:])
-	var starts, others []int
+	var others [maxValues]int
+	nx, no := 0, 0
 	for v := range b.values {
 		if isStart[v] {
-			starts = append(starts, v)
+			starts[nx] = v
+			nx++
 		} else {
-			others = append(others, v)
+			others[no] = v
+			no++
 		}
 	}
-	cf := config{s: b.s, c: b.c, o: b.o, x: make([]int, ls), y: make([]int, 0, lc)}
 	for i, rank := range sp.perm[b.s] {
-		cf.x[i] = starts[rank-1]
+		x[i] = starts[rank-1]
 	}
-	cf.y = append(cf.y, cf.x[ls-b.o:]...)
-	for _, rank := range b.fresh {
-		cf.y = append(cf.y, others[rank])
+	copy(y[:b.o], x[ls-b.o:ls])
+	for i, rank := range b.fresh {
+		y[b.o+i] = others[rank]
 	}
-	return cf
+	return ls, lc
 }
 
 // unrankMask sets isStart[v] for the ones of the mask of the given rank
@@ -203,10 +215,10 @@ func (sp *space) unrankMask(rank, values, ones int, isStart []bool) {
 	}
 }
 
-// targets returns the row of configuration r: per gap g = 0..values, the
-// configuration reached with the new value above exactly g of r's values,
-// or noTarget. The row is filled the first time it is asked for and is
-// shared: callers must not modify it.
+// targets returns the row of configuration r of block b: per gap g =
+// 0..values, the configuration reached with the new value above exactly g
+// of r's values, or noTarget. The row is filled the first time it is asked
+// for and is shared: callers must not modify it.
 func (sp *space) targets(b *pairBlock, r int) []int32 {
 	if b.next == nil {
 		b.next = make([]int32, b.size*(b.values+1))
@@ -216,7 +228,7 @@ func (sp *space) targets(b *pairBlock, r int) []int32 {
 	}
 	row := b.next[(r-b.base)*(b.values+1):][:b.values+1]
 	if row[0] == unfilled {
-		sp.fill(r, row)
+		sp.fill(b, r, row)
 	}
 	return row
 }
@@ -226,48 +238,58 @@ func (sp *space) targets(b *pairBlock, r int) []int32 {
 // current values; the move of the current state at gap i, when allowed
 // and into a recurrent state, drops the oldest values of y + (z); the
 // start values all stay.
-func (sp *space) fill(r int, row []int32) {
-	cf := sp.decode(r)
-	lc := len(cf.y)
+//
+// The new configuration's mask ranks the start values among the values
+// kept: the j-th smallest start value x_(j) (j = 1..|s|) has below it the
+// j-1 smaller start values, the kept current values that are not start
+// values and lie below it, and z when g <= x_(j); its colexicographic rank
+// is the sum over j of C(that count, j). The kept current values depend
+// only on the move, so they are counted once per move, not per gap.
+func (sp *space) fill(b *pairBlock, r int, row []int32) {
+	var x, y, starts [maxValues / 2]int
+	ls, lc := sp.decodeInto(b, r, &x, &y, &starts)
+	sorted := y
+	slices.Sort(sorted[:lc])
+	var keptBelow [maxValues / 2]int
+	base, below, counted := 0, 0, -1
 	for g := range row {
-		below := 0
-		for _, v := range cf.y {
-			if v < g {
-				below++
-			}
+		for below < lc && sorted[below] < g {
+			below++
 		}
-		mv := sp.d.next[cf.c][below]
+		mv := sp.d.next[b.c][below]
 		if mv.to < 0 || !sp.d.recurrent[mv.to] {
 			row[g] = noTarget
 			continue
 		}
-		o := max(0, cf.o-mv.drops)
-		// Doubled coordinates: value v at 2v+1, the new value at 2g.
-		var mark [2*maxValues + 2]byte
-		const startValue, currentValue = 1, 2
-		for _, v := range cf.x {
-			mark[2*v+1] = startValue
+		if counted != below {
+			counted = below
+			// Kept: y + (z) without its first mv.drops entries; of those,
+			// the first max(0, o - drops) are start values.
+			from := max(b.o, mv.drops)
+			for j := range ls {
+				keptBelow[j] = 0
+				for _, v := range y[from:lc] {
+					if v < starts[j] {
+						keptBelow[j]++
+					}
+				}
+			}
+			o := max(0, b.o-mv.drops)
+			bi := sp.blockAt[sp.key(b.s, mv.to, o)]
+			if bi < 0 || sp.blocks[bi].values != ls+lc-from+1 {
+				panic(fmt.Sprintf("structure: configuration %d gap %d reaches no block (%d, %d, %d)", r, g, b.s, mv.to, o))
+			}
+			base = sp.blocks[bi].base
 		}
-		for _, v := range cf.y[max(cf.o, mv.drops):] {
-			mark[2*v+1] = currentValue
-		}
-		mark[2*g] = currentValue // the new value is never dropped: the target state is not empty
-		rank, ones, pos := 0, 0, 0
-		for _, m := range mark[:2*lc+2*len(cf.x)+2] {
-			switch m {
-			case startValue:
-				ones++
-				rank += sp.binom[pos][ones]
-				pos++
-			case currentValue:
+		rank := 0
+		for j := range ls {
+			pos := j + keptBelow[j]
+			if g <= starts[j] {
 				pos++
 			}
+			rank += sp.binom[pos][j+1]
 		}
-		bi := sp.blockAt[sp.key(cf.s, mv.to, o)]
-		if bi < 0 || sp.blocks[bi].values != pos {
-			panic(fmt.Sprintf("structure: configuration %d gap %d reaches no block (%d, %d, %d)", r, g, cf.s, mv.to, o))
-		}
-		row[g] = int32(sp.blocks[bi].base + rank)
+		row[g] = int32(base + rank)
 	}
 }
 
