@@ -74,9 +74,9 @@ type CheckOptions struct {
 // exactly; then that the statement follows from the brackets, that every
 // derived field equals its derivation, and that the set is opts.Expect
 // when that is set. With a structure section it proves the stated class
-// and lambda status with its own code: the window digraph, the witnesses
-// or a recomputation of the joint-pattern sets R_k, and the cyclic
-// avoider (see Structure). It refuses, before doing the work, a
+// and lambda status with its own code: the state digraph and its recurrent
+// states, a recomputation of the sets R_k of joint configurations, and
+// the cyclic avoider (see Structure). It refuses, before doing the work, a
 // certificate whose estimated work or memory is over the limits
 // (errors.Is(err, ErrLimit)). Cancelling ctx stops it within one state's
 // step; the error then wraps ctx.Err(). Check does not modify c.

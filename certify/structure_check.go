@@ -158,13 +158,16 @@ func (ck *checker) cyclicAvoider(p []int) error {
 }
 
 // Estimated costs of the structure section, in the units of the bracket
-// work (coefficient operations; docs/certificate.md, "Limits"), measured
-// on the benchmark BenchmarkStructure.
+// work (coefficient operations of about 10 ns; docs/certificate.md,
+// "Limits"). Set from BenchmarkStructure on the 2-core machine under load:
+// about 3 ns per unit of an earlier estimate of 12 units per configuration
+// move, for 123456789 and for four length-7 patterns; the estimate counts
+// every R_k as large as D, so it is pessimistic for the first steps.
 const (
-	unitsPerConfigMove = 12  // one gap of one configuration in a step of R_k, and inserting the result
-	unitsPerDomain     = 10  // one configuration of D
-	unitsPerClosable   = 8   // one move of the closable test
-	bytesPerConfig     = 100 // one member of a set R_k or D, with the map's overhead
+	unitsPerConfigMove = 4   // one gap of one configuration in a step of R_k, and inserting the result
+	unitsPerDomain     = 4   // one configuration of D
+	unitsPerClosable   = 4   // one move of the closable test
+	bytesPerConfig     = 100 // one member of a set R_k or D: 53 bytes measured in a map of 48602, with room for the map's growth
 )
 
 // structureCost estimates the work and memory of verifyStructure (items

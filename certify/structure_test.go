@@ -414,3 +414,41 @@ func TestStructureLimits(t *testing.T) {
 		t.Fatalf("a joint cycle of 1000 steps at length 7: %v, want a memory refusal", err)
 	}
 }
+
+// BenchmarkStructure times the checker's structure section (the brackets
+// of these certificates are one step at N = M, next to nothing) on single
+// patterns of lengths 7, 8 and 9 and a set of four length-7 patterns; the
+// sections are derived once, outside the timing:
+// go test ./certify/ -run X -bench Structure -benchtime 1x
+func BenchmarkStructure(b *testing.B) {
+	for _, given := range [][]string{{"1234567"}, {"1234576"}, {"12345678"}, {"123456789"},
+		{"1234567", "1234576", "1324657", "2143657"}} {
+		b.Run(strings.Join(given, ","), func(b *testing.B) {
+			st := certify.OwnStructure(given)
+			if len(given) == 1 && strings.HasPrefix("123456789", given[0][:len(given[0])-2]) {
+				// by hand: every cyclic window of the decreasing permutation has a descent
+				for v := len(given[0]); v >= 1; v-- {
+					st.CyclicAvoider = append(st.CyclicAvoider, v)
+				}
+			} else {
+				st.Lambda = certify.LambdaUndecided
+			}
+			longest := 0
+			for _, g := range given {
+				longest = max(longest, len(g))
+			}
+			c := assemble(b, given, []spec{wholeSpec(longest-1, 1, true)}, st)
+			var total int64
+			if err := certify.Check(bg, c, certify.CheckOptions{Progress: func(_, t int64) { total = t }}); err != nil {
+				b.Fatal(err)
+			}
+			b.Logf("%s: %s, exponent %d, |D| = %d, estimated %d units", given, st.Class, st.Exponent, st.Configurations, total)
+			b.ResetTimer()
+			for range b.N {
+				if err := certify.Check(bg, c, certify.CheckOptions{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

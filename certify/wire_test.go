@@ -342,8 +342,8 @@ func TestRandomTampersRejected(t *testing.T) {
 
 // unsound returns what is false in an accepted certificate, or "" when its
 // claims agree with the published growth rate, the counts of an OEIS table
-// and the structure of a primitive set with the given exponent (from the
-// structure package's golden file), its witnesses and cyclic avoider
+// and the structure of a primitive set of one length-3 pattern with the
+// given exponent (docs/prefix-states.md, small cases), its cyclic avoider
 // checked by brute force.
 func unsound(t *testing.T, c *certify.Certificate, lambda float64, oeis string, exponent int) string {
 	if why := unsoundStructure(c, exponent); why != "" {
