@@ -177,25 +177,43 @@ const (
 // shared interleave in at most C(|s| + |c|, |s|) ways), each with
 // |s| + |c| + 1 gaps.
 func (ck *checker) structureCost() (work, memory float64) {
-	st := ck.c.Structure
-	steps, held := 0, 0
-	switch {
-	case st == nil:
-		return 0, 0
-	case st.Class == ClassPrimitive:
-		steps, held = st.Exponent, 3 // D, R_k and R_(k+1)
-	case st.CycleLength > 0:
-		steps, held = st.CycleStart+st.CycleLength, st.CycleStart+st.CycleLength+2 // D, R_0 .. R_(s0+p)
-	default:
+	steps := ck.jointSteps()
+	if steps == 0 {
 		return 0, 0
 	}
-	d := float64(ck.domainSize())
-	work = d*unitsPerDomain + float64(steps)*ck.stepCost()
-	if st.Lambda == LambdaZero {
-		work += float64(steps) * d * float64(MaxPatternLength) * unitsPerClosable
+	held := 3 // D, R_k and R_(k+1)
+	if st := ck.c.Structure; st.CycleLength > 0 {
+		held = st.CycleStart + st.CycleLength + 2 // D and R_0 .. R_(s0+p)
 	}
+	work = ck.domainCost() + float64(steps)*ck.stepCost() + ck.closableCost()
 	// doubled for the garbage collector's headroom, as for the iterates
-	return work, 2 * float64(held) * d * bytesPerConfig
+	return work, 2 * float64(held) * float64(ck.domainSize()) * bytesPerConfig
+}
+
+// jointSteps is the number of steps of R_k that verifyStructure takes: the
+// primitivity exponent, or the end of the joint cycle, or none.
+func (ck *checker) jointSteps() int {
+	switch st := ck.c.Structure; {
+	case st == nil:
+		return 0
+	case st.Class == ClassPrimitive:
+		return st.Exponent
+	default:
+		return st.CycleStart + st.CycleLength
+	}
+}
+
+// domainCost is the estimated work of building D.
+func (ck *checker) domainCost() float64 { return float64(ck.domainSize()) * unitsPerDomain }
+
+// closableCost is the estimated work of item S9: at most |D|
+// configurations in each of the s0 + p sets, each tested by at most
+// MaxPatternLength - 1 moves.
+func (ck *checker) closableCost() float64 {
+	if ck.c.Structure.Lambda != LambdaZero {
+		return 0
+	}
+	return float64(ck.jointSteps()) * float64(ck.domainSize()) * (MaxPatternLength - 1) * unitsPerClosable
 }
 
 // stepCost is the estimated work of one step R_k -> R_(k+1): per pair of
@@ -221,12 +239,12 @@ func (ck *checker) stepCost() float64 {
 // and proves the class and lambda = 0 from them.
 func (ck *checker) verifyStructure(ctx context.Context) error {
 	st := ck.c.Structure
-	if st == nil || (st.Class != ClassPrimitive && st.CycleLength == 0) {
+	if ck.jointSteps() == 0 {
 		return nil
 	}
 	j := newJointSystem(ck.sp, ck.recurrent)
 	d := j.domain()
-	ck.progress(float64(len(d.members)) * unitsPerDomain)
+	ck.progress(ck.domainCost())
 	if st.Class == ClassPrimitive {
 		return ck.verifyExponent(ctx, j, d)
 	}
@@ -248,7 +266,10 @@ func (ck *checker) verifyStructure(ctx context.Context) error {
 		}
 	}
 	if st.Lambda == LambdaZero {
-		return ck.verifyNoClosable(j, history)
+		if err := ck.verifyNoClosable(j, history); err != nil {
+			return err
+		}
+		ck.progress(ck.closableCost())
 	}
 	return nil
 }
@@ -258,10 +279,11 @@ func (ck *checker) step(ctx context.Context, j *jointSystem, r *configSet) (*con
 	out := newConfigSet()
 	done := 0
 	for cf := range r.members {
-		if done++; done%4096 == 0 && ctx.Err() != nil {
+		if done%4096 == 0 && ctx.Err() != nil {
 			return nil, ctx.Err()
 		}
 		j.next(cf, out)
+		done++
 	}
 	ck.progress(ck.stepCost())
 	return out, nil

@@ -2,6 +2,7 @@ package certify_test
 
 import (
 	"bytes"
+	"context"
 	"errors"
 	"math/rand/v2"
 	"slices"
@@ -450,5 +451,32 @@ func BenchmarkStructure(b *testing.B) {
 				}
 			}
 		})
+	}
+}
+
+// TestStructureProgressAndCancel: the progress counts the structure
+// section's steps and ends at its estimated total; a cancelled check stops
+// with the context's error.
+func TestStructureProgressAndCancel(t *testing.T) {
+	for _, tc := range structureCases() {
+		if tc.name != "four of S_3 subexponential" && tc.name != "1234567 primitive" {
+			continue
+		}
+		c := assemble(t, tc.given, tc.specs, tc.section(t))
+		var last, total int64
+		err := certify.Check(bg, c, certify.CheckOptions{Progress: func(done, tot int64) {
+			if done < last || done > tot {
+				t.Errorf("%s: progress %d of %d after %d", tc.name, done, tot, last)
+			}
+			last, total = done, tot
+		}})
+		if err != nil || last != total {
+			t.Fatalf("%s: %v; progress ended at %d of %d", tc.name, err, last, total)
+		}
+		ctx, cancel := context.WithCancel(bg)
+		cancel()
+		if err := certify.Check(ctx, c, certify.CheckOptions{}); !errors.Is(err, context.Canceled) {
+			t.Fatalf("%s, cancelled: got %v", tc.name, err)
+		}
 	}
 }
