@@ -209,8 +209,14 @@ func TestDocumentedStructureFacts(t *testing.T) {
 	// {123, 231, 312, 321}: the contract's closable configuration of R_0 at
 	// (12) has period 2 < w = 3, and no cyclic avoider exists (method
 	// note 5b: none up to length 9)
-	if p := newBruteSet([]string{"123", "231", "312", "321"}).cyclicAvoider(bruteLength); p != nil {
+	four := newBruteSet([]string{"123", "231", "312", "321"})
+	if p := four.cyclicAvoider(bruteLength); p != nil {
 		t.Errorf("{123,231,312,321}: cyclic avoider %v", p)
+	}
+	// that configuration: start values 1 < 2, then copies just above them,
+	// 1 2 1.5 2.5, whose pattern 1324 avoids the set and ends in (12) again
+	if q := []int{1, 3, 2, 4}; !brute.Avoids(q, four.pats) || name(four.stateOf(q)) != "12" {
+		t.Errorf("{123,231,312,321}: the closable configuration of R_0 at (12) does not close")
 	}
 }
 
