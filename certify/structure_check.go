@@ -1,6 +1,7 @@
 package certify
 
 import (
+	"cmp"
 	"context"
 	"fmt"
 	"slices"
@@ -380,18 +381,18 @@ func wholePairs(j *jointSystem, set *configSet, k int) error {
 		count[[2]int32{cf.s, cf.c}]++
 	}
 	bin := newBinomials(2 * MaxPatternLength)
-	var worst *[2]int32
+	var partial [][2]int32 // the pairs held only in part
 	for pair, n := range count {
-		a, b := j.size(pair[0]), j.size(pair[1])
-		if n != int(bin.c[a+b][a]) && (worst == nil || pair[0] < worst[0] || (pair[0] == worst[0] && pair[1] < worst[1])) {
-			worst = &pair
+		if a, b := j.size(pair[0]), j.size(pair[1]); n != int(bin.c[a+b][a]) {
+			partial = append(partial, pair)
 		}
 	}
-	if worst != nil {
-		a, b := j.size(worst[0]), j.size(worst[1])
-		return fmt.Errorf("statement.structure.class: periodic is false: R_%d holds %d of the %d configurations of the pair (start %s, current %s), not all or none (recomputed)", k, count[*worst], bin.c[a+b][a], stateName(j.sp.states[worst[0]]), stateName(j.sp.states[worst[1]]))
+	if len(partial) == 0 {
+		return nil
 	}
-	return nil
+	least := slices.MinFunc(partial, func(x, y [2]int32) int { return cmp.Or(cmp.Compare(x[0], y[0]), cmp.Compare(x[1], y[1])) })
+	a, b := j.size(least[0]), j.size(least[1])
+	return fmt.Errorf("statement.structure.class: periodic is false: R_%d holds %d of the %d configurations of the pair (start %s, current %s), not all or none (recomputed)", k, count[least], bin.c[a+b][a], stateName(j.sp.states[least[0]]), stateName(j.sp.states[least[1]]))
 }
 
 // inAny reports whether some set holds cf.

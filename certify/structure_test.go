@@ -329,6 +329,9 @@ func TestStructureTampersRejected(t *testing.T) {
 			st.Class, st.CycleStart, st.CycleLength, st.Exponent = certify.ClassPrimitive, 0, 0, 3
 			st.Lambda = certify.LambdaUndecided
 		}, "statement.structure.primitivity_exponent: R_3 lacks the configuration (start 1, current 1, overlap 0, order 12)"},
+		{"class periodic of a subexponential set", "four of S_3 subexponential", func(st *certify.Structure) {
+			st.Class, st.Period, st.Lambda = certify.ClassPeriodic, st.CycleLength, certify.LambdaUndecided
+		}, "statement.structure.class: periodic is false: R_3 holds 2 of the 6 configurations of the pair (start 12, current 21), not all or none (recomputed)"},
 		{"period changed", "alternating periodic", func(st *certify.Structure) { st.Period = 3 },
 			"statement.structure.period: 3 is not the length 2"},
 		{"period and cycle changed", "alternating periodic", func(st *certify.Structure) { st.Period, st.CycleLength = 4, 4 },
