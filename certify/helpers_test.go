@@ -11,7 +11,7 @@ import (
 
 // The tests' producer: certificates assembled from brackets that
 // certify.MakeBracket computes with the checker's own iteration (exact
-// least and largest ratios). The engine's producer is certify/produce; its
+// least and largest ratios). The engine's producer is prove/produce.go; its
 // agreement with the checker is tested in internal/conformance.
 
 const testTool = "avoidcert certify tests"

@@ -119,20 +119,27 @@ type patternSet []perm
 // irredundant makes the set of the given patterns: sorted, duplicates
 // removed, and every pattern dropped that contains a shorter member
 // consecutively (a permutation avoiding the shorter one avoids it too).
+// The members kept are looked up by key, window by window, so that ten
+// thousand patterns take a fraction of a second.
 func irredundant(ps []perm) patternSet {
 	sorted := slices.Clone(ps)
 	slices.SortFunc(sorted, permLess)
 	var out patternSet
+	kept := map[string]bool{}
+	var lengths []int // of the members kept, increasing
 	for _, p := range sorted {
-		keep := true
-		for _, q := range out {
-			if slices.Equal(p, q) || (len(q) < len(p) && occursIn(q, p)) {
-				keep = false
-				break
+		keep := !kept[stateKey(p)]
+		for _, l := range lengths {
+			for i := 0; keep && l < len(p) && i+l <= len(p); i++ {
+				keep = !kept[stateKey(std(p[i:i+l]))]
 			}
 		}
 		if keep {
 			out = append(out, p)
+			kept[stateKey(p)] = true
+			if !slices.Contains(lengths, len(p)) {
+				lengths = append(lengths, len(p))
+			}
 		}
 	}
 	return out

@@ -26,10 +26,10 @@ var update = flag.Bool("update", false, "rewrite the golden files in testdata")
 const goldenPath = "testdata/cert-123-n8.json"
 
 // goldenCert is the small certificate of the golden file: {123}, whole
-// system, N = 8, with the structure section (primitive, exponent 4, and
-// the cyclic avoider 321).
+// system, N = 8, with the structure section (primitive, exponent 4,
+// recurrent states 1 and 2, |D| = 14, and the cyclic avoider 321).
 func goldenCert(t testing.TB) *certify.Certificate {
-	return assemble(t, []string{"123"}, []spec{wholeSpec(8, 1, true)}, nil)
+	return assemble(t, []string{"123"}, []spec{wholeSpec(8, 1, true)}, structure123())
 }
 
 func TestGoldenFile(t *testing.T) {
@@ -202,7 +202,7 @@ func TestTruncationDetected(t *testing.T) {
 // structure section, so that tampers reach every kind of field.
 func tamperCert(t testing.TB) *certify.Certificate {
 	return assemble(t, []string{"123"}, []spec{wholeSpec(6, 1, true), wholeSpec(5, 2, false),
-		{states: []int{1, 2}, start: certify.StartWhole, step: 1, n: 6}}, nil)
+		{states: []int{1, 2}, start: certify.StartWhole, step: 1, n: 6}}, structure123())
 }
 
 // freeKeys are the members a producer may choose (within the inequalities);
@@ -342,8 +342,8 @@ func TestRandomTampersRejected(t *testing.T) {
 
 // unsound returns what is false in an accepted certificate, or "" when its
 // claims agree with the published growth rate, the counts of an OEIS table
-// and the structure of a primitive set with the given exponent (from the
-// structure package's golden file), its witnesses and cyclic avoider
+// and the structure of a primitive set of one length-3 pattern with the
+// given exponent (docs/prefix-states.md, small cases), its cyclic avoider
 // checked by brute force.
 func unsound(t *testing.T, c *certify.Certificate, lambda float64, oeis string, exponent int) string {
 	if why := unsoundStructure(c, exponent); why != "" {
@@ -487,7 +487,7 @@ func TestReindentedFileNamed(t *testing.T) {
 // every kind of field; no message may quote more than a few dozen
 // characters of them.
 func TestMessagesQuoteLittle(t *testing.T) {
-	good, err := certify.Marshal(assemble(t, []string{"123"}, []spec{wholeSpec(8, 1, true)}, structure123()))
+	good, err := certify.Marshal(goldenCert(t))
 	if err != nil {
 		t.Fatal(err)
 	}
