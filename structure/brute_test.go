@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"avoidcert/internal/brute"
+	"avoidcert/internal/settest"
 	"avoidcert/pattern"
 	"avoidcert/transfer"
 )
@@ -15,19 +16,12 @@ import (
 // bruteSets are the small sets whose R_k are compared with enumeration:
 // the cases of docs/prefix-states.md and random sets of mixed lengths.
 func bruteSets(t *testing.T) []pattern.Set {
-	var sets []pattern.Set
-	for _, arg := range []string{"123", "132", "1342", "1324", "1234", "123,321", "12", "132,231",
+	sets := settest.List(t, "123", "132", "1342", "1324", "1234", "123,321", "12", "132,231",
 		"123,231,312,321", "132,213,231,312", "1423,2413,3412,4123,4312", "132,1234,3421,4321", "21,1234",
-		"321,1234,2143,3142,3241,4132,4231"} {
-		s, err := pattern.ParseSet([]string{arg})
-		if err != nil {
-			t.Fatal(err)
-		}
-		sets = append(sets, s)
-	}
+		"321,1234,2143,3142,3241,4132,4231")
 	rng := rand.New(rand.NewPCG(9, 14))
 	for range 40 {
-		sets = append(sets, pattern.NewSet(brute.RandomPatterns[pattern.Perm](rng, 4, 2, 4)...))
+		sets = append(sets, settest.Random(rng, 4, 4))
 	}
 	return sets
 }

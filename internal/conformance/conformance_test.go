@@ -11,6 +11,7 @@ import (
 	"avoidcert/bounds"
 	"avoidcert/certify"
 	"avoidcert/internal/brute"
+	"avoidcert/internal/settest"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/prove"
@@ -266,19 +267,12 @@ func TestDecimalsAgree(t *testing.T) {
 // class named in docs/prefix-states.md, with single patterns of lengths 7
 // to 9 (|D| = 3418, 12854, 48602).
 func structureSets(t *testing.T) []pattern.Set {
-	var sets []pattern.Set
-	for _, arg := range []string{"123,321", "321,1234,2143,3142,3241,4132,4231", "12,21", "1", "21,1234567", "12",
+	sets := settest.List(t, "123,321", "321,1234,2143,3142,3241,4132,4231", "12,21", "1", "21,1234567", "12",
 		"132,231", "123,231,312,321", "1423,2413,3412,4123,4312", "132,1234,3421,4321", "1243,1342,2314,2413,3421,4132", "231,1243",
-		"1234567", "1526374", "12345678", "123456789", "192837465"} {
-		s, err := pattern.ParseSet([]string{arg})
-		if err != nil {
-			t.Fatal(err)
-		}
-		sets = append(sets, s)
-	}
+		"1234567", "1526374", "12345678", "123456789", "192837465")
 	rng := rand.New(rand.NewPCG(14, 6))
 	for range 150 {
-		sets = append(sets, pattern.NewSet(brute.RandomPatterns[pattern.Perm](rng, 6, 2, 6)...))
+		sets = append(sets, settest.Random(rng, 6, 6))
 	}
 	return sets
 }
