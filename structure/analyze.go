@@ -142,6 +142,9 @@ func Analyze(ctx context.Context, s pattern.Set, opts Options) (*Report, error) 
 	if rep.Cost.Memory > opts.maxMemory() {
 		return nil, &BudgetError{Cost: rep.Cost, Limit: opts.maxMemory()}
 	}
+	if rep.Cost.Space > maxSpace {
+		return nil, fmt.Errorf("structure: the test of %s has %d joint configurations, more than it can number (%d)", s, rep.Cost.Space, maxSpace)
+	}
 	rep.sayStates()
 	if len(rep.Recurrent) == 0 {
 		P := d.longestWalk()

@@ -76,3 +76,13 @@ func (b bitset) hash() uint64 {
 	}
 	return h
 }
+
+// each calls f with every element of b, increasing.
+func each(b bitset, f func(r int)) {
+	for w, word := range b {
+		for word != 0 {
+			f(w*64 + bits.TrailingZeros64(word))
+			word &= word - 1
+		}
+	}
+}

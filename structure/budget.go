@@ -43,6 +43,11 @@ func (e *BudgetError) Error() string {
 // Is makes errors.Is(err, ErrBudget) hold for a *BudgetError.
 func (e *BudgetError) Is(target error) bool { return target == ErrBudget }
 
+// maxSpace is the most configurations the test numbers: the move table
+// holds them as int32 (with 17 gaps each, a table that large needs some
+// 150 GB, so a memory budget refuses such a set first).
+const maxSpace = 1<<31 - 1
+
 // firstSteps is the number of sets R_k the estimate counts in advance:
 // more than the exponent or the end of the joint cycle of every set tried
 // (single patterns of length 9 have exponent 10 at most).
@@ -81,7 +86,7 @@ func estimate(d *stateDigraph, opts Options) Cost {
 	rec := marked(d.recurrent)
 	c := Cost{States: d.st.Len(), Recurrent: len(rec)}
 	blocks, table := int64(0), int64(0)
-	eachBlock(d, perm, rec, binomials(), func(s, c0, o, values, size int) {
+	eachBlock(perm, rec, binomials(), func(s, c0, o, values, size int) {
 		blocks++
 		table += int64(size) * int64(values+1)
 		c.Space += size

@@ -2,7 +2,6 @@ package structure
 
 import (
 	"fmt"
-	"math/bits"
 	"slices"
 
 	"avoidcert/pattern"
@@ -97,16 +96,6 @@ func (ru *jointRun) findClosing(w int) (closing, bool) {
 		})
 	}
 	return best, found
-}
-
-// each calls f with every element of b, increasing.
-func each(b bitset, f func(r int)) {
-	for w, word := range b {
-		for word != 0 {
-			f(w*64 + bits.TrailingZeros64(word))
-			word &= word - 1
-		}
-	}
 }
 
 // realise returns a sequence x t_1 .. t_k whose configuration after k

@@ -68,7 +68,7 @@ type space struct {
 // eachBlock calls f with the start state, current state, overlap, number
 // of values and size of every pair block, in block order (start state,
 // current state, overlap).
-func eachBlock(d *stateDigraph, perm [][]int, rec []int, binom *[maxValues + 2][maxValues + 2]int, f func(s, c, o, values, size int)) {
+func eachBlock(perm [][]int, rec []int, binom *[maxValues + 2][maxValues + 2]int, f func(s, c, o, values, size int)) {
 	for _, s := range rec {
 		for _, c := range rec {
 			ls, lc := len(perm[s]), len(perm[c])
@@ -123,7 +123,7 @@ func newSpace(d *stateDigraph) *space {
 	for i := range sp.blockAt {
 		sp.blockAt[i] = -1
 	}
-	eachBlock(d, sp.perm, sp.rec, &sp.binom, func(s, c, o, values, size int) {
+	eachBlock(sp.perm, sp.rec, &sp.binom, func(s, c, o, values, size int) {
 		sp.blockAt[sp.key(s, c, o)] = int32(len(sp.blocks))
 		fresh := pattern.Standardize(sp.perm[c][o:])
 		for i := range fresh {
