@@ -107,10 +107,9 @@ type Report struct {
 	Lambda Lambda
 	// CyclicAvoider is the evidence of lambda > 0: a permutation of
 	// length L >= w whose cyclic windows of each member's length avoid
-	// that member, checked window by window. Closing names the closable
-	// configuration it was built from.
+	// that member, checked window by window (the explanation names the
+	// closable configuration it was built from).
 	CyclicAvoider pattern.Perm
-	Closing       string
 
 	// Witnesses holds one realisation per configuration of D (primitive,
 	// with Options.Witnesses), or nil.
@@ -235,7 +234,6 @@ func (r *Report) decideLambda(ru *jointRun) (string, error) {
 				p, ru.sp.describe(c.r), c.k, at+1, member)
 		}
 		r.Lambda, r.CyclicAvoider = LambdaPositive, p
-		r.Closing = fmt.Sprintf("%s in R_%d", ru.sp.describe(c.r), c.k)
 		return fmt.Sprintf("lambda > 0 proved: %v is a cyclic avoider of length %d (every cyclic window of each member's length avoids that member, checked window by window), built from the closable configuration %s of R_%d",
 			p, len(p), ru.sp.describe(c.r), c.k), nil
 	}
