@@ -17,8 +17,8 @@ type Options struct {
 	// Width asks for Lambda.Hi - Lambda.Lo <= Width (absolute, exact).
 	Width *big.Rat
 	// Step is the period d: brackets are taken for lambda^d from T^d and
-	// their d-th roots are taken outward. 0 means 1. Use the period of the
-	// window digraph for periodic sets ({123, 321} has period 2).
+	// their d-th roots are taken outward. 0 means 1. Use the period the
+	// structure test finds for periodic sets ({123, 321} has period 2).
 	Step int
 	// MaxN is the largest n at which a bracket is taken (iterates go to
 	// MaxN + Step).

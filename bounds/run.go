@@ -333,7 +333,7 @@ func checkFirstMemory(runners []*runner, opts Options) error {
 			return nil
 		}
 		if above == 0 {
-			return &BudgetError{Stop: StopMemory, msg: fmt.Sprintf("bounds: the memory budget of %s is below the %s needed for a first bracket; raise it", bytesize.Format(opts.MaxMemory), bytesize.Format(need))}
+			return &BudgetError{Stop: StopMemory, msg: fmt.Sprintf("bounds: a first bracket needs %s, over the memory budget of %s; raise it", bytesize.About(need), bytesize.Format(opts.MaxMemory))}
 		}
 	}
 	return nil

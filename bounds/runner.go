@@ -154,7 +154,7 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 		if r.base != nil && cur.N == r.base.N+r.d {
 			k := r.base.N
 			if need := r.held() + r.evalNeed(k) + e.elsewhere(); budget > 0 && need > budget {
-				return StopMemory, fmt.Sprintf("the bracket at n = %d would need about %s, over the memory budget of %s", k, bytesize.Format(need), bytesize.Format(budget)), nil
+				return StopMemory, fmt.Sprintf("the bracket at n = %d would need %s, over the memory budget of %s", k, bytesize.About(need), bytesize.Format(budget)), nil
 			}
 			if err := r.evaluate(ctx, e); err != nil {
 				return stopFor(err)
@@ -169,7 +169,7 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 			}
 			other := e.elsewhere() + r.pinnedExtra()
 			if need := r.baseNeed(K, other); budget > 0 && need > budget {
-				return StopMemory, fmt.Sprintf("a bracket at n = %d would need about %s, over the memory budget of %s", K, bytesize.Format(need), bytesize.Format(budget)), nil
+				return StopMemory, fmt.Sprintf("a bracket at n = %d would need %s, over the memory budget of %s", K, bytesize.About(need), bytesize.Format(budget)), nil
 			}
 			if left, ok := timeLeft(ctx); ok && left < r.bracketTime(K) {
 				return StopTimeout, fmt.Sprintf("stopped at G_%d: a further bracket would not finish before the deadline", K), nil
@@ -190,7 +190,7 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 			}
 		}
 		if need := r.held() - bytesOf(r.spare) + max(bytesOf(r.spare), r.size(K+1)) + e.elsewhere(); budget > 0 && need > budget {
-			return StopMemory, fmt.Sprintf("the step to G_%d would need about %s, over the memory budget of %s", K+1, bytesize.Format(need), bytesize.Format(budget)), nil
+			return StopMemory, fmt.Sprintf("the step to G_%d would need %s, over the memory budget of %s", K+1, bytesize.About(need), bytesize.Format(budget)), nil
 		}
 		if err := r.step(ctx, e, false); err != nil {
 			return stopFor(err)

@@ -15,7 +15,7 @@ import (
 // Lengths of patterns a census covers.
 const (
 	MinLength = 3
-	MaxLength = 7
+	MaxLength = 8
 )
 
 // Params are what a census computes; two runs with equal Params write the

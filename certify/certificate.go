@@ -8,12 +8,13 @@ import (
 )
 
 // Version is the certificate format version this package writes and
-// checks: 3, brackets on prefix states (docs/prefix-states.md). Versions 1
-// and 2 (order cells) are refused with a message that says how to
-// re-issue the certificate.
-const Version = 3
+// checks: 4, brackets and the structure section on prefix states
+// (docs/prefix-states.md). Versions 1 and 2 (order cells) and 3 (a
+// structure section on order cells) are refused with a message that says
+// how to re-issue the certificate.
+const Version = 4
 
-// Fixed strings of format version 3. A file whose strings differ is not a
+// Fixed strings of format version 4. A file whose strings differ is not a
 // certificate.
 const (
 	Format        = "avoidcert certificate"
@@ -32,13 +33,12 @@ const (
 	MaxN            = 1000    // n of a bracket
 	MaxStep         = 64      // step d of a bracket
 	MaxBrackets     = 1024
-	MaxGiven        = 10000   // patterns as given
-	MaxTokenLength  = 32      // characters of one given pattern
-	MaxToolLength   = 200     // characters of the tool string
-	MaxWitnesses    = 3628800 // witnesses of a structure section: (2m)! at m = 5
+	MaxGiven        = 10000 // patterns as given
+	MaxTokenLength  = 32    // characters of one given pattern
+	MaxToolLength   = 200   // characters of the tool string
 	// MaxStates is the most prefix states a set can have: every pattern
-	// of length 0..6, 0! + 1! + ... + 6!.
-	MaxStates = 874
+	// of length 0..8 (MaxPatternLength - 1), 0! + 1! + ... + 8!.
+	MaxStates = 46234
 )
 
 // Certificate is a growth-rate certificate. Read returns fresh values;
@@ -93,9 +93,8 @@ type AllN struct {
 // prefix states of the set (docs/prefix-states.md). The evidence of the
 // structure section is in Certificate.Structure.
 type Evidence struct {
-	CellLength int // m = longest pattern length - 1 (derived; the structure section uses cells)
-	States     int // number of prefix states (derived)
-	Brackets   []Bracket
+	States   int // number of prefix states (derived)
+	Brackets []Bracket
 }
 
 // Start is how a bracket's system starts (docs/prefix-states.md,
@@ -134,13 +133,13 @@ type Bracket struct {
 	// whole-system bracket, or StartOnes brackets whose state sets
 	// partition all states in an acyclic block order.
 	Upper bool
-	// IterateDigest is the SHA-256 of G_N's version 3 byte stream
+	// IterateDigest is the SHA-256 of G_N's byte stream avoidcert-iterate-v3
 	// (docs/prefix-states.md; derived).
 	IterateDigest [32]byte
 }
 
 // Derive fills the derived fields of c from its free fields: Patterns and
-// Canonical from Given, CellLength and States, the decimals from the
+// Canonical from Given, States, the decimals from the
 // rationals, and the canonical order of the brackets. AN0 and the iterate
 // digests need the iterates and are left to the producer, and so is the
 // structure section (its derived fields come from the structure pass).
@@ -153,7 +152,6 @@ func Derive(c *Certificate) error {
 	}
 	c.Statement.Patterns = set.strings()
 	c.Statement.Canonical = set.canonical().strings()
-	c.Evidence.CellLength = set.longest() - 1
 	c.Evidence.States = len(newStateSpace(set).states)
 	for _, r := range []*Range{&c.Statement.Lambda, &c.Statement.Radius} {
 		r.LoDecimal, r.HiDecimal = "", ""

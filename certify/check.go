@@ -74,9 +74,9 @@ type CheckOptions struct {
 // exactly; then that the statement follows from the brackets, that every
 // derived field equals its derivation, and that the set is opts.Expect
 // when that is set. With a structure section it proves the stated class
-// and lambda status with its own code: the window digraph, the witnesses
-// or a recomputation of the joint-pattern sets R_k, and the cyclic
-// avoider (see Structure). It refuses, before doing the work, a
+// and lambda status with its own code: the state digraph and its recurrent
+// states, a recomputation of the sets R_k of joint configurations, and
+// the cyclic avoider (see Structure). It refuses, before doing the work, a
 // certificate whose estimated work or memory is over the limits
 // (errors.Is(err, ErrLimit)). Cancelling ctx stops it within one state's
 // step; the error then wraps ctx.Err(). Check does not modify c.
@@ -103,14 +103,13 @@ func Check(ctx context.Context, c *Certificate, opts CheckOptions) error {
 	if err := ck.limits(); err != nil {
 		return fmt.Errorf("certificate refused: %w", err)
 	}
-	if err := ck.verifyStructure(); err != nil {
-		return fmt.Errorf("certificate rejected: %v", err)
-	}
-	if err := ck.recompute(ctx); err != nil {
-		if ctx.Err() != nil {
-			return fmt.Errorf("check interrupted: %w", ctx.Err())
+	for _, verify := range []func(context.Context) error{ck.verifyStructure, ck.recompute} {
+		if err := verify(ctx); err != nil {
+			if ctx.Err() != nil {
+				return fmt.Errorf("check interrupted: %w", ctx.Err())
+			}
+			return fmt.Errorf("certificate rejected: %v", err)
 		}
-		return fmt.Errorf("certificate rejected: %v", err)
 	}
 	return nil
 }
@@ -120,12 +119,10 @@ type checker struct {
 	opts CheckOptions
 	set  patternSet
 	sp   *stateSpace
-	win  windows
-	m    int
 	allN int // index of the bracket the all-n bounds come from
-	// zeroByJoints reports that the structure section claims lambda = 0
-	// where it must be decided on the joint patterns
-	zeroByJoints bool
+	// the recurrent states and their blocks (structure sections only)
+	recurrent []int
+	blocks    [][]int
 	// the progress of recompute, in work units
 	done, total float64
 }
@@ -191,11 +188,6 @@ func (ck *checker) statement() error {
 	}
 	ck.set = set
 	ck.sp = newStateSpace(set)
-	ck.win = windowsOf(set)
-	ck.m = ck.win.m
-	if ck.c.Evidence.CellLength != ck.m {
-		return fmt.Errorf("evidence.cell_length: %d, but the longest pattern has length %d, so m = %d", ck.c.Evidence.CellLength, ck.m+1, ck.m)
-	}
 	if n := len(ck.sp.states); ck.c.Evidence.States != n {
 		return fmt.Errorf("evidence.states: %d, but the set has %d prefix states", ck.c.Evidence.States, n)
 	}
@@ -241,7 +233,7 @@ func (ck *checker) statement() error {
 	if err := ck.claims(); err != nil {
 		return err
 	}
-	return ck.structureClaims()
+	return ck.structureForm()
 }
 
 // claims checks that the statement follows from the brackets' own claims

@@ -402,3 +402,25 @@ func TestSameVerdictOnAnyCores(t *testing.T) {
 		}
 	}
 }
+
+// TestDocumentedRefusals: the two refusals that docs/certificate.md quotes
+// ("What the checker verifies") are the checker's own words.
+func TestDocumentedRefusals(t *testing.T) {
+	lowered := goldenCert(t)
+	hi := big.NewRat(83, 100)
+	lowered.Statement.Lambda.Hi, lowered.Evidence.Brackets[0].Hi, lowered.Statement.AllN.MuHi = hi, hi, hi
+	lowered.Statement.Radius.Lo = new(big.Rat).Inv(hi)
+	if err := certify.Derive(lowered); err != nil {
+		t.Fatal(err)
+	}
+	exponent := goldenCert(t)
+	exponent.Structure.Exponent = 3
+	for c, want := range map[*certify.Certificate]string{
+		lowered:  "certificate rejected: evidence.brackets[0] (whole system, step 1, n 8): hi is below the ratio G_9/elevated G_8 = 5553/6684 at state 1, index [4 4]",
+		exponent: "certificate rejected: statement.structure.primitivity_exponent: R_3 lacks the configuration (start 12, current 12, overlap 0, order 1234) of D (recomputed), so T'^3 has no a.e.-positive kernel",
+	} {
+		if err := certify.Check(bg, c, certify.CheckOptions{}); err == nil || err.Error() != want {
+			t.Errorf("got %v, the documentation quotes %q", err, want)
+		}
+	}
+}

@@ -35,12 +35,12 @@ func Example() {
 	fmt.Printf("1/lambda in [%s, %s]\n", st.Radius.LoDecimal, st.Radius.HiDecimal)
 	fmt.Printf("for n >= %d: a_n/n! <= (%s/%d!) (%s)^(n-%d)\n", st.AllN.N0, st.AllN.AN0, st.AllN.N0, st.AllN.MuHi.RatString(), st.AllN.N0)
 	sc := c.Structure
-	fmt.Printf("%s with exponent %d (%d witnesses); lambda %s (cyclic avoider %v)\n", sc.Class, sc.Exponent, len(sc.Witnesses), sc.Lambda, sc.CyclicAvoider)
+	fmt.Printf("%s with primitivity exponent %d on recurrent states %v (%d configurations); lambda %s (cyclic avoider %v)\n", sc.Class, sc.Exponent, sc.Recurrent, sc.Configurations, sc.Lambda, sc.CyclicAvoider)
 	// Output:
 	// lambda in [0.807692307692, 0.836734693878]
 	// 1/lambda in [1.19512195121, 1.2380952381]
 	// for n >= 8: a_n/n! <= (13358/8!) (41/49)^(n-8)
-	// primitive with exponent 4 (24 witnesses); lambda positive (cyclic avoider [3 2 1])
+	// primitive with primitivity exponent 4 on recurrent states [1 2] (14 configurations); lambda positive (cyclic avoider [3 2 1])
 }
 
 // The same certificate presented for another set is refused.
@@ -64,8 +64,11 @@ func ExampleCheck_otherSet() {
 // composition (n-1, 0) of state (1) and 0 elsewhere. At N = 3 the elevated
 // G_3 is 3 at (3, 0) and 1 at (2, 1), where G_4 is 1 and 0: the bracket is
 // [0, 1/3]. The digest is the byte stream of docs/prefix-states.md, built
-// here by hand. Its only cycle is the loop of the window 12, so lambda = 0
-// needs no further evidence.
+// here by hand. The structure section states lambda = 0: the state (1)
+// is recurrent (its loop), R_k = {the current value above the start
+// value} for every k >= 1 (the joint cycle starts at 1 with length 1), and
+// no configuration closes (the copy of the start value would come below
+// the current value: a descent).
 func ExampleWrite() {
 	stream := []byte("avoidcert-iterate-v3\n")
 	stream = binary.AppendUvarint(stream, 2) // states
@@ -84,7 +87,8 @@ func ExampleWrite() {
 		Evidence: certify.Evidence{Brackets: []certify.Bracket{
 			{States: []int{0, 1}, Start: certify.StartEmpty, Step: 1, N: 3, Lo: new(big.Rat), Hi: hi, Upper: true, IterateDigest: sha256.Sum256(stream)},
 		}},
-		Structure: &certify.Structure{Class: certify.ClassSubexponential, Lambda: certify.LambdaZero},
+		Structure: &certify.Structure{Class: certify.ClassSubexponential, Lambda: certify.LambdaZero,
+			Recurrent: []int{1}, Configurations: 2, CycleStart: 1, CycleLength: 1},
 	}
 	if err := certify.Derive(c); err != nil {
 		fmt.Println(err)

@@ -58,6 +58,15 @@ func FuzzCheck(f *testing.F) {
 		f.Fatal(err)
 	}
 	f.Add(other)
+	// {132}: primitive with exponent 3 (docs/prefix-states.md, small
+	// cases), recurrent states (1) and (12), |D| = 14, and the cyclic
+	// avoider 123 (its cyclic windows 123, 231, 312 avoid 132)
+	withStructure, err := certify.Marshal(assemble(f, []string{"132"}, []spec{wholeSpec(5, 1, true)}, &certify.Structure{
+		Class: certify.ClassPrimitive, Exponent: 3, Lambda: certify.LambdaPositive, Recurrent: []int{1, 2}, Configurations: 14, CyclicAvoider: []int{1, 2, 3}}))
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add(withStructure)
 	rng := rand.New(rand.NewPCG(1, 2))
 	for range 20 {
 		bad, _ := tamper(rng, good)
@@ -87,9 +96,9 @@ func FuzzCheck(f *testing.F) {
 			var why string
 			switch set := c.Statement.Patterns; {
 			case len(set) == 1 && set[0] == "123":
-				why = unsound(t, c, lambda123, "A049774", 4) // OEIS A049774; exponent: structure/testdata/exponents.golden
+				why = unsound(t, c, lambda123, "A049774", 4) // OEIS A049774; exponent: docs/prefix-states.md, small cases
 			case len(set) == 1 && set[0] == "132":
-				why = unsound(t, c, lambda132, "A111004", 3) // OEIS A111004; exponent: the same golden file
+				why = unsound(t, c, lambda132, "A111004", 3) // OEIS A111004; exponent: the same small cases
 			default:
 				why = "it is for a set this test cannot verify"
 			}

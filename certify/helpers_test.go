@@ -11,7 +11,7 @@ import (
 
 // The tests' producer: certificates assembled from brackets that
 // certify.MakeBracket computes with the checker's own iteration (exact
-// least and largest ratios). The engine's producer is certify/produce; its
+// least and largest ratios). The engine's producer is prove/produce.go; its
 // agreement with the checker is tested in internal/conformance.
 
 const testTool = "avoidcert certify tests"
@@ -163,35 +163,11 @@ func factorial(n int) int {
 	return f
 }
 
-// witnesses returns, for a set all of whose patterns have length m+1, one
-// avoider of length m+e per joint pattern (first m and last m entries) in
-// increasing rank of the joint pattern: the least avoider of each.
-func witnesses(given []string, m, e int) [][]int {
-	first := map[int][]int{}
-	pats := parsePats(given)
-	brute.Permutations(m+e, func(q []int) {
-		if !brute.Avoids(q, pats) {
-			return
-		}
-		r := lexRank(append(append([]int(nil), q[:m]...), q[len(q)-m:]...))
-		if first[r] == nil {
-			first[r] = append([]int(nil), q...)
-		}
-	})
-	var out [][]int
-	for r := range factorial(2 * m) {
-		if first[r] != nil {
-			out = append(out, first[r])
-		}
-	}
-	return out
-}
-
-// structure123 is the structure section of {123}: primitive with exponent
-// 4 (the R_k fill S_4 at k = 4; the checker recomputes R_2 and R_3 and
-// refuses a wrong exponent), one witness per joint pattern found by brute
-// force, and the cyclic avoider 321 (its windows 321, 213, 132 avoid 123).
+// structure123 is the structure section of {123} (docs/prefix-states.md,
+// "Small cases"): recurrent states (1) and (12) (numbers 1 and 2), |D| =
+// C(2,1) + 2 C(3,1) + C(4,2) = 14, primitive with exponent 4, and the
+// cyclic avoider 321 (its cyclic windows 321, 213, 132 avoid 123).
 func structure123() *certify.Structure {
 	return &certify.Structure{Class: certify.ClassPrimitive, Exponent: 4, Lambda: certify.LambdaPositive,
-		Mode: certify.ModeWitnesses, Witnesses: witnesses([]string{"123"}, 2, 4), CyclicAvoider: []int{3, 2, 1}}
+		Recurrent: []int{1, 2}, Configurations: 14, CyclicAvoider: []int{3, 2, 1}}
 }

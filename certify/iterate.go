@@ -259,7 +259,8 @@ func (g *iterate) isZero() bool {
 	return true
 }
 
-// iterateHeader starts the digest stream of format version 3.
+// iterateHeader starts the digest stream (its name from format version 3;
+// version 4 keeps it).
 const iterateHeader = "avoidcert-iterate-v3\n"
 
 // digest returns the SHA-256 of g's byte stream: the header,

@@ -1,356 +1,279 @@
 package certify
 
 import (
-	"math/bits"
+	"fmt"
+	"hash/maphash"
 	"strings"
 )
 
-// This file recomputes the joint-pattern sets R_k (docs/certificate.md,
-// "Joint patterns and the window digraph") with its own layout.
-//
-// A joint pattern, the relative order of the first m entries x and the
-// last m entries y of an avoiding permutation, is stored as three parts:
-//
-//	xc    the cell of x (the rank of its pattern among the m! cells),
-//	yc    the cell of y,
-//	mask  which of the 2m values, in increasing order, belong to y
-//	      (bit t set: the (t+1)-th smallest of the 2m values is in y),
-//
-// and numbered (slot(mask)*cells + xc)*cells + yc, slot being the place of
-// mask among the C(2m, m) masks with m bits set, in increasing order.
-//
-// Step. One more entry z lies above exactly g of the 2m values (g = 0..2m),
-// so above j = (bits of mask below g) entries of y. The new window is
-// (y, z): allowed or not by yc and j. The new joint pattern keeps xc; its
-// y-part is (y_2, .., y_m, z), whose cell follows from yc and j; its mask
-// loses y_1's bit (the bit of the y-value whose rank among y is y_1's) and
-// gains z's bit, at its place among the 2m-1 values left. Every
-// realisation of a joint pattern admits z in every gap, so R_(k+1) is
-// exactly the set of these results over R_k and the allowed gaps.
-//
-// R_k = D (the domain: both halves start cells) is kept by the step: for
-// (x, y') in D the cell of y' ends some allowed window (t, y'), t can be
-// placed among x and y' at its place among y', and that joint pattern,
-// in D = R_k, steps to (x, y'). So the least k with R_k = D is found by
-// stepping up from R_m.
+// Joint configurations (docs/prefix-states.md, "Joint configurations"),
+// each written out as the values themselves: where a sequence started
+// (state s with start values x), where it is now (state c with current
+// values y), and how x and y interleave. The sets R_k are plain maps of
+// them.
 
-// bitset is a set of joint-pattern numbers; bits past the size stay zero.
-type bitset []uint64
+// maxValues is the most values a configuration holds: a start state and
+// a current state of at most MaxPatternLength - 1 values each.
+const maxValues = 2 * (MaxPatternLength - 1)
 
-func newBitset(size int) bitset { return make(bitset, (size+63)/64) }
-
-func (b bitset) has(i int) bool { return b[i>>6]&(1<<(uint(i)&63)) != 0 }
-func (b bitset) set(i int)      { b[i>>6] |= 1 << (uint(i) & 63) }
-
-func (b bitset) count() int {
-	n := 0
-	for _, w := range b {
-		n += bits.OnesCount64(w)
-	}
-	return n
+// config is a joint configuration (s, c, o, w): start state s, current
+// state c, overlap o (the first o current values are the last o start
+// values), and w, the pattern of the start values followed by the current
+// values that are not start values, in w[:n] with n = |s| + |c| - o. It is
+// a fixed-size value, so that maps of it need no allocation per member.
+type config struct {
+	s, c int32
+	o, n uint8
+	w    [maxValues]uint8
 }
 
-// each calls f with every member in increasing order until f returns false.
-func (b bitset) each(f func(i int) bool) {
-	for wi, w := range b {
-		for w != 0 {
-			low := w & -w
-			w ^= low
-			if !f(wi*64 + bits.TrailingZeros64(low)) {
-				return
+// values returns the ranks of w as ints, scaled by the given factor, so
+// that new values can be placed between them.
+func (cf config) values(scale int) []int {
+	out := make([]int, cf.n)
+	for i := range out {
+		out[i] = scale * int(cf.w[i])
+	}
+	return out
+}
+
+// configOf makes the configuration of start state s with start values x
+// and current state c whose current values that are not start values are
+// fresh (o is the overlap): w is the pattern of x followed by fresh.
+func configOf(s, c, o int, x, fresh []int) config {
+	cf := config{s: int32(s), c: int32(c), o: uint8(o), n: uint8(len(x) + len(fresh))}
+	var buf [maxValues]int
+	all := append(append(buf[:0], x...), fresh...)
+	for i, v := range all {
+		rank := 1
+		for _, u := range all {
+			if u < v {
+				rank++
 			}
 		}
+		cf.w[i] = uint8(rank)
+	}
+	return cf
+}
+
+// configSet is a set R_k, or the domain D. sum is the sum of the members'
+// hashes, which differs between sets that differ by one member or more
+// with overwhelming likelihood and is the same for equal sets: sets whose
+// sums differ are unequal, and sets whose sums agree are compared member
+// by member.
+type configSet struct {
+	members map[config]struct{}
+	sum     uint64
+}
+
+var configSeed = maphash.MakeSeed()
+
+func newConfigSet() *configSet { return &configSet{members: map[config]struct{}{}} }
+
+func (cs *configSet) add(cf config) {
+	if _, dup := cs.members[cf]; !dup {
+		cs.members[cf] = struct{}{}
+		cs.sum += maphash.Comparable(configSeed, cf)
 	}
 }
 
-// firstNotIn returns the least member of b that c lacks, or -1.
-func (b bitset) firstNotIn(c bitset) int {
-	for i := range b {
-		if d := b[i] &^ c[i]; d != 0 {
-			return i*64 + bits.TrailingZeros64(d)
-		}
-	}
-	return -1
+func (cs *configSet) has(cf config) bool {
+	_, ok := cs.members[cf]
+	return ok
 }
 
-// firstIn returns the least member of b that c holds too, or -1.
-func (b bitset) firstIn(c bitset) int {
-	for i := range b {
-		if d := b[i] & c[i]; d != 0 {
-			return i*64 + bits.TrailingZeros64(d)
-		}
+func (cs *configSet) equal(other *configSet) bool {
+	if len(cs.members) != len(other.members) || cs.sum != other.sum {
+		return false
 	}
-	return -1
-}
-
-func (b bitset) equal(c bitset) bool {
-	for i := range b {
-		if b[i] != c[i] {
+	for cf := range cs.members {
+		if !other.has(cf) {
 			return false
 		}
 	}
 	return true
 }
 
-// or adds the members of c to b.
-func (b bitset) or(c bitset) {
-	for i := range b {
-		b[i] |= c[i]
-	}
-}
-
-// key returns the contents as a string, for finding repeated sets.
-func (b bitset) key() string {
-	var sb strings.Builder
-	sb.Grow(8 * len(b))
-	for _, w := range b {
-		for s := 0; s < 64; s += 8 {
-			sb.WriteByte(byte(w >> s))
+// least returns the least member of cs (in the order of compareConfigs)
+// for which keep is true, so that messages do not depend on map order; ok
+// is false when there is none.
+func (cs *configSet) least(keep func(config) bool) (cf config, ok bool) {
+	for m := range cs.members {
+		if keep(m) && (!ok || compareConfigs(m, cf) < 0) {
+			cf, ok = m, true
 		}
 	}
-	return sb.String()
+	return cf, ok
 }
 
-// jointPatterns holds the checker's tables for the R_k of one set (m >= 1).
-type jointPatterns struct {
-	m, cells int
-	size     int      // C(2m, m) * cells * cells
-	masks    []uint32 // the masks with m of 2m bits set, increasing
-	cellPerm [][]int  // the permutation of each cell
-	win      windows
-	domain   bitset
-	first    bitset // R_m
-	// per y-cell and j = 0..m (z above exactly j entries of y):
-	extends []bool // the window (y, z) is allowed
-	nextY   []int  // the cell of (y_2, .., y_m, z)
-	// after[(slot*m + r)*(2m+1) + g]: the slot of the new mask when y's
-	// entry of rank r+1 leaves and z comes above g of the 2m values
-	after []int
+// compareConfigs orders configurations by s, c, o, then w.
+func compareConfigs(a, b config) int {
+	switch {
+	case a.s != b.s:
+		return int(a.s) - int(b.s)
+	case a.c != b.c:
+		return int(a.c) - int(b.c)
+	case a.o != b.o:
+		return int(a.o) - int(b.o)
+	}
+	return strings.Compare(string(a.w[:a.n]), string(b.w[:b.n]))
 }
 
-func newJointPatterns(win windows) *jointPatterns {
-	m := win.m
-	jp := &jointPatterns{m: m, cells: factorial(m), win: win}
-	slot := map[uint32]int{}
-	for mask := uint32(0); mask < 1<<(2*m); mask++ {
-		if bits.OnesCount32(mask) == m {
-			slot[mask] = len(jp.masks)
-			jp.masks = append(jp.masks, mask)
-		}
-	}
-	jp.size = len(jp.masks) * jp.cells * jp.cells
-	for c := range jp.cells {
-		jp.cellPerm = append(jp.cellPerm, unrank(m, c))
-	}
-	for _, y := range jp.cellPerm {
-		for j := 0; j <= m; j++ {
-			w := make([]int, 0, m+1) // y in doubled values, z between them
-			for _, v := range y {
-				w = append(w, 2*v)
-			}
-			w = append(w, 2*j+1)
-			jp.extends = append(jp.extends, win.allowed[rankOf(w)])
-			jp.nextY = append(jp.nextY, rankOf(w[1:]))
-		}
-	}
-	for _, mask := range jp.masks {
-		for r := range m {
-			leave := nthSetBit(mask, r)
-			rest := removeBit(mask, leave)
-			for g := 0; g <= 2*m; g++ {
-				at := g // z's place among the 2m-1 values left
-				if leave < g {
-					at--
-				}
-				jp.after = append(jp.after, slot[insertBit(rest, at)])
-			}
-		}
-	}
-	jp.domain, jp.first = newBitset(jp.size), newBitset(jp.size)
-	for s := range jp.masks {
-		for xc := range jp.cells {
-			for yc := range jp.cells {
-				if win.good[xc] && win.good[yc] {
-					jp.domain.set(jp.number(s, xc, yc))
-				}
-			}
-		}
-	}
-	q := identity(2 * m)
-	for { // R_m: the avoiding permutations of length 2m themselves
-		if jp.forbiddenWindow(q) < 0 {
-			jp.first.set(jp.numberOf(q))
-		}
-		if nextPerm(q) < 0 {
-			return jp
-		}
-	}
+// jointSystem computes the sets R_k of a set's recurrent states.
+type jointSystem struct {
+	sp        *stateSpace
+	recurrent []int
+	isRec     []bool
+	longest   int // w, the length of the longest member
 }
 
-// nthSetBit returns the position of the (r+1)-th lowest set bit.
-func nthSetBit(mask uint32, r int) int {
-	for range r {
-		mask &= mask - 1
+func newJointSystem(sp *stateSpace, recurrent []int) *jointSystem {
+	j := &jointSystem{sp: sp, recurrent: recurrent, isRec: make([]bool, len(sp.states)), longest: sp.set.longest()}
+	for _, p := range recurrent {
+		j.isRec[p] = true
 	}
-	return bits.TrailingZeros32(mask)
+	return j
 }
 
-// removeBit deletes position p, moving the higher bits down.
-func removeBit(mask uint32, p int) uint32 {
-	low := mask & (1<<p - 1)
-	return low | (mask>>(p+1))<<p
-}
+func (j *jointSystem) size(state int32) int { return len(j.sp.states[state]) }
 
-// insertBit inserts a set bit at position p, moving the higher bits up.
-func insertBit(mask uint32, p int) uint32 {
-	low := mask & (1<<p - 1)
-	return low | 1<<p | (mask>>p)<<(p+1)
-}
-
-func (jp *jointPatterns) number(slot, xc, yc int) int {
-	return (slot*jp.cells+xc)*jp.cells + yc
-}
-
-// numberOf returns the number of the joint pattern of q (length 2m: x then
-// y, distinct values).
-func (jp *jointPatterns) numberOf(q []int) int {
-	m := jp.m
-	var mask uint32
-	for _, v := range q[m:] {
-		below := 0
-		for _, u := range q {
-			if u < v {
-				below++
-			}
-		}
-		mask |= 1 << below
-	}
-	s := 0
-	for jp.masks[s] != mask {
-		s++
-	}
-	return jp.number(s, rankOf(q[:m]), rankOf(q[m:]))
-}
-
-// perm returns the joint pattern of a number as a permutation of 1..2m.
-func (jp *jointPatterns) perm(n int) []int {
-	m := jp.m
-	yc := n % jp.cells
-	xc := (n / jp.cells) % jp.cells
-	mask := jp.masks[n/jp.cells/jp.cells]
-	var xPlaces, yPlaces []int // the values of x's and y's slots, increasing
-	for t := range 2 * m {
-		if mask&(1<<t) != 0 {
-			yPlaces = append(yPlaces, t+1)
-		} else {
-			xPlaces = append(xPlaces, t+1)
-		}
-	}
-	q := make([]int, 0, 2*m)
-	for _, r := range jp.cellPerm[xc] {
-		q = append(q, xPlaces[r-1])
-	}
-	for _, r := range jp.cellPerm[yc] {
-		q = append(q, yPlaces[r-1])
-	}
-	return q
-}
-
-// describe writes the joint pattern of a number, for messages.
-func (jp *jointPatterns) describe(n int) string { return formatPerm(jp.perm(n)) }
-
-// forbiddenWindow returns the start of the first window of length m+1 of
-// seq that is not allowed, or -1. For len(seq) >= m+1, -1 means that seq
-// avoids every member of the set.
-func (jp *jointPatterns) forbiddenWindow(seq []int) int {
-	for i := 0; i+jp.m < len(seq); i++ {
-		if !jp.win.allowed[rankOf(seq[i:i+jp.m+1])] {
-			return i
-		}
-	}
-	return -1
-}
-
-// step returns R_(k+1) from cur = R_k.
-func (jp *jointPatterns) step(cur bitset) bitset {
-	m := jp.m
-	next := newBitset(jp.size)
-	cur.each(func(n int) bool {
-		yc := n % jp.cells
-		xc := (n / jp.cells) % jp.cells
-		s := n / jp.cells / jp.cells
-		mask := jp.masks[s]
-		leaving := jp.cellPerm[yc][0] - 1 // y_1's rank among y, from 0
-		after := jp.after[(s*m+leaving)*(2*m+1):]
-		for g := 0; g <= 2*m; g++ {
-			j := bits.OnesCount32(mask & (1<<g - 1))
-			if jp.extends[yc*(m+1)+j] {
-				next.set(jp.number(after[g], xc, jp.nextY[yc*(m+1)+j]))
-			}
-		}
-		return true
-	})
-	return next
-}
-
-// closable reports whether the joint pattern q = (x, u) closes into a
-// cyclic avoider: the m windows (u_i..u_m, x_1..x_i), i = 1..m, that wrap
-// around from the last entries to the first are allowed.
-func (jp *jointPatterns) closable(q []int) bool {
-	m := jp.m
-	buf := make([]int, 0, m+1)
-	for i := range m {
-		buf = append(append(buf[:0], q[m+i:]...), q[:i+1]...)
-		if !jp.win.allowed[rankOf(buf)] {
-			return false
-		}
-	}
-	return true
-}
-
-// rankOf returns the lexicographic rank of the pattern of a sequence of
-// distinct values: the sum over positions i of c_i (n-1-i)!, c_i the
-// number of later entries below entry i, evaluated in Horner form.
-func rankOf(seq []int) int {
-	n, r := len(seq), 0
-	for i, v := range seq {
-		c := 0
-		for _, u := range seq[i+1:] {
-			if u < v {
-				c++
-			}
-		}
-		r = r*(n-i) + c
+// first returns R_0: every recurrent state s, started and not yet moved,
+// (s, s, |s|, s).
+func (j *jointSystem) first() *configSet {
+	r := newConfigSet()
+	for _, s := range j.recurrent {
+		x := j.sp.states[s]
+		r.add(configOf(s, s, len(x), x, nil))
 	}
 	return r
 }
 
-// nextPerm advances q to the next permutation in lexicographic order and
-// returns the position of the first entry it changes; -1 when q was the
-// last permutation (q is then unchanged).
-func nextPerm(q []int) int {
-	i := len(q) - 2
-	for i >= 0 && q[i] > q[i+1] {
-		i--
+// domain returns D: for every ordered pair (s, c) of recurrent states,
+// every way to interleave |s| start values with |c| current values, none
+// shared: the start values take the ranks of a subset of 1..|s|+|c| in
+// the order of s, and the current values the other ranks in the order of
+// c.
+func (j *jointSystem) domain() *configSet {
+	d := newConfigSet()
+	for _, s := range j.recurrent {
+		for _, c := range j.recurrent {
+			ps, pc := j.sp.states[s], j.sp.states[c]
+			eachSubset(len(ps)+len(pc), len(ps), func(chosen, rest []int) {
+				x, y := make([]int, len(ps)), make([]int, len(pc))
+				for i, r := range ps {
+					x[i] = chosen[r-1]
+				}
+				for i, r := range pc {
+					y[i] = rest[r-1]
+				}
+				d.add(configOf(s, c, 0, x, y))
+			})
+		}
 	}
-	if i < 0 {
-		return -1
-	}
-	j := len(q) - 1
-	for q[j] < q[i] {
-		j--
-	}
-	q[i], q[j] = q[j], q[i]
-	for a, b := i+1, len(q)-1; a < b; a, b = a+1, b-1 {
-		q[a], q[b] = q[b], q[a]
-	}
-	return i
+	return d
 }
 
-func identity(n int) []int {
-	q := make([]int, n)
-	for i := range q {
-		q[i] = i + 1
+// eachSubset calls f with every subset of size k of 1..n, increasing, and
+// its complement, increasing.
+func eachSubset(n, k int, f func(chosen, rest []int)) {
+	chosen := make([]int, 0, k)
+	var pick func(next int)
+	pick = func(next int) {
+		if len(chosen) == k {
+			rest := make([]int, 0, n-k)
+			for v, i := 1, 0; v <= n; v++ {
+				if i < k && chosen[i] == v {
+					i++
+				} else {
+					rest = append(rest, v)
+				}
+			}
+			f(chosen, rest)
+			return
+		}
+		for v := next; v <= n-(k-len(chosen))+1; v++ {
+			chosen = append(chosen, v)
+			pick(v + 1)
+			chosen = chosen[:len(chosen)-1]
+		}
 	}
-	return q
+	pick(1)
+}
+
+// startAndCurrent returns the start values x and the current values y of
+// a configuration, each value scaled by the given factor.
+func (j *jointSystem) startAndCurrent(cf config, scale int) (x, y []int) {
+	all := cf.values(scale)
+	ls := j.size(cf.s)
+	x = all[:ls]
+	y = append(append(make([]int, 0, maxValues+1), x[ls-int(cf.o):]...), all[ls:]...)
+	return x, y
+}
+
+// next adds to out every configuration one move after cf: the new value z
+// in each gap g of the values (values scaled by 2, so z = 2g+1 lies above
+// exactly g of them); the move of the current state at the gap of z among
+// y, when it is allowed and its target recurrent; the oldest drops values
+// of y and z dropped, start values among them staying start values.
+func (j *jointSystem) next(cf config, out *configSet) {
+	x, y := j.startAndCurrent(cf, 2)
+	grown := make([]int, 0, len(y)+1)
+	for g := 0; g <= int(cf.n); g++ {
+		z := 2*g + 1
+		below := 0
+		for _, v := range y {
+			if v < z {
+				below++
+			}
+		}
+		mv := j.sp.moves[cf.c][below]
+		if !mv.allowed || !j.isRec[mv.to] {
+			continue
+		}
+		drops := len(mv.drops)
+		kept := append(append(grown[:0], y...), z)[drops:]
+		o := max(0, int(cf.o)-drops)
+		out.add(configOf(int(cf.s), mv.to, o, x, kept[o:]))
+	}
+}
+
+// closable reports whether, from the current state with values y, the
+// copies x'_1 .. x'_|s| of the start values, each put just above its
+// x_i, can be appended by allowed moves ending in the start state s with
+// exactly the values x' (docs/prefix-states.md, "closable
+// configurations"). Values are scaled by 2, so x'_i = x_i + 1 lies above
+// x_i and below every other value above it (the copies are odd, the
+// values even).
+func (j *jointSystem) closable(cf config) bool {
+	x, y := j.startAndCurrent(cf, 2)
+	state, held := int(cf.c), y
+	for _, xi := range x {
+		z := xi + 1
+		below := 0
+		for _, v := range held {
+			if v < z {
+				below++
+			}
+		}
+		mv := j.sp.moves[state][below]
+		if !mv.allowed {
+			return false
+		}
+		held = append(held[:len(held):len(held)], z)[len(mv.drops):]
+		state = mv.to
+	}
+	return state == int(cf.s)
+}
+
+// describe writes a configuration in one line for messages.
+func (j *jointSystem) describe(cf config) string {
+	return fmt.Sprintf("(start %s, current %s, overlap %d, order %s)", stateName(j.sp.states[cf.s]), stateName(j.sp.states[cf.c]), cf.o, formatPerm(cf.values(1)))
+}
+
+// stateName writes a state as its pattern, () for the empty one.
+func stateName(p perm) string {
+	if len(p) == 0 {
+		return "()"
+	}
+	return p.String()
 }

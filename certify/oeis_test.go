@@ -109,3 +109,25 @@ func TestCountsBruteForce(t *testing.T) {
 		}
 	}
 }
+
+// TestCountsLengthEightAndNine compares Counts with plain enumeration for
+// sets with members of length 8 and 9, the longest a certificate may name,
+// up to n = 9.
+func TestCountsLengthEightAndNine(t *testing.T) {
+	for _, given := range [][]string{{"123456789"}, {"21436587"}, {"132", "987654321"}, {"12345678", "897564231"}} {
+		got, err := certify.Counts(context.Background(), given, 9)
+		if err != nil {
+			t.Fatal(err)
+		}
+		pats := parsePats(given)
+		for n, c := range got {
+			if want := brute.Count(n, pats); c.Cmp(big.NewInt(int64(want))) != 0 {
+				t.Fatalf("%v: a_%d = %s, enumeration gives %d", given, n, c, want)
+			}
+		}
+	}
+	// a pattern of length 10 is beyond the limit
+	if _, err := certify.Counts(context.Background(), []string{"1.2.3.4.5.6.7.8.9.10"}, 3); err == nil || !strings.Contains(err.Error(), "length 10 is over the limit of 9") {
+		t.Fatalf("length 10: %v", err)
+	}
+}

@@ -102,11 +102,11 @@ func (ck *checker) limits() error {
 		// (GOGC = 100) before it collects the iterates of past steps
 		memory = max(memory, 2*live)
 	}
-	ck.total = work
 	// the structure section is verified first, on its own memory
-	sw, sm := ck.structureWork()
+	sw, sm := ck.structureCost()
 	work += sw
 	memory = max(memory, sm)
+	ck.total = work
 	if work > float64(ck.opts.MaxWork) {
 		return &LimitError{Resource: "work", Need: work, Limit: float64(ck.opts.MaxWork)}
 	}
@@ -252,6 +252,12 @@ func (ck *checker) compare(ctx context.Context, i int, h, n *iterate) error {
 			switch {
 			case left.Cmp(&right) <= 0:
 			case H.Sign() == 0:
+				// Not reached from a certificate that passed statement
+				// (N at least every state's length): a sequence counted at
+				// (p, a) in G_(N+1), less its oldest value (an old value of
+				// some gap j, or for start ones one of the start's values),
+				// is counted at (p, a - e_j) in G_N, so H[a] > 0. Kept for
+				// its message; compare_internal_test.go reaches it directly.
 				return fmt.Errorf("%s: G_%d is positive where the elevated G_%d is 0 (state %d, index %v), so hi must be infinite", ck.describe(i), n.n, b.N, p, ck.composition(num, r))
 			default:
 				return fmt.Errorf("%s: hi is below the ratio G_%d/elevated G_%d = %s/%s at state %d, index %v", ck.describe(i), n.n, b.N, abbreviate(N.String()), abbreviate(H.String()), p, ck.composition(num, r))

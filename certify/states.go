@@ -12,10 +12,11 @@ import (
 // every state and gap the move a new value in that gap makes.
 type stateSpace struct {
 	set    patternSet
-	states []perm         // shorter first, then lexicographically; states[0] is ()
-	index  map[string]int // state (by key) -> its number
-	moves  [][]move       // moves[p][i]: the new value in gap i of state p
-	maxLen int            // M, the largest state length
+	member map[string]bool // the members of the set, by key
+	states []perm          // shorter first, then lexicographically; states[0] is ()
+	index  map[string]int  // state (by key) -> its number
+	moves  [][]move        // moves[p][i]: the new value in gap i of state p
+	maxLen int             // M, the largest state length
 }
 
 // move is what one step does to a state p of length L when the new value
@@ -39,7 +40,10 @@ func stateKey(p []int) string {
 
 // newStateSpace builds the prefix states of s and their moves.
 func newStateSpace(s patternSet) *stateSpace {
-	sp := &stateSpace{set: s, index: map[string]int{}}
+	sp := &stateSpace{set: s, member: map[string]bool{}, index: map[string]int{}}
+	for _, pat := range s {
+		sp.member[stateKey(pat)] = true
+	}
 	var states []perm
 	seen := map[string]bool{}
 	for _, pat := range s {
@@ -83,11 +87,8 @@ func grow(p perm, gap int) perm {
 func (sp *stateSpace) moveOf(p perm, gap int) move {
 	q := grow(p, gap)
 	for l := 1; l <= len(q); l++ {
-		tail := q[len(q)-l:]
-		for _, pat := range sp.set {
-			if len(pat) == l && sameOrder(pat, tail) {
-				return move{}
-			}
+		if sp.member[stateKey(std(q[len(q)-l:]))] {
+			return move{}
 		}
 	}
 	keep := 0

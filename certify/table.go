@@ -28,14 +28,18 @@ func (t *table) size() int { return len(t.w) / t.words }
 
 // wordsFor returns the width that holds every number of an iteration at
 // n = top. Every coefficient of G_n of the whole system counts some of the
-// avoiding permutations of length n, so it is at most n!; from start ones
-// each of at most C(12, 6) = 924 coefficients of G_(n_s) = 1 has at most
-// n!/n_s! descendants at n, so the coefficients stay below 2^10 n!. A
-// running sum is a partial sum of one output and a merge sums entries of
-// one iterate. One elevation of a table of degree D gives each entry at
-// most (D+1) times the largest, and D <= N, so the d-fold elevation of G_N
-// stays below 2^10 (N+d)! as well. Two words beyond (top)! are a margin
-// over the factor 2^10.
+// avoiding permutations of length n, so it is at most n!. From start ones
+// at n_s <= 8, each of the coefficients of G_(n_s) = 1 has at most
+// (n_s+1)(n_s+2)..n = n!/n_s! descendants at n (one per gap and split of
+// each new value), and there are at most 2^10 n_s! of them (the states of
+// length l <= n_s number at most l!, each with at most C(n_s, l) <= 2^n_s
+// coefficients, so sum_l l! 2^n_s <= 2 n_s! 2^n_s, and 2^(n_s+1) <= 2^10 for
+// n_s <= 8), so the coefficients stay below 2^10 n!. A running sum is a
+// partial sum of one output and a merge sums entries of one iterate. One
+// elevation of a table of degree D gives each entry at most (D+1) times the
+// largest, and D <= N, so the d-fold elevation of G_N stays below
+// 2^10 (N+d)! as well. Two words beyond (top)! are a margin over the factor
+// 2^10.
 func wordsFor(top int) int {
 	f := new(big.Int).MulRange(1, int64(max(top, 1)))
 	return f.BitLen()/64 + 3

@@ -13,11 +13,17 @@ type Verified struct {
 	Patterns []string // the irredundant set
 	Window   int      // the length of its longest pattern
 	// Class is the structure class, "" when the certificate has no
-	// structure section. Period is 1 for a primitive class and p for a
-	// periodic one, Exponent e for a primitive one; 0 where they do not
-	// apply.
-	Class            string
-	Period, Exponent int
+	// structure section. Exponent is the primitivity exponent e of a
+	// primitive class, Period p of a periodic one, N1 the first n with
+	// a_n = 0 of a finite one, Blocks the blocks of recurrent states of a
+	// reducible one; zero or nil where they do not apply. LambdaStatus is
+	// "positive", "zero" or "undecided" ("" without a structure section),
+	// and CyclicAvoider its evidence when positive.
+	Class                string
+	Exponent, Period, N1 int
+	Blocks               [][]int
+	LambdaStatus         string
+	CyclicAvoider        string
 	// Lambda and Radius are the statement's outward decimals, checked
 	// against their rationals; an infinite end is "".
 	Lambda, Radius [2]string
@@ -42,14 +48,20 @@ func Summarize(c *Certificate) Verified {
 	st := c.Statement
 	v := Verified{
 		Patterns: append([]string(nil), st.Patterns...),
-		Window:   c.Evidence.CellLength + 1,
 		Lambda:   [2]string{st.Lambda.LoDecimal, st.Lambda.HiDecimal},
 		Radius:   [2]string{st.Radius.LoDecimal, st.Radius.HiDecimal},
 	}
+	for _, p := range st.Patterns {
+		v.Window = max(v.Window, patternLength(p))
+	}
 	if s := c.Structure; s != nil {
-		v.Class, v.Period, v.Exponent = string(s.Class), s.Period, s.Exponent
-		if s.Class == ClassPrimitive {
-			v.Period = 1
+		v.Class, v.Exponent, v.Period, v.N1 = string(s.Class), s.Exponent, s.Period, s.N1
+		v.LambdaStatus = string(s.Lambda)
+		for _, b := range s.Blocks {
+			v.Blocks = append(v.Blocks, append([]int(nil), b...))
+		}
+		if s.CyclicAvoider != nil {
+			v.CyclicAvoider = formatPerm(s.CyclicAvoider)
 		}
 	}
 	for _, b := range c.Evidence.Brackets {
@@ -93,11 +105,23 @@ func (v Verified) Lines() []string {
 	case v.Class == "":
 		lines = append(lines, "no structure section: the class is not certified")
 	case v.Exponent > 0:
-		lines = append(lines, fmt.Sprintf("class %s, exponent %d", v.Class, v.Exponent))
-	case v.Period > 1:
+		lines = append(lines, fmt.Sprintf("class %s, primitivity exponent k = %d", v.Class, v.Exponent))
+	case v.Period > 0:
 		lines = append(lines, fmt.Sprintf("class %s, period %d", v.Class, v.Period))
+	case v.N1 > 0:
+		lines = append(lines, fmt.Sprintf("class %s, a_n = 0 exactly from n = %d on", v.Class, v.N1))
+	case v.Blocks != nil:
+		lines = append(lines, fmt.Sprintf("class %s, %d block(s) of recurrent states", v.Class, len(v.Blocks)))
 	default:
 		lines = append(lines, "class "+v.Class)
+	}
+	switch v.LambdaStatus {
+	case string(LambdaPositive):
+		lines = append(lines, fmt.Sprintf("lambda > 0 proved: %s is a cyclic avoider (length %d)", v.CyclicAvoider, patternLength(v.CyclicAvoider)))
+	case string(LambdaZero):
+		lines = append(lines, "lambda = 0 proved: no cyclic avoider of any length")
+	case string(LambdaUndecided):
+		lines = append(lines, "lambda > 0 undecided")
 	}
 	lines = append(lines, v.Brackets...)
 	if a := v.AllN; a != nil {
@@ -120,4 +144,13 @@ func shortInteger(s string) string {
 		return s
 	}
 	return fmt.Sprintf("%s...%s (%d digits)", s[:15], s[len(s)-15:], len(s))
+}
+
+// patternLength is the number of entries of a pattern in its one
+// spelling: digits, or entries separated by dots.
+func patternLength(p string) int {
+	if strings.Contains(p, ".") {
+		return strings.Count(p, ".") + 1
+	}
+	return len(p)
 }

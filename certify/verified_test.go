@@ -12,7 +12,8 @@ import (
 
 // Summarize states the golden certificate of 123 in the checker's own
 // decimals: the lambda ends as in the file, mu_lo = 21/26 rounded down and
-// mu_hi = 41/49 rounded up at its 12 digits, a_8 = 13358 (OEIS A049774).
+// mu_hi = 41/49 rounded up at its 12 digits, a_8 = 13358 (OEIS A049774),
+// and its structure section (primitive with exponent 4, cyclic avoider 321).
 func TestSummarizeGolden(t *testing.T) {
 	f, err := os.Open(goldenPath)
 	if err != nil {
@@ -31,14 +32,15 @@ func TestSummarizeGolden(t *testing.T) {
 		"the set 123 (window length 3)",
 		"lambda   in [0.807692307692, 0.836734693878]",
 		"1/lambda in [1.19512195121, 1.2380952381]",
-		"class primitive, exponent 4",
+		"class primitive, primitivity exponent k = 4",
+		"lambda > 0 proved: 321 is a cyclic avoider (length 3)",
 		"bracket of G_8 against G_9, step 1, on the whole system",
 		"for every n >= 8: A*0.807692307692^(n-8) <= a_n/n! <= A*0.836734693878^(n-8), A = a_8/8!, a_8 = 13358",
 	}
 	if got := v.Lines(); !slices.Equal(got, want) {
 		t.Errorf("lines\n%s\nwant\n%s", strings.Join(got, "\n"), strings.Join(want, "\n"))
 	}
-	if v.Period != 1 || v.Exponent != 4 || !slices.Equal(v.N, []int{8}) || v.AllN.AN0 != "13358" {
+	if v.Period != 0 || v.Exponent != 4 || v.LambdaStatus != "positive" || !slices.Equal(v.N, []int{8}) || v.AllN.AN0 != "13358" {
 		t.Errorf("summary %+v", v)
 	}
 }

@@ -11,6 +11,8 @@ import (
 	"math/big"
 	"os"
 	"path/filepath"
+	"reflect"
+	"slices"
 	"strings"
 )
 
@@ -44,17 +46,12 @@ type wireStatement struct {
 }
 
 type wireStructureClaim struct {
-	Class        string        `json:"class"`
-	Exponent     int           `json:"exponent,omitempty"`
-	Period       int           `json:"period,omitempty"`
-	FiniteFrom   int           `json:"finite_from,omitempty"`
-	Unreached    *wireCellPair `json:"unreached,omitempty"`
-	LambdaStatus string        `json:"lambda_status"`
-}
-
-type wireCellPair struct {
-	From string `json:"from"`
-	To   string `json:"to"`
+	Class        string  `json:"class"`
+	Exponent     int     `json:"primitivity_exponent,omitempty"`
+	Period       int     `json:"period,omitempty"`
+	FiniteFrom   int     `json:"finite_from,omitempty"`
+	Blocks       [][]int `json:"blocks,omitempty"`
+	LambdaStatus string  `json:"lambda_status"`
 }
 
 type wireRange struct {
@@ -75,7 +72,6 @@ type wireAllN struct {
 type wireEvidence struct {
 	Method        string        `json:"method"`
 	MethodVersion int           `json:"method_version"`
-	CellLength    int           `json:"cell_length"`
 	States        int           `json:"states"`
 	Brackets      []wireBracket `json:"brackets"`
 	// optional, with statement.structure
@@ -83,12 +79,12 @@ type wireEvidence struct {
 }
 
 type wireStructureEvidence struct {
-	Method        string          `json:"method"`
-	MethodVersion int             `json:"method_version"`
-	Mode          string          `json:"mode,omitempty"`
-	JointCycle    *wireJointCycle `json:"joint_cycle,omitempty"`
-	CyclicAvoider string          `json:"cyclic_avoider,omitempty"`
-	Witnesses     []string        `json:"witnesses,omitempty"`
+	Method         string          `json:"method"`
+	MethodVersion  int             `json:"method_version"`
+	Recurrent      []int           `json:"recurrent_states,omitempty"`
+	Configurations int             `json:"configurations,omitempty"`
+	JointCycle     *wireJointCycle `json:"joint_cycle,omitempty"`
+	CyclicAvoider  string          `json:"cyclic_avoider,omitempty"`
 }
 
 type wireJointCycle struct {
@@ -166,38 +162,47 @@ func Read(r io.Reader) (*Certificate, error) {
 	if len(data) > MaxFileSize {
 		return nil, fmt.Errorf("certificate: file is larger than the limit of %d bytes; no certificate this checker writes is that large, so this is not one", MaxFileSize)
 	}
-	var head struct {
-		Content struct {
-			Format  string          `json:"format"`
-			Version json.RawMessage `json:"version"`
-		} `json:"content"`
-		End string `json:"end"`
+	// The whole file's syntax first (trailing data included), then a
+	// plain tree of it, whose keys are exactly as written: the typed
+	// decoder below matches member names regardless of case.
+	var tree map[string]any
+	treeErr := json.Unmarshal(data, new(json.RawMessage))
+	if treeErr == nil {
+		dec := json.NewDecoder(bytes.NewReader(data))
+		dec.UseNumber()
+		treeErr = dec.Decode(&tree)
 	}
-	headErr := json.Unmarshal(data, &head)
-	if headErr == nil && head.Content.Format != Format {
-		return nil, fmt.Errorf("certificate: content.format is %q, not %q: this is not an avoidcert certificate", abbreviate(head.Content.Format), Format)
+	content, _ := tree["content"].(map[string]any)
+	format, _ := content["format"].(string)
+	end, _ := tree["end"].(string)
+	if treeErr == nil && format != Format {
+		return nil, fmt.Errorf("certificate: content.format is %q, not %q: this is not an avoidcert certificate", abbreviate(format), Format)
 	}
 	if bytes.Contains(data, []byte("\r\n")) {
 		return nil, errors.New("certificate: the file has CRLF line endings (changed by a text-mode copy or a line-ending conversion?); certificates use LF only, restore the original file")
 	}
-	if headErr != nil || head.End != EndMarker {
+	if treeErr != nil || end != EndMarker {
 		// a re-indented or compacted file still parses and still ends
 		// with the marker; only a cut or damaged one lands here
 		if !bytes.HasSuffix(data, []byte(fileEnd)) {
 			return nil, fmt.Errorf("certificate: truncated or damaged: the file does not end with the end marker %q", EndMarker)
 		}
-		if headErr != nil {
-			return nil, fmt.Errorf("certificate: not valid JSON: %s", jsonProblem(headErr))
+		if treeErr != nil {
+			return nil, fmt.Errorf("certificate: not valid JSON: %s", jsonProblem(treeErr))
 		}
-		return nil, fmt.Errorf("certificate: end marker is %q, not %q", abbreviate(head.End), EndMarker)
+		return nil, fmt.Errorf("certificate: end marker is %q, not %q", abbreviate(end), EndMarker)
 	}
-	switch v := string(head.Content.Version); {
-	case v == "":
+	version, hasVersion := content["version"]
+	if hasVersion {
+		if err := checkVersion(version); err != nil {
+			return nil, err
+		}
+	}
+	if name, ok := unknownMember(tree); ok {
+		return nil, fmt.Errorf("certificate: %q is not a member name of format version %d (names are exact, in lower case)", abbreviate(name), Version)
+	}
+	if !hasVersion {
 		return nil, errors.New("certificate: content.version is missing")
-	case v == "1" || v == "2":
-		return nil, fmt.Errorf("certificate: format version %s (order cells) is no longer checked; re-issue it with `avoidcert bound PATTERNS --out FILE`, which writes version %d (prefix states)", v, Version)
-	case v != fmt.Sprint(Version):
-		return nil, fmt.Errorf("certificate: format version %s; this checker reads version %d only", abbreviate(v), Version)
 	}
 	var f wireFile
 	dec := json.NewDecoder(bytes.NewReader(data))
@@ -241,6 +246,76 @@ func Read(r io.Reader) (*Certificate, error) {
 		return nil, fmt.Errorf("certificate: not in canonical form (first difference on line %d); files are compared byte for byte with what the writer produces", differ[0]+1)
 	}
 	return c, nil
+}
+
+// checkVersion refuses every content.version but Version, naming the
+// command that re-issues a certificate of an older version.
+func checkVersion(version any) error {
+	n, ok := version.(json.Number)
+	if !ok {
+		return errors.New("certificate: content.version is not a number")
+	}
+	switch v := n.String(); v {
+	case fmt.Sprint(Version):
+		return nil
+	case "1", "2":
+		return fmt.Errorf("certificate: format version %s (order cells) is no longer checked; re-issue it with `avoidcert bound PATTERNS --out FILE`, which writes version %d (prefix states)", v, Version)
+	case "3":
+		return fmt.Errorf("certificate: format version 3 (its structure section on order cells) is no longer checked; re-issue it with `avoidcert bound PATTERNS --out FILE`, which writes version %d (structure on prefix states)", Version)
+	default:
+		return fmt.Errorf("certificate: format version %s; this checker reads version %d only", abbreviate(v), Version)
+	}
+}
+
+// memberNames holds every member name of the format, from the JSON
+// tags of the wire types. All are in lower case, so a key that the typed
+// decoder matched at its place regardless of case and that is also in
+// this set is the exact name of that member.
+var memberNames = func() map[string]bool {
+	names := map[string]bool{}
+	var walk func(t reflect.Type)
+	walk = func(t reflect.Type) {
+		switch t.Kind() {
+		case reflect.Pointer, reflect.Slice:
+			walk(t.Elem())
+		case reflect.Struct:
+			for i := range t.NumField() {
+				name, _, _ := strings.Cut(t.Field(i).Tag.Get("json"), ",")
+				names[name] = true
+				walk(t.Field(i).Type)
+			}
+		}
+	}
+	walk(reflect.TypeFor[wireFile]())
+	return names
+}()
+
+// unknownMember returns the first key of the tree, in sorted order at
+// each level, that is not exactly a member name of the format.
+func unknownMember(v any) (string, bool) {
+	switch v := v.(type) {
+	case map[string]any:
+		keys := make([]string, 0, len(v))
+		for k := range v {
+			keys = append(keys, k)
+		}
+		slices.Sort(keys)
+		for _, k := range keys {
+			if !memberNames[k] {
+				return k, true
+			}
+			if name, ok := unknownMember(v[k]); ok {
+				return name, true
+			}
+		}
+	case []any:
+		for _, x := range v {
+			if name, ok := unknownMember(x); ok {
+				return name, true
+			}
+		}
+	}
+	return "", false
 }
 
 // Write writes the canonical file of c to path atomically: into a
@@ -305,7 +380,7 @@ func toWire(c *Certificate) (wireContent, error) {
 			Canonical: s.Canonical,
 			Quantity:  Quantity,
 		},
-		Evidence: wireEvidence{Method: Method, MethodVersion: MethodVersion, CellLength: c.Evidence.CellLength, States: c.Evidence.States},
+		Evidence: wireEvidence{Method: Method, MethodVersion: MethodVersion, States: c.Evidence.States},
 	}
 	var err error
 	rat := func(name string, r *big.Rat, optional bool) string {
@@ -359,34 +434,31 @@ func toWire(c *Certificate) (wireContent, error) {
 // structureFromWire's business.
 func structureToWire(st *Structure) (*wireStructureClaim, *wireStructureEvidence) {
 	claim := &wireStructureClaim{Class: string(st.Class), Exponent: st.Exponent, Period: st.Period,
-		FiniteFrom: st.N1, LambdaStatus: string(st.Lambda)}
-	if st.Unreached != nil {
-		claim.Unreached = &wireCellPair{From: formatPerm(st.Unreached.From), To: formatPerm(st.Unreached.To)}
-	}
-	ev := &wireStructureEvidence{Method: StructureMethod, MethodVersion: StructureMethodVersion, Mode: string(st.Mode)}
+		FiniteFrom: st.N1, Blocks: st.Blocks, LambdaStatus: string(st.Lambda)}
+	ev := &wireStructureEvidence{Method: StructureMethod, MethodVersion: StructureMethodVersion,
+		Recurrent: st.Recurrent, Configurations: st.Configurations}
 	if st.CycleStart != 0 || st.CycleLength != 0 {
 		ev.JointCycle = &wireJointCycle{Start: st.CycleStart, Length: st.CycleLength}
 	}
 	if st.CyclicAvoider != nil {
 		ev.CyclicAvoider = formatPerm(st.CyclicAvoider)
 	}
-	if st.Witnesses != nil {
-		ev.Witnesses = make([]string, len(st.Witnesses))
-		for i, p := range st.Witnesses {
-			ev.Witnesses[i] = formatPerm(p)
-		}
-	}
 	return claim, ev
 }
 
+// maxConfigurations bounds the configurations member: |D| of MaxStates
+// states of length 8 is below 46234^2 C(16, 8) < 3e13.
+const maxConfigurations = 1 << 50
+
 // structureFromWire parses and validates a structure section: fixed
-// strings, known names, ranges, permutations in their one spelling.
+// strings, known names, ranges, state numbers, permutations in their one
+// spelling. The result owns all its values.
 func structureFromWire(claim *wireStructureClaim, ev *wireStructureEvidence) (*Structure, error) {
 	fail := func(field, format string, args ...any) (*Structure, error) {
 		return nil, fmt.Errorf("%s: %s", field, fmt.Sprintf(format, args...))
 	}
-	st := &Structure{Class: StructureClass(claim.Class), Lambda: LambdaStatus(claim.LambdaStatus), Mode: EvidenceMode(ev.Mode),
-		Exponent: claim.Exponent, Period: claim.Period, N1: claim.FiniteFrom}
+	st := &Structure{Class: StructureClass(claim.Class), Lambda: LambdaStatus(claim.LambdaStatus),
+		Exponent: claim.Exponent, Period: claim.Period, N1: claim.FiniteFrom, Configurations: ev.Configurations}
 	switch {
 	case ev.Method != StructureMethod:
 		return fail("evidence.structure.method", "%q is not %q", abbreviate(ev.Method), StructureMethod)
@@ -403,34 +475,41 @@ func structureFromWire(claim *wireStructureClaim, ev *wireStructureEvidence) (*S
 	default:
 		return fail("statement.structure.lambda_status", "%q is not one of positive, zero, undecided", abbreviate(claim.LambdaStatus))
 	}
-	switch st.Mode {
-	case "", ModeWitnesses, ModeRecompute:
-	default:
-		return fail("evidence.structure.mode", "%q is not witnesses or recompute", abbreviate(ev.Mode))
-	}
-	const most = MaxJointSteps + MaxPatternLength
 	for _, n := range []struct {
-		field string
-		v     int
-	}{{"statement.structure.exponent", st.Exponent}, {"statement.structure.period", st.Period}, {"statement.structure.finite_from", st.N1}} {
-		if n.v < 0 || n.v > most {
-			return fail(n.field, "%d out of range 0..%d", n.v, most)
+		field    string
+		v, limit int
+	}{
+		{"statement.structure.primitivity_exponent", st.Exponent, MaxJointSteps},
+		{"statement.structure.period", st.Period, MaxJointSteps},
+		{"statement.structure.finite_from", st.N1, MaxStates + 1},
+		{"evidence.structure.configurations", st.Configurations, maxConfigurations},
+	} {
+		if n.v < 0 || n.v > n.limit {
+			return fail(n.field, "%d out of range 0..%d", n.v, n.limit)
 		}
 	}
-	if u := claim.Unreached; u != nil {
-		from, err := parsePerm(u.From)
-		if err != nil {
-			return fail("statement.structure.unreached.from", "%v", err)
+	if len(claim.Blocks) > MaxStates {
+		return fail("statement.structure.blocks", "%d blocks; a set has at most %d states", len(claim.Blocks), MaxStates)
+	}
+	if claim.Blocks != nil {
+		st.Blocks = make([][]int, len(claim.Blocks))
+	}
+	for i, b := range claim.Blocks {
+		field := fmt.Sprintf("statement.structure.blocks[%d]", i)
+		if err := checkStateList(b); err != nil {
+			return fail(field, "%v", err)
 		}
-		to, err := parsePerm(u.To)
-		if err != nil {
-			return fail("statement.structure.unreached.to", "%v", err)
+		st.Blocks[i] = append([]int(nil), b...)
+	}
+	if ev.Recurrent != nil {
+		if err := checkStateList(ev.Recurrent); err != nil {
+			return fail("evidence.structure.recurrent_states", "%v", err)
 		}
-		st.Unreached = &CellPair{From: from, To: to}
+		st.Recurrent = append([]int(nil), ev.Recurrent...)
 	}
 	if jc := ev.JointCycle; jc != nil {
-		if jc.Start < 0 || jc.Start > most || jc.Length < 1 || jc.Length > most {
-			return fail("evidence.structure.joint_cycle", "start %d and length %d out of range (0..%d and 1..%d)", jc.Start, jc.Length, most, most)
+		if jc.Start < 0 || jc.Start > MaxJointSteps || jc.Length < 1 || jc.Length > MaxJointSteps {
+			return fail("evidence.structure.joint_cycle", "start %d and length %d out of range (0..%d and 1..%d)", jc.Start, jc.Length, MaxJointSteps, MaxJointSteps)
 		}
 		st.CycleStart, st.CycleLength = jc.Start, jc.Length
 	}
@@ -441,20 +520,25 @@ func structureFromWire(claim *wireStructureClaim, ev *wireStructureEvidence) (*S
 		}
 		st.CyclicAvoider = p
 	}
-	if n := len(ev.Witnesses); n > MaxWitnesses {
-		return fail("evidence.structure.witnesses", "%d witnesses, over the limit of %d", n, MaxWitnesses)
-	}
-	if len(ev.Witnesses) > 0 {
-		st.Witnesses = make([][]int, len(ev.Witnesses))
-	}
-	for i, s := range ev.Witnesses {
-		p, err := parsePerm(s)
-		if err != nil {
-			return fail(fmt.Sprintf("evidence.structure.witnesses[%d]", i), "%v", err)
-		}
-		st.Witnesses[i] = p
-	}
 	return st, nil
+}
+
+// checkStateList accepts a list of state numbers: 1 to MaxStates of them,
+// each in 0..MaxStates-1, strictly increasing. Whether they are states of
+// the set is Check's business.
+func checkStateList(states []int) error {
+	if len(states) == 0 || len(states) > MaxStates {
+		return fmt.Errorf("%d states; give 1 to %d", len(states), MaxStates)
+	}
+	for i, p := range states {
+		switch {
+		case p < 0 || p >= MaxStates:
+			return fmt.Errorf("state %d out of range 0..%d", p, MaxStates-1)
+		case i > 0 && p <= states[i-1]:
+			return fmt.Errorf("not strictly increasing at entry %d", i)
+		}
+	}
+	return nil
 }
 
 // fromWire parses and validates a content object: fixed strings, limits,
@@ -526,13 +610,10 @@ func fromWire(w wireContent) (*Certificate, error) {
 		}
 	}
 	ev := w.Evidence
-	if ev.CellLength < 0 || ev.CellLength >= MaxPatternLength {
-		return fail("evidence.cell_length", "%d out of range 0..%d", ev.CellLength, MaxPatternLength-1)
-	}
 	if ev.States < 1 || ev.States > MaxStates {
 		return fail("evidence.states", "%d out of range 1..%d", ev.States, MaxStates)
 	}
-	c.Evidence.CellLength, c.Evidence.States = ev.CellLength, ev.States
+	c.Evidence.States = ev.States
 	if len(ev.Brackets) == 0 || len(ev.Brackets) > MaxBrackets {
 		return fail("evidence.brackets", "%d brackets; give 1 to %d", len(ev.Brackets), MaxBrackets)
 	}

@@ -13,6 +13,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 
@@ -25,8 +26,8 @@ var update = flag.Bool("update", false, "rewrite the golden files in testdata")
 const goldenPath = "testdata/cert-123-n8.json"
 
 // goldenCert is the small certificate of the golden file: {123}, whole
-// system, N = 8, with the structure section (primitive, exponent 4, and
-// the cyclic avoider 321).
+// system, N = 8, with the structure section (primitive, exponent 4,
+// recurrent states 1 and 2, |D| = 14, and the cyclic avoider 321).
 func goldenCert(t testing.TB) *certify.Certificate {
 	return assemble(t, []string{"123"}, []spec{wholeSpec(8, 1, true)}, structure123())
 }
@@ -146,17 +147,21 @@ func TestReadRefusesDamagedFiles(t *testing.T) {
 		{"cut before the last brace", good[:len(good)-2], "truncated"},
 		{"other JSON", []byte(`{"content": {"format": "something else"}}`), "not an avoidcert certificate"},
 		{"not JSON", []byte("hello\n"), "truncated"},
-		{"newer version", redigest(bytes.Replace(good, []byte(`"version": 3,`), []byte(`"version": 4,`), 1)), "format version 4"},
-		{"version 2", redigest(bytes.Replace(good, []byte(`"version": 3,`), []byte(`"version": 2,`), 1)), "re-issue it with `avoidcert bound"},
-		{"version 1", redigest(bytes.Replace(good, []byte(`"version": 3,`), []byte(`"version": 1,`), 1)), "format version 1 (order cells) is no longer checked"},
-		{"version as a huge number", redigest(bytes.Replace(good, []byte(`"version": 3,`), []byte(`"version": 3`+strings.Repeat("0", 100000)+`,`), 1)), "format version 3000"},
+		{"newer version", redigest(bytes.Replace(good, []byte(`"version": 4,`), []byte(`"version": 5,`), 1)), "format version 5"},
+		{"version 3", redigest(bytes.Replace(good, []byte(`"version": 4,`), []byte(`"version": 3,`), 1)), "format version 3 (its structure section on order cells) is no longer checked; re-issue it with `avoidcert bound"},
+		{"version 2", redigest(bytes.Replace(good, []byte(`"version": 4,`), []byte(`"version": 2,`), 1)), "re-issue it with `avoidcert bound"},
+		{"version 1", redigest(bytes.Replace(good, []byte(`"version": 4,`), []byte(`"version": 1,`), 1)), "format version 1 (order cells) is no longer checked"},
+		{"version as a huge number", redigest(bytes.Replace(good, []byte(`"version": 4,`), []byte(`"version": 4`+strings.Repeat("0", 100000)+`,`), 1)), "format version 4000"},
+		{"version as an object", redigest(bytes.Replace(good, []byte(`"version": 4,`), []byte("\"version\": {\n},"), 1)), "content.version is not a number"},
+		{"version key case", redigest(bytes.Replace(good, []byte(`"version": 4,`), []byte(`"Version": 4,`), 1)), "\"Version\" is not a member name"},
 		{"CRLF line endings", bytes.ReplaceAll(good, []byte("\n"), []byte("\r\n")), "CRLF"},
 		{"extra whitespace", bytes.Replace(good, []byte(`"n": `), []byte(`"n":  `), 1), "canonical form"},
 		{"escaped character", redigest(bytes.Replace(good, []byte(`"patterns": [
         "123"`), []byte(`"patterns": [
         "\u0031\u0032\u0033"`), 1)), "canonical form"},
-		{"unknown member", redigest(bytes.Replace(good, []byte(`"n": `), []byte(`"nn": 1, "n": `), 1)), "unknown field"},
-		{"key case", redigest(bytes.Replace(good, []byte(`"n": `), []byte(`"N": `), 1)), "canonical form"},
+		{"unknown member", redigest(bytes.Replace(good, []byte(`"n": `), []byte(`"nn": 1, "n": `), 1)), "\"nn\" is not a member name"},
+		{"member of another place", redigest(bytes.Replace(good, []byte(`"n": `), []byte(`"tool": "x", "n": `), 1)), "unknown field"},
+		{"key case", redigest(bytes.Replace(good, []byte(`"n": `), []byte(`"N": `), 1)), "\"N\" is not a member name"},
 		{"digest not redone", bytes.Replace(good, []byte(`"tool": "avoidcert`), []byte(`"tool": "Avoidcert`), 1), "content_sha256 does not match"},
 		{"data after", append(bytes.Clone(good), good...), "not valid JSON"},
 		{"too large", append(bytes.Repeat([]byte(" "), certify.MaxFileSize), good...), "larger than the limit"},
@@ -164,7 +169,7 @@ func TestReadRefusesDamagedFiles(t *testing.T) {
 		{"huge n", redigest(bytes.Replace(good, []byte(`"n": 8`), []byte(`"n": 80000`), 1)), "out of range"},
 		{"n not an integer", redigest(bytes.Replace(good, []byte(`"n": 8`), []byte(`"n": 8.5`), 1)), "is not a valid int"},
 		{"start unknown", redigest(bytes.Replace(good, []byte(`"start": "empty"`), []byte(`"start": "full"`), 1)), "not one of empty, ones, whole"},
-		{"infinite lo", redigest(bytes.Replace(good, []byte(`"mu_lo": "`), []byte(`"mu_lo": "", "x": "`), 1)), "unknown field"},
+		{"infinite lo", redigest(bytes.Replace(good, []byte(`"mu_lo": "`), []byte(`"mu_lo": "", "x": "`), 1)), "\"x\" is not a member name"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			if tc.data == nil && tc.name != "empty" {
@@ -203,7 +208,7 @@ func tamperCert(t testing.TB) *certify.Certificate {
 // freeKeys are the members a producer may choose (within the inequalities);
 // a changed value there may still be a true, proved certificate.
 var freeKeys = map[string]bool{"tool": true, "lo": true, "hi": true, "mu_lo": true, "mu_hi": true,
-	"class": true, "lambda_status": true, "mode": true, "cyclic_avoider": true, "upper": true}
+	"class": true, "lambda_status": true, "cyclic_avoider": true, "upper": true}
 
 var memberLine = regexp.MustCompile(`^(\s*)"([a-z_0-9]+)": (.*?)(,?)$`)
 
@@ -337,8 +342,8 @@ func TestRandomTampersRejected(t *testing.T) {
 
 // unsound returns what is false in an accepted certificate, or "" when its
 // claims agree with the published growth rate, the counts of an OEIS table
-// and the structure of a primitive set with the given exponent (from the
-// structure package's golden file), its witnesses and cyclic avoider
+// and the structure of a primitive set of one length-3 pattern with the
+// given exponent (docs/prefix-states.md, small cases), its cyclic avoider
 // checked by brute force.
 func unsound(t *testing.T, c *certify.Certificate, lambda float64, oeis string, exponent int) string {
 	if why := unsoundStructure(c, exponent); why != "" {
@@ -383,32 +388,26 @@ func unsound(t *testing.T, c *certify.Certificate, lambda float64, oeis string, 
 	return ""
 }
 
+// unsoundStructure returns what is false in the structure section of a
+// set of one pattern of length 3 whose prefix states (), (1), (12) are
+// numbered 0, 1, 2, (1) and (12) recurrent, so that |D| = C(2,1) +
+// 2 C(3,1) + C(4,2) = 14 (by hand, docs/prefix-states.md), and which is
+// primitive with the given exponent; a cyclic avoider is checked by brute
+// force.
 func unsoundStructure(c *certify.Certificate, exponent int) string {
 	st := c.Structure
 	if st == nil {
 		return ""
 	}
 	pats := parsePats(c.Statement.Patterns)
-	m := 0
-	for _, p := range pats {
-		m = max(m, len(p)-1)
-	}
-	avoids := func(w []int) bool { return brute.Avoids(w, pats) }
 	switch st.Class {
 	case certify.ClassUndecided:
 	case certify.ClassPrimitive:
 		if st.Exponent != exponent {
-			return fmt.Sprintf("the exponent is %d, not %d", exponent, st.Exponent)
+			return fmt.Sprintf("the exponent is %d, not %d", st.Exponent, exponent)
 		}
-		joints := map[int]bool{}
-		for _, w := range st.Witnesses {
-			if len(w) != m+exponent || !avoids(w) {
-				return fmt.Sprintf("witness %v does not avoid or has the wrong length", w)
-			}
-			joints[lexRank(append(append([]int(nil), w[:m]...), w[len(w)-m:]...))] = true
-		}
-		if st.Mode == certify.ModeWitnesses && len(joints) != factorial(2*m) {
-			return fmt.Sprintf("the witnesses have %d joint patterns, not all %d", len(joints), factorial(2*m))
+		if !slices.Equal(st.Recurrent, []int{1, 2}) || st.Configurations != 14 {
+			return fmt.Sprintf("recurrent states %v and %d configurations, not [1 2] and 14", st.Recurrent, st.Configurations)
 		}
 	default:
 		return fmt.Sprintf("class %s, but the set is primitive", st.Class)
@@ -418,11 +417,8 @@ func unsoundStructure(c *certify.Certificate, exponent int) string {
 	case certify.LambdaPositive:
 		p := st.CyclicAvoider
 		for i := range p {
-			window := make([]int, m+1)
-			for j := range window {
-				window[j] = p[(i+j)%len(p)]
-			}
-			if len(p) < m+1 || !avoids(window) {
+			window := []int{p[i], p[(i+1)%len(p)], p[(i+2)%len(p)]}
+			if len(p) < 3 || !brute.Avoids(window, pats) {
 				return fmt.Sprintf("%v is not a cyclic avoider", p)
 			}
 		}
@@ -524,15 +520,20 @@ func TestMessagesQuoteLittle(t *testing.T) {
 	}
 }
 
-// TestOldVersionsRefusedWithAdvice reads the version 2 file that the
-// previous checker wrote for {123}.
+// TestOldVersionsRefusedWithAdvice reads the version 2 and version 3
+// files that earlier checkers wrote for {123}.
 func TestOldVersionsRefusedWithAdvice(t *testing.T) {
-	data, err := os.ReadFile("testdata/cert-123-k6-v2.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, err = certify.Read(bytes.NewReader(data))
-	if err == nil || !strings.Contains(err.Error(), "format version 2 (order cells) is no longer checked; re-issue it with `avoidcert bound PATTERNS --out FILE`") {
-		t.Fatalf("got %v", err)
+	for file, want := range map[string]string{
+		"testdata/cert-123-k6-v2.json": "certificate: format version 2 (order cells) is no longer checked; re-issue it with `avoidcert bound PATTERNS --out FILE`",
+		"testdata/cert-123-n8-v3.json": "certificate: format version 3 (its structure section on order cells) is no longer checked; re-issue it with `avoidcert bound PATTERNS --out FILE`",
+	} {
+		data, err := os.ReadFile(file)
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, err = certify.Read(bytes.NewReader(data))
+		if err == nil || !strings.Contains(err.Error(), want) || strings.Contains(err.Error(), "\n") {
+			t.Errorf("%s: got %v", file, err)
+		}
 	}
 }

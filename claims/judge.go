@@ -184,11 +184,11 @@ func formOutcome(c Claim, f prove.Form) outcome {
 	got := string(f.Class)
 	switch f.Class {
 	case certify.ClassPrimitive:
-		got += fmt.Sprintf(" (exponent %d)", f.Exponent)
+		got += fmt.Sprintf(" (primitivity exponent k = %d)", f.Exponent)
 	case certify.ClassPeriodic:
 		got += fmt.Sprintf(" with period %d", f.Period)
 	case certify.ClassUndecided:
-		return outcome{Undecided, "the structure pass decided no class within its limits"}
+		return outcome{Undecided, "the structure test decided no class (the joint sets did not repeat within the step limit, or the period is not settled)"}
 	}
 	if string(f.Class) == c.Form && (c.Period == 0 || c.Period == f.Period) {
 		return outcome{Proved, got + ", by the checked structure section"}

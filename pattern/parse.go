@@ -6,12 +6,12 @@ import (
 	"strings"
 )
 
-// MaxLength is the longest pattern accepted. A set whose longest pattern
-// has length w is handled through its (w-1)! order cells and, for the
-// structure test, the (2w-2)! joint patterns; at length 8 that is 5040
-// cells and 14! joint patterns, beyond what the exact methods can hold in
-// memory for useful n.
-const MaxLength = 7
+// MaxLength is the longest pattern accepted: 9, so that a pattern is
+// still written with one digit per entry. Counting, brackets and the
+// structure test run on prefix states (at most 0! + 1! + ... + 8! of
+// them), and their own estimates decide whether a set fits a memory
+// budget; the certificate format has the same limit.
+const MaxLength = 9
 
 // ParseError describes a rejected pattern token.
 type ParseError struct {
@@ -56,7 +56,7 @@ func Parse(token string) (Perm, error) {
 		p = append(p, v)
 	}
 	if len(p) > MaxLength {
-		return fail("length %d is over the limit of %d (a window of length k needs (k-1)! order cells; longer patterns do not fit the exact methods)", len(p), MaxLength)
+		return fail("length %d is over the limit of %d; write patterns of length 1 to %d", len(p), MaxLength, MaxLength)
 	}
 	seen := make([]int, len(p)+1)
 	for i, v := range p {

@@ -20,6 +20,9 @@ func TestParseAccepts(t *testing.T) {
 		{"21", "21"},
 		{"1234567", "1234567"},
 		{"7.6.5.4.3.2.1", "7654321"},
+		{"12345678", "12345678"},
+		{"123456789", "123456789"},
+		{"9.8.7.6.5.4.3.2.1", "987654321"},
 	}
 	for _, tc := range tests {
 		p, err := pattern.Parse(tc.token)
@@ -40,8 +43,8 @@ func TestParseRejects(t *testing.T) {
 	}{
 		{"", []string{"empty pattern"}},
 		{"   ", []string{"empty pattern"}},
-		{"12345678", []string{"length 8", "limit of 7"}},
-		{"1.2.3.4.5.6.7.8", []string{"length 8", "limit of 7"}},
+		{"1234567891", []string{"length 10", "limit of 9", "length 1 to 9"}},
+		{"1.2.3.4.5.6.7.8.9.10", []string{"length 10", "limit of 9"}},
 		{"1223", []string{"value 2 repeats", "positions 2 and 3"}},
 		{"3.1.3.2", []string{"value 3 repeats"}},
 		{"124", []string{"entry 4", "1..3", "missing: 3"}},

@@ -110,30 +110,6 @@ func (s Set) Avoids(text []int) bool {
 	return true
 }
 
-// AvoidingPerms returns a table over the permutations of 1..n, indexed by
-// Rank: true where the permutation avoids every member. With n = Window()
-// this is the lifted set: allowed windows are exactly the true entries.
-func (s Set) AvoidingPerms(n int) []bool {
-	out := make([]bool, Factorial(n))
-	for r := range out {
-		out[r] = s.Avoids(Unrank(n, r))
-	}
-	return out
-}
-
-// Lift returns the set of length-w windows (w = Window()) that contain a
-// member: for n >= w, avoiding s is the same as avoiding these.
-func (s Set) Lift() Set {
-	w := s.Window()
-	var forbidden []Perm
-	for r, ok := range s.AvoidingPerms(w) {
-		if !ok {
-			forbidden = append(forbidden, Unrank(w, r))
-		}
-	}
-	return NewSet(forbidden...)
-}
-
 func (s Set) mapped(f func(Perm) Perm) Set {
 	out := make([]Perm, len(s.patterns))
 	for i, p := range s.patterns {

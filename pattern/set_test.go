@@ -46,16 +46,15 @@ func TestNewSetIsSortedAndIrredundant(t *testing.T) {
 	}
 }
 
-// AvoidingPerms and Avoids are checked permutation by permutation against
-// the brute-force reference, which compares windows pairwise.
-func TestAvoidingPermsMatchBruteForce(t *testing.T) {
+// Avoids is checked permutation by permutation against the brute-force
+// reference, which compares windows pairwise.
+func TestAvoidsMatchesBruteForce(t *testing.T) {
 	check := func(s pattern.Set, n int) {
 		t.Helper()
-		table := s.AvoidingPerms(n)
 		ref := s.Patterns()
-		for r, ok := range table {
-			if want := brute.Avoids(pattern.Unrank(n, r), ref); ok != want {
-				t.Fatalf("%v: AvoidingPerms(%d)[%v] = %v, brute force says %v", s, n, pattern.Unrank(n, r), ok, want)
+		for _, p := range pattern.All(n) {
+			if got, want := s.Avoids(p), brute.Avoids(p, ref); got != want {
+				t.Fatalf("%v: Avoids(%v) = %v, brute force says %v", s, p, got, want)
 			}
 		}
 	}
@@ -69,33 +68,6 @@ func TestAvoidingPermsMatchBruteForce(t *testing.T) {
 	rng := rand.New(rand.NewPCG(3, 4))
 	for range 40 {
 		check(settest.Random(rng, 6, 5), 7)
-	}
-}
-
-// For n >= w, avoiding the set and avoiding its lifted windows agree.
-func TestLift(t *testing.T) {
-	rng := rand.New(rand.NewPCG(5, 6))
-	for range 40 {
-		s := settest.Random(rng, 6, 5)
-		w := s.Window()
-		lift := s.Lift()
-		for _, p := range lift.Patterns() {
-			if len(p) != w {
-				t.Fatalf("%v: lifted member %v has length %d, want %d", s, p, len(p), w)
-			}
-		}
-		for n := w; n <= 7; n++ {
-			if a, b := brute.Count(n, s.Patterns()), brute.Count(n, lift.Patterns()); a != b {
-				t.Fatalf("%v: %d avoiders of length %d, but %d avoid its lift %v", s, a, n, b, lift)
-			}
-		}
-	}
-	// 12 lifts to every window of length 2 but 21
-	if got := settest.Must(t, "12").Lift().String(); got != "12" {
-		t.Errorf("lift of 12 = %s", got)
-	}
-	if got := settest.Must(t, "12", "321").Lift().String(); got != "123,132,213,231,312,321" {
-		t.Errorf("lift of {12, 321} = %s, want every length-3 window (each has an ascent or is 321)", got)
 	}
 }
 

@@ -47,8 +47,8 @@ func Exact(ctx context.Context, set pattern.Set, N int, memory int64) (*big.Int,
 		if N < 0 || N > MaxExactN {
 			return nil, nil, fmt.Errorf("prob: N = %d is outside the exact range 0..%d", N, MaxExactN)
 		}
-		return nil, nil, fmt.Errorf("%w: counting %s to N = %d needs about %s, over %s",
-			prove.ErrBudget, set, N, bytesize.Format(need), bytesize.Format(memory))
+		return nil, nil, fmt.Errorf("%w: counting %s to N = %d needs %s, over %s",
+			prove.ErrBudget, set, N, bytesize.About(need), bytesize.Format(memory))
 	}
 	counts, err := prove.Counts(ctx, set, N, prove.Options{MaxMemory: memory})
 	if err != nil {

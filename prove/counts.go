@@ -23,8 +23,8 @@ func Counts(ctx context.Context, set pattern.Set, n int, opts Options) ([]*big.I
 		return nil, fmt.Errorf("prove: counts up to n = %d: n must not be negative", n)
 	}
 	if need := transfer.CountsFootprint(set, n); need > opts.maxMemory() {
-		return nil, fmt.Errorf("%w: counting %s to n = %d needs about %s, over the memory budget of %s",
-			ErrBudget, set, n, bytesize.Format(need), bytesize.Format(opts.maxMemory()))
+		return nil, fmt.Errorf("%w: counting %s to n = %d needs %s, over the memory budget of %s",
+			ErrBudget, set, n, bytesize.About(need), bytesize.Format(opts.maxMemory()))
 	}
 	type counted struct {
 		counts []*big.Int

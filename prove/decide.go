@@ -7,7 +7,6 @@ import (
 	"avoidcert/bounds"
 	"avoidcert/certify"
 	"avoidcert/interval"
-	"avoidcert/structure"
 )
 
 // Enclosure returns what a certificate proves about lambda or 1/lambda,
@@ -58,14 +57,16 @@ func DecideOrder(first, second *certify.Certificate) bounds.Verdict {
 }
 
 // Form is the structure class a checked certificate states: its class,
-// with the period (periodic), the exponent (primitive) and the first n
-// with a_n = 0 (finite); class "undecided" when the certificate has no
+// with the period (periodic), the primitivity exponent (primitive), the
+// first n with a_n = 0 (finite) and the number of blocks of recurrent
+// states (reducible); class "undecided" when the certificate has no
 // structure section.
 type Form struct {
 	Class    certify.StructureClass
 	Period   int
 	Exponent int
 	N1       int
+	Blocks   int
 }
 
 // FormOf reads the structure section of a checked certificate. It is the
@@ -74,22 +75,8 @@ func FormOf(c *certify.Certificate) Form {
 	if c.Structure == nil {
 		return Form{Class: certify.ClassUndecided}
 	}
-	return Form{Class: c.Structure.Class, Period: c.Structure.Period, Exponent: c.Structure.Exponent, N1: c.Structure.N1}
-}
-
-// FormOfReport is the form the structure pass decided, before any
-// certificate: what 'avoidcert structure' shows.
-func FormOfReport(rep *structure.Report) Form {
-	f := Form{Class: certify.StructureClass(rep.Class)}
-	switch rep.Class {
-	case structure.Primitive:
-		f.Exponent = rep.Exponent
-	case structure.Periodic:
-		f.Period = rep.Period
-	case structure.Finite:
-		f.N1 = rep.N1
-	}
-	return f
+	s := c.Structure
+	return Form{Class: s.Class, Period: s.Period, Exponent: s.Exponent, N1: s.N1, Blocks: len(s.Blocks)}
 }
 
 // Words states the form in one line of plain text: the class and the
@@ -97,16 +84,20 @@ func FormOfReport(rep *structure.Report) Form {
 func (f Form) Words() string {
 	switch f.Class {
 	case certify.ClassPrimitive:
-		return fmt.Sprintf("primitive, exponent %d: a_n/n! = c lambda^n (1 + O(theta^n)) with c > 0, theta < 1", f.Exponent)
+		return fmt.Sprintf("primitive, primitivity exponent k = %d (the least k with T^k positive): a_n/n! = c lambda^n (1 + O(theta^n)) with c > 0, theta < 1", f.Exponent)
 	case certify.ClassPeriodic:
 		return fmt.Sprintf("periodic, period %d: a_n/n! = lambda^n (c_(n mod %d) + o(1)) with constants c_r >= 0 (proved); one constant for every n is not proved; lambda bracketed through T^%d",
 			f.Period, f.Period, f.Period)
 	case certify.ClassReducible:
-		return "reducible: lambda is the largest over the strongly connected blocks"
+		blocks := "1 block"
+		if f.Blocks != 1 {
+			blocks = fmt.Sprintf("%d blocks", f.Blocks)
+		}
+		return fmt.Sprintf("reducible (%s of recurrent states): lambda is the largest over the blocks; a_n/n! ~ c lambda^n is not proved", blocks)
 	case certify.ClassFinite:
 		return fmt.Sprintf("finite: a_n = 0 for every n >= %d", f.N1)
 	case certify.ClassSubexponential:
 		return "subexponential: lambda = 0 proved, a_n > 0 for every n"
 	}
-	return "undecided within the limits"
+	return "undecided: primitivity and the period are not proved"
 }

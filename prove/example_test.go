@@ -27,3 +27,22 @@ func ExampleJudge() {
 	// lambda(1342) = 0.954612: proved (certificate checked)
 	// lambda(1342) = 0.954613: refuted (certificate checked)
 }
+
+// Classify a set before trusting its growth constant: the class and the
+// primitivity exponent are read from the structure section that the
+// independent checker recomputed and accepted. {1423, 2413, 3412, 4123,
+// 4312} has transient prefix states and is primitive with exponent 4
+// (method note, section 9).
+func ExampleClassify() {
+	set, _ := pattern.ParseSet([]string{"1423,2413,3412,4123,4312"})
+	r, err := prove.Classify(context.Background(), set, prove.Options{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	cs := r.Certificate.Structure
+	fmt.Printf("%s: %s, primitivity exponent %d, %d recurrent of %d states, lambda %s\n",
+		set, cs.Class, cs.Exponent, len(cs.Recurrent), r.States.Len(), cs.Lambda)
+	// Output:
+	// 1423,2413,3412,4123,4312: primitive, primitivity exponent 4, 4 recurrent of 8 states, lambda positive
+}

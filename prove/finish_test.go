@@ -16,7 +16,7 @@ import (
 // error (not a budget), never a Result.
 func TestFinishRefusedCertificate(t *testing.T) {
 	ctx := context.Background()
-	p, err := planFor(ctx, settest.Must(t, "132"))
+	p, err := planFor(ctx, settest.Must(t, "132"), Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

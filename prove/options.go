@@ -27,8 +27,9 @@ const (
 )
 
 // ErrBudget is wrapped by every refusal that a larger budget could lift:
-// a count whose iterates would not fit in Options.MaxMemory, a certificate
-// over the checker's limits, and the bracket run's refusals
+// a count whose iterates would not fit in Options.MaxMemory, a structure
+// test whose memory estimate is over it (structure.ErrBudget), a
+// certificate over the checker's limits, and the bracket run's refusals
 // (bounds.ErrBudget: a memory budget below the first bracket's need, a
 // budget that stopped the run before its first bracket).
 var ErrBudget = errors.New("over the budget")
@@ -68,6 +69,9 @@ type Options struct {
 	// is cancelled. A deadline of ctx itself stops everything, the
 	// certificate's check included.
 	Deadline time.Time
+	// Witnesses keeps, in Result.Report, one realisation per
+	// configuration of a primitive set (structure.Options.Witnesses).
+	Witnesses bool
 	// ResidueConstants asks Certify and Judge for Estimates.ByResidue on
 	// periodic sets (it counts a_n once more, to the bracket's n).
 	ResidueConstants bool

@@ -3,54 +3,50 @@ package prove
 import (
 	"context"
 	"math/big"
+	"slices"
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
 	"avoidcert/interval"
-	"avoidcert/pattern"
 	"avoidcert/structure"
 	"avoidcert/transfer"
 )
 
-// MaxWitnessM is the largest cell length whose certificates list one
-// witness per joint pattern.
-const MaxWitnessM = 4
-
-// Structure states the structure pass's classification in the
-// certificate's terms (docs/certificate.md, "Filling it from the structure
-// pass"). Witnesses are listed when the report has them and m is at most
-// MaxWitnessM; otherwise the checker recomputes the joint-pattern sets.
+// Structure states the structure test's result in the certificate's
+// terms (format version 4, docs/certificate.md): the class with its
+// exponent, period, N1 or blocks, the lambda status, and the evidence the
+// checker recomputes (the recurrent states, |D|, the joint cycle) or
+// verifies (the cyclic avoider). The slices are copies.
 func Structure(rep *structure.Report) *certify.Structure {
 	st := &certify.Structure{Class: certify.StructureClass(rep.Class), Lambda: certify.LambdaStatus(rep.Lambda)}
 	switch rep.Class {
 	case structure.Primitive:
 		st.Exponent = rep.Exponent
-		st.Mode = certify.ModeRecompute
-		if rep.Witnesses != nil && rep.M <= MaxWitnessM {
-			st.Mode = certify.ModeWitnesses
-			rep.Witnesses.Each(func(_ int, w pattern.Perm) bool {
-				st.Witnesses = append(st.Witnesses, w)
-				return true
-			})
-		}
 	case structure.Periodic:
 		st.Period = rep.Period
 	case structure.Finite:
 		st.N1 = rep.N1
 	case structure.Reducible:
-		st.Unreached = &certify.CellPair{From: rep.Unreached.From, To: rep.Unreached.To}
+		for _, b := range rep.Blocks {
+			st.Blocks = append(st.Blocks, slices.Clone(b))
+		}
 	}
-	if rep.Class == structure.Periodic || (rep.Lambda == structure.LambdaZero && !rep.Digraph.SimpleCycles()) {
+	if rep.Class != structure.Finite && rep.Class != structure.Undecided {
+		st.Recurrent = slices.Clone(rep.Recurrent)
+		st.Configurations = rep.Configurations
+	}
+	switch rep.Class {
+	case structure.Periodic, structure.Reducible, structure.Subexponential:
 		st.CycleStart, st.CycleLength = rep.CycleStart, rep.CycleLength
 	}
 	if rep.Lambda == structure.LambdaPositive {
-		st.CyclicAvoider = rep.CyclicAvoider
+		st.CyclicAvoider = slices.Clone([]int(rep.CyclicAvoider))
 	}
 	return st
 }
 
-// Certificate turns a bracket result for the set of rep (bracketed on the
-// prefix states st, whole or by blocks) into a format version 3
+// BuildCertificate turns a bracket result for the set of rep (bracketed
+// on rep's prefix states, whole or by blocks) into a format version 4
 // certificate whose ranges are printed with the given significant digits.
 // Every bracket of the result is listed with its states, start, step, N
 // and digest; those marked upper carry the upper bound (the whole system,
@@ -58,8 +54,8 @@ func Structure(rep *structure.Report) *certify.Structure {
 // bounds need a whole-system step-1 bracket, taken here when the run did
 // not have one (periodic or reducible sets). res must come from a run
 // with Options.Digests.
-func BuildCertificate(ctx context.Context, tool string, rep *structure.Report, st *transfer.States, res *bounds.Result, digits int) (*certify.Certificate, error) {
-	set := rep.Set
+func BuildCertificate(ctx context.Context, tool string, rep *structure.Report, res *bounds.Result, digits int) (*certify.Certificate, error) {
+	set, st := rep.Set, rep.States
 	c := &certify.Certificate{Tool: tool, Structure: Structure(rep)}
 	stmt := &c.Statement
 	stmt.Given = set.Given()

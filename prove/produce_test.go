@@ -10,7 +10,6 @@ import (
 	"avoidcert/pattern"
 	"avoidcert/prove"
 	"avoidcert/structure"
-	"avoidcert/transfer"
 )
 
 // Certificates built from real runs pass the independent checker, for a
@@ -25,11 +24,11 @@ func TestCertificatesPassTheChecker(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: true})
+		rep, err := structure.Analyze(ctx, set, structure.Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
-		st := transfer.NewStates(set)
+		st := rep.States
 		opts := bounds.Options{Digits: 8, Digests: true, Step: 1}
 		var res *bounds.Result
 		switch rep.Class {
@@ -44,7 +43,7 @@ func TestCertificatesPassTheChecker(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		c, err := prove.BuildCertificate(ctx, "produce test", rep, st, res, 10)
+		c, err := prove.BuildCertificate(ctx, "produce test", rep, res, 10)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -69,16 +68,15 @@ func TestShortBracketEnds(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: true})
+	rep, err := structure.Analyze(ctx, set, structure.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	st := transfer.NewStates(set)
-	res, err := bounds.Run(ctx, st, bounds.Options{Digits: 60, Digests: true}, nil)
+	res, err := bounds.Run(ctx, rep.States, bounds.Options{Digits: 60, Digests: true}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	c, err := prove.BuildCertificate(ctx, "produce test", rep, st, res, 60)
+	c, err := prove.BuildCertificate(ctx, "produce test", rep, res, 60)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -69,7 +69,7 @@ func (r *Result) Done() bool {
 func Certify(ctx context.Context, set pattern.Set, opts Options) (*Result, error) {
 	runCtx, cancel := opts.withDeadline(ctx)
 	defer cancel()
-	p, err := planFor(runCtx, set)
+	p, err := planFor(runCtx, set, opts)
 	if err != nil {
 		return nil, err
 	}
@@ -87,6 +87,16 @@ func Certify(ctx context.Context, set pattern.Set, opts Options) (*Result, error
 		digits = bo.Digits + 3 // a few more than certified, so the printed ends show the bracket
 	}
 	return p.finish(ctx, res, digits, opts)
+}
+
+// Classify runs the structure test of set and returns it once the checker
+// has accepted a certificate with its structure section, so that the class
+// and the lambda status can be stated as proved. The certificate carries
+// the cheapest bracket the class allows (k = n - M at most 1, one digit
+// aimed for): its lambda range is wide and not meant to be read.
+func Classify(ctx context.Context, set pattern.Set, opts Options) (*Result, error) {
+	opts.Digits, opts.Width, opts.MaxK = 1, nil, 1
+	return Certify(ctx, set, opts)
 }
 
 // Judgement is the verdict on a claim that lambda (or 1/lambda) lies in an
@@ -109,7 +119,7 @@ func Judge(ctx context.Context, set pattern.Set, claim interval.Interval, of bou
 	}
 	runCtx, cancel := opts.withDeadline(ctx)
 	defer cancel()
-	p, err := planFor(runCtx, set)
+	p, err := planFor(runCtx, set, opts)
 	if err != nil {
 		return nil, err
 	}
@@ -220,13 +230,16 @@ type plan struct {
 	blocks [][]int // nil: the whole system
 }
 
-func planFor(ctx context.Context, set pattern.Set) (*plan, error) {
-	// certificates list witnesses up to MaxWitnessM
-	rep, err := structure.Analyze(ctx, set, structure.Options{Witnesses: set.Window()-1 <= MaxWitnessM})
+// planFor runs the structure test within the memory budget of opts and
+// plans the bracket from its report: step d = the period of a periodic
+// set, the blocks of the state digraph (bounds.Blocks, every state in
+// one) for a reducible one, a short run for a subexponential one.
+func planFor(ctx context.Context, set pattern.Set, opts Options) (*plan, error) {
+	rep, err := structure.Analyze(ctx, set, structure.Options{MaxMemory: opts.maxMemory(), Witnesses: opts.Witnesses})
 	if err != nil {
-		return nil, err
+		return nil, budgetError(ctx, err)
 	}
-	p := &plan{rep: rep, states: transfer.NewStates(set), step: 1}
+	p := &plan{rep: rep, states: rep.States, step: 1}
 	switch rep.Class {
 	case structure.Periodic:
 		p.step = rep.Period
@@ -258,18 +271,20 @@ func (p *plan) bracket(ctx context.Context, opts bounds.Options, progress bounds
 	return res, budgetError(ctx, err)
 }
 
-// budgetError marks the bracket runs' refusals that a larger budget would
-// lift (bounds.ErrBudget: a memory budget below the first bracket's need,
-// or a budget that stopped the run before its first bracket) with
-// ErrBudget, keeping the bounds error (and its *bounds.BudgetError) in the
-// chain. A stop by the context wraps the context's error.
+// budgetError marks the refusals that a larger budget would lift (the
+// structure test's structure.ErrBudget: its memory estimate over the
+// budget; the bracket runs' bounds.ErrBudget: a memory budget below the
+// first bracket's need, or a budget that stopped the run before its first
+// bracket) with ErrBudget, keeping the original error (and its
+// *structure.BudgetError or *bounds.BudgetError) in the chain. A stop by
+// the context wraps the context's error.
 func budgetError(ctx context.Context, err error) error {
 	switch {
 	case err == nil:
 		return nil
 	case ctx.Err() != nil:
 		return fmt.Errorf("%w (%w)", ctx.Err(), err)
-	case errors.Is(err, bounds.ErrBudget):
+	case errors.Is(err, bounds.ErrBudget), errors.Is(err, structure.ErrBudget):
 		return fmt.Errorf("%w: %w", ErrBudget, err)
 	}
 	return err
@@ -285,7 +300,7 @@ func (p *plan) finish(ctx context.Context, res *bounds.Result, digits int, opts 
 		// one more bracket at the same k (periodic and reducible sets).
 		buildCtx = context.WithoutCancel(ctx)
 	}
-	c, err := BuildCertificate(buildCtx, opts.tool(), p.rep, p.states, res, digits)
+	c, err := BuildCertificate(buildCtx, opts.tool(), p.rep, res, digits)
 	if err != nil {
 		return nil, budgetError(ctx, err)
 	}

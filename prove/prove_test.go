@@ -13,6 +13,8 @@ import (
 	"avoidcert/internal/settest"
 	"avoidcert/interval"
 	"avoidcert/prove"
+	"avoidcert/structure"
+	"avoidcert/transfer"
 )
 
 func claimOf(t *testing.T, decimal string) interval.Interval {
@@ -135,16 +137,22 @@ func TestRecheckTampered(t *testing.T) {
 	}
 }
 
-// A memory budget too small for the first bracket is a budget refusal
-// (ErrBudget), not a failure.
+// A memory budget too small for the structure test, or for the first
+// bracket, is a budget refusal (ErrBudget), not a failure, with the
+// refusal of the step that needed more in the chain.
 func TestBudgetTooSmall(t *testing.T) {
-	_, err := prove.Certify(context.Background(), settest.Must(t, "1342"), prove.Options{MaxMemory: 1024})
-	if !errors.Is(err, prove.ErrBudget) {
-		t.Errorf("got %v, want ErrBudget", err)
+	set := settest.Must(t, "1342")
+	_, err := prove.Certify(context.Background(), set, prove.Options{MaxMemory: 1024})
+	var se *structure.BudgetError
+	if !errors.Is(err, prove.ErrBudget) || !errors.As(err, &se) {
+		t.Errorf("1 KiB: got %v, want ErrBudget with the structure test's *structure.BudgetError", err)
 	}
-	var be *bounds.BudgetError
-	if !errors.As(err, &be) || be.Stop != bounds.StopMemory {
-		t.Errorf("got %v, want the bracket run's *bounds.BudgetError (memory) in the chain", err)
+	// Enough for the structure test, too little for the bracket run or
+	// the checker.
+	enough := structure.Estimate(transfer.NewStates(set), structure.Options{}).Memory
+	_, err = prove.Certify(context.Background(), set, prove.Options{MaxMemory: enough})
+	if !errors.Is(err, prove.ErrBudget) || errors.As(err, &se) {
+		t.Errorf("%d bytes: got %v, want ErrBudget from a later step", enough, err)
 	}
 }
 

@@ -2,9 +2,9 @@ package structure
 
 import "math/bits"
 
-// bitset is a fixed-size set of small non-negative integers (joint
-// pattern ranks). Bits past the size are always zero, so equal sets have
-// equal words.
+// bitset is a fixed-size set of small non-negative integers
+// (configurations). Bits past the size are always zero, so equal sets
+// have equal words.
 type bitset []uint64
 
 func newBitset(size int) bitset { return make(bitset, (size+63)/64) }
@@ -47,6 +47,16 @@ func (b bitset) or(c bitset) {
 	}
 }
 
+// subsetOf reports whether every element of b is in c.
+func (b bitset) subsetOf(c bitset) bool {
+	for i := range b {
+		if b[i]&^c[i] != 0 {
+			return false
+		}
+	}
+	return true
+}
+
 // firstMissing returns the least element of within that b lacks, or -1.
 func (b bitset) firstMissing(within bitset) int {
 	for i := range b {
@@ -65,4 +75,14 @@ func (b bitset) hash() uint64 {
 		h *= 1099511628211
 	}
 	return h
+}
+
+// each calls f with every element of b, increasing.
+func each(b bitset, f func(r int)) {
+	for w, word := range b {
+		for word != 0 {
+			f(w*64 + bits.TrailingZeros64(word))
+			word &= word - 1
+		}
+	}
 }

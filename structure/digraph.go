@@ -3,240 +3,118 @@ package structure
 import (
 	"slices"
 
-	"gonum.org/v1/gonum/graph"
-	"gonum.org/v1/gonum/graph/multi"
 	"gonum.org/v1/gonum/graph/simple"
 	"gonum.org/v1/gonum/graph/topo"
+
+	"avoidcert/transfer"
 )
 
-// Digraph is the window digraph W_S of a system: one vertex per order
-// cell (pattern.Rank over S_m) and one edge per allowed window of length
-// m+1, from the cell of its first m entries to the cell of its last m.
-// Several windows may join the same two cells and a window may be a loop,
-// so the graph is a gonum multigraph. A Digraph is immutable.
-type Digraph struct {
-	M       int // cell length
-	Cells   int // m!
-	Windows int // allowed windows (edges, loops included)
-	// Components are the strongly connected components, each with its
-	// cells sorted, ordered by least cell.
-	Components []Component
-	// Order lists component indices in a topological order of the
-	// condensation: every window goes from a component to itself or to a
-	// later one in this order. Ties are broken by component index.
-	Order []int
+// target is where a move goes: the new state and how many of the oldest
+// retained values it forgets. to is -1 when the move is forbidden.
+type target struct{ to, drops int }
 
-	start     []bool
-	component []int   // cell -> component index
-	succ      [][]int // cell -> cells one window away, sorted, from the gonum graph
-	g         *multi.DirectedGraph
+// stateDigraph is the state digraph of a set's prefix states: an edge
+// p -> q for every allowed move from p whose target is q.
+type stateDigraph struct {
+	st *transfer.States
+	// next[p][i] is the move of state p with the new value in gap i
+	// (above exactly i of p's retained values).
+	next [][]target
+	succ [][]int // distinct targets of each state, increasing
+	// reachable: some walk (zero or more edges) from the empty state.
+	reachable []bool
+	// recurrent: reachable and on a walk of one or more edges back to
+	// itself.
+	recurrent []bool
+	blocks    [][]int // the recurrent strongly connected components, canonical order
 }
 
-// Component is one strongly connected component of the window digraph.
-type Component struct {
-	Cells   []int // cell ranks, increasing
-	Windows int   // windows with both ends in the component
-	// Cyclic reports whether the component holds a cycle: more than one
-	// cell, or one cell with a loop.
-	Cyclic bool
-	// Period is the gcd of the lengths of the cycles inside the
-	// component; 0 when it holds none.
-	Period int
-}
-
-// WindowDigraph builds the window digraph of a system and its strongly
-// connected components (gonum topo.TarjanSCC), their periods and a
-// topological order of the blocks.
-func WindowDigraph(sys Windows) *Digraph {
-	d := &Digraph{M: sys.M, Cells: sys.Cells(), start: sys.Start, g: multi.NewDirectedGraph()}
-	for c := range d.Cells {
-		d.g.AddNode(multi.Node(c))
-	}
-	for w, ok := range sys.Allowed {
-		if ok {
-			from, to := sys.Ends(w)
-			d.g.SetLine(multi.Line{F: multi.Node(from), T: multi.Node(to), UID: int64(w)})
-			d.Windows++
+func newStateDigraph(st *transfer.States) *stateDigraph {
+	n := st.Len()
+	d := &stateDigraph{st: st, next: make([][]target, n), succ: make([][]int, n)}
+	g := simple.NewDirectedGraph()
+	loop := make([]bool, n)
+	for p := range n {
+		g.AddNode(simple.Node(p))
+		d.next[p] = make([]target, st.Length(p)+1)
+		for i := range d.next[p] {
+			d.next[p][i].to = -1
 		}
 	}
-	d.succ = make([][]int, d.Cells)
-	for u := range d.succ {
-		for _, n := range graph.NodesOf(d.g.From(int64(u))) {
-			d.succ[u] = append(d.succ[u], int(n.ID()))
+	for p := range n {
+		for _, mv := range st.Moves(p) {
+			d.next[p][mv.Gap] = target{mv.To, mv.Drops}
+			d.succ[p] = append(d.succ[p], mv.To)
+			if mv.To == p {
+				loop[p] = true // gonum's simple graphs refuse self-loops
+			} else {
+				g.SetEdge(simple.Edge{F: simple.Node(p), T: simple.Node(mv.To)})
+			}
 		}
-		slices.Sort(d.succ[u])
+		slices.Sort(d.succ[p])
+		d.succ[p] = slices.Compact(d.succ[p])
 	}
-	for _, nodes := range topo.TarjanSCC(d.g) {
-		cells := make([]int, len(nodes))
-		for i, n := range nodes {
-			cells[i] = int(n.ID())
+	d.reachable = make([]bool, n)
+	d.reachable[0] = true
+	queue := []int{0}
+	for len(queue) > 0 {
+		p := queue[0]
+		queue = queue[1:]
+		for _, q := range d.succ[p] {
+			if !d.reachable[q] {
+				d.reachable[q] = true
+				queue = append(queue, q)
+			}
 		}
-		slices.Sort(cells)
-		d.Components = append(d.Components, Component{Cells: cells})
 	}
-	slices.SortFunc(d.Components, func(a, b Component) int { return a.Cells[0] - b.Cells[0] })
-	d.component = make([]int, d.Cells)
-	for i, c := range d.Components {
-		for _, cell := range c.Cells {
-			d.component[cell] = i
+	d.recurrent = make([]bool, n)
+	for _, nodes := range topo.TarjanSCC(g) {
+		comp := make([]int, len(nodes))
+		for i, v := range nodes {
+			comp[i] = int(v.ID())
 		}
-	}
-	condensation := simple.NewDirectedGraph()
-	for i := range d.Components {
-		condensation.AddNode(simple.Node(i))
-	}
-	for w, ok := range sys.Allowed {
-		if !ok {
+		// A component holds a cycle when it has two states or a loop;
+		// one state of it is reachable exactly when all are.
+		if !d.reachable[comp[0]] || (len(comp) == 1 && !loop[comp[0]]) {
 			continue
 		}
-		from, to := sys.Ends(w)
-		cf, ct := d.component[from], d.component[to]
-		if cf == ct {
-			d.Components[cf].Windows++
-			continue
+		slices.Sort(comp)
+		for _, p := range comp {
+			d.recurrent[p] = true
 		}
-		if !condensation.HasEdgeFromTo(int64(cf), int64(ct)) {
-			condensation.SetEdge(simple.Edge{F: simple.Node(cf), T: simple.Node(ct)})
-		}
+		d.blocks = append(d.blocks, comp)
 	}
-	order, err := topo.SortStabilized(condensation, nil)
-	if err != nil {
-		panic("structure: the condensation of a digraph has a cycle: " + err.Error())
-	}
-	for _, n := range order {
-		d.Order = append(d.Order, int(n.ID()))
-	}
-	for i := range d.Components {
-		d.Components[i].Period = d.period(i)
-		d.Components[i].Cyclic = d.Components[i].Period > 0
-	}
+	// TarjanSCC returns components in no fixed order.
+	slices.SortFunc(d.blocks, func(a, b []int) int { return a[0] - b[0] })
 	return d
 }
 
-// period returns the gcd of the cycle lengths of component i by BFS
-// levels: with level(v) the distance from the least cell inside the
-// component, every edge u -> v inside it has level(u)+1-level(v) a
-// multiple of the period, and the gcd of these differences is the period
-// (0 when the component has no edge, so no cycle).
-func (d *Digraph) period(i int) int {
-	cells := d.Components[i].Cells
-	level := map[int]int{cells[0]: 0}
-	queue := []int{cells[0]}
-	gcd := 0
-	for len(queue) > 0 {
-		u := queue[0]
-		queue = queue[1:]
-		for _, v := range d.successors(u) {
-			if d.component[v] != i {
-				continue
-			}
-			if lv, seen := level[v]; seen {
-				gcd = gcdInt(gcd, abs(level[u]+1-lv))
-				continue
-			}
-			level[v] = level[u] + 1
-			queue = append(queue, v)
+// marked returns the states with the given mark, increasing.
+func marked(mark []bool) []int {
+	var out []int
+	for p, ok := range mark {
+		if ok {
+			out = append(out, p)
 		}
 	}
-	return gcd
+	return out
 }
 
-func gcdInt(a, b int) int {
-	for b != 0 {
-		a, b = b, a%b
-	}
-	return a
-}
-
-func abs(a int) int {
-	if a < 0 {
-		return -a
-	}
-	return a
-}
-
-// successors returns the cells reached from cell u by one window, sorted
-// and distinct. The slice is shared: callers must not modify it.
-func (d *Digraph) successors(u int) []int { return d.succ[u] }
-
-// Graph returns the window digraph as a gonum multigraph: node IDs are
-// cell ranks, line IDs are window ranks. Callers must not modify it.
-func (d *Digraph) Graph() graph.Directed { return d.g }
-
-// ComponentOf returns the index of the component holding a cell.
-func (d *Digraph) ComponentOf(cell int) int { return d.component[cell] }
-
-// Acyclic reports whether no component holds a cycle.
-func (d *Digraph) Acyclic() bool {
-	for _, c := range d.Components {
-		if c.Cyclic {
-			return false
-		}
-	}
-	return true
-}
-
-// LongestPath returns the largest number of windows on a walk of the
-// digraph, or -1 when the digraph has a cycle (walks are then unbounded).
-func (d *Digraph) LongestPath() int {
-	if !d.Acyclic() {
-		return -1
-	}
-	// Every component is a single cell; walk the order backwards.
-	longest := make([]int, d.Cells)
-	best := 0
-	for i := len(d.Order) - 1; i >= 0; i-- {
-		u := d.Components[d.Order[i]].Cells[0]
-		for _, v := range d.successors(u) {
-			longest[u] = max(longest[u], longest[v]+1)
-		}
-		best = max(best, longest[u])
-	}
-	return best
-}
-
-// SimpleCycles reports whether every cyclic component is a single cell.
-// A loop at a cell is a window whose first m and last m entries have the
-// same pattern; comparing adjacent entries shows that such a window is
-// monotone, so then every cycle is a monotone loop.
-func (d *Digraph) SimpleCycles() bool {
-	for _, c := range d.Components {
-		if c.Cyclic && len(c.Cells) > 1 {
-			return false
-		}
-	}
-	return true
-}
-
-// Unreachable returns the least pair of start cells (from, to), in rank
-// order, such that no walk of one or more windows leads from from to to;
-// ok is false when every such pair is joined (the start cells form one
-// strongly connected component with a cycle).
-func (d *Digraph) Unreachable() (from, to int, ok bool) {
-	for u := range d.Cells {
-		if !d.start[u] {
-			continue
-		}
-		reached := make([]bool, d.Cells)
-		queue := append([]int(nil), d.successors(u)...)
-		for _, v := range queue {
-			reached[v] = true
-		}
-		for len(queue) > 0 {
-			x := queue[0]
-			queue = queue[1:]
-			for _, v := range d.successors(x) {
-				if !reached[v] {
-					reached[v] = true
-					queue = append(queue, v)
-				}
+// longestWalk returns the largest number of edges of a walk from the
+// empty state. It must only be called when no state is recurrent: then
+// the reachable part of the digraph has no cycle.
+func (d *stateDigraph) longestWalk() int {
+	longest := make([]int, len(d.succ))
+	done := make([]bool, len(d.succ))
+	var walk func(p int) int
+	walk = func(p int) int {
+		if !done[p] {
+			done[p] = true // no cycle is reachable, so p is not revisited below itself
+			for _, q := range d.succ[p] {
+				longest[p] = max(longest[p], 1+walk(q))
 			}
 		}
-		for v := range d.Cells {
-			if d.start[v] && !reached[v] {
-				return u, v, true
-			}
-		}
+		return longest[p]
 	}
-	return 0, 0, false
+	return walk(0)
 }

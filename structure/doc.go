@@ -1,51 +1,68 @@
 // Package structure decides, with checkable evidence, whether the counts
-// a_n of a consecutive-pattern set behave like a_n/n! ~ c lambda^n.
+// a_n of a consecutive-pattern set behave like a_n/n! ~ c lambda^n. It
+// runs on the prefix states of package transfer (the same states and
+// moves as the counts and the brackets: transfer.NewStates), as
+// docs/prefix-states.md, "The structure test", fixes exactly.
 //
-// For a set whose longest pattern has length w = m+1 it builds the window
-// digraph W_S (one vertex per order cell of S_m, by pattern.Rank; one edge
-// per allowed window of length m+1, loops and parallel edges kept, as a
-// gonum multigraph), its strongly connected components with their periods
-// and a topological order of the blocks, and, for m <= 5, the exact
-// joint-pattern test of method.md section 5 on bitsets over S_2m.
+// The state digraph has an edge p -> q for every allowed move from p into
+// q. A state is recurrent when it is reachable from the empty state and
+// lies on a cycle; the others are transient. The blocks are the strongly
+// connected components among the recurrent states (canonical order: each
+// increasing, ordered by least state).
 //
-// Joint patterns. For k >= m, the joint pattern of an avoiding permutation
-// p of length m+k is the pattern of its first m entries followed by its
-// last m entries (see Joint); R_k is the set of them. The two windows are
-// disjoint from k = m on, where the test starts; for k < m the kernel of
-// T^k lives on a null set and is never a.e. positive. The domain is the
-// set of joint patterns whose halves avoid the shorter members (all of
-// S_2m when every member has length w).
+// The joint test follows configurations (s, c, o, w): a recurrent start
+// state s with its values x, the current recurrent state c with its values
+// y after k moves, their o shared values, and the joint order w of x and
+// y. R_k is the set of configurations after exactly k moves; D is every
+// configuration with o = 0 of every ordered pair of recurrent states. The
+// sequence R_0, R_1, ... is computed until R_e = D or its first
+// repetition (the joint cycle), at most MaxSteps sets. Each configuration
+// is one integer (its pair block, and the rank of the mask saying which of
+// its values are start values), each R_k a bitset, and a step a table
+// look-up per configuration and gap, the table filled the first time a
+// configuration is reached.
 //
 // What each class proves (Report.Class):
 //
-//   - Finite: the window digraph has no cycle; a_n > 0 exactly for
-//     n < N1 = m + P + 1, P its longest path. Exact for any m.
-//   - Primitive: R_e is the whole domain, so T^e has an a.e.-positive
-//     kernel; by Jentzsch's theorem lambda is a simple, strictly dominant
-//     eigenvalue and a_n/n! = c lambda^n (1 + O(theta^n)), c > 0,
-//     theta < 1. The exponent e is least. With Options.Witnesses, every
-//     joint pattern has a witness permutation of length m+e, which an
-//     independent checker verifies in linear time. Nothing is said about
-//     the value of lambda (package bounds brackets it).
-//   - Subexponential: lambda = 0 proved (no cyclic avoider of any length),
-//     while a_n > 0 for all n: a_n/n! decays faster than every exponential.
-//   - Periodic: the R_k repeat with period p > 1 and every joint pattern
-//     lies in exactly one R_k of the cycle: T is irreducible, not
-//     primitive. Not proved: an asymptotic form with a single constant.
-//   - Reducible: some start cell cannot reach another (Report.Unreached),
-//     so T leaves a proper set of cells invariant and lambda is the largest
-//     over the blocks. Not proved: a_n/n! ~ c lambda^n.
-//   - Undecided: nothing above was proved within the limits (m = 6, or
-//     Options.MaxSteps reached). The explanation says what was checked.
+//   - Primitive: R_e = D, e the primitivity exponent (the least k with
+//     T^k positive on the recurrent states); by Jentzsch's theorem lambda
+//     is simple and strictly dominant and a_n/n! = c lambda^n
+//     (1 + O(theta^n)), c > 0, theta < 1.
+//   - Periodic: one block; the p >= 2 sets of the joint cycle are
+//     disjoint, cover D and hold whole pairs of states, so
+//     a_n/n! = lambda^n (c_(n mod p) + O(theta^n)); one constant for
+//     every n is not proved.
+//   - Reducible: two or more blocks, or one whose joint cycle misses a
+//     configuration of D; lambda is the largest over the blocks, the
+//     asymptotic form is not proved.
+//   - Finite: no recurrent state; a_n > 0 exactly for n < N1 = P + 1, P the
+//     longest walk from the empty state.
+//   - Subexponential: recurrent states (a_n > 0 for every n) and lambda = 0.
+//   - Undecided: one block whose joint cycle covers D without splitting it
+//     into classes, or the step limit reached first.
 //
-// Independently, Report.Lambda says whether lambda > 0 is proved (by a
-// cyclic avoider, Report.CyclicAvoider: a permutation whose cyclic windows
-// all avoid the set), lambda = 0 is proved (exactly for m <= 5 from the
-// R_k, and for any m when every cycle of W_S is a monotone loop), or
-// neither. It is never guessed.
+// Report.Lambda: positive when some configuration of R_k with k + |s| >= w
+// (w the longest member's length), or of the recurring part of the
+// sequence, is closable; the evidence is a cyclic avoider realised from
+// it and checked window by window before it is reported. Zero when the
+// sequence recurs and none is. Undecided only at the step limit.
 //
-// Guarantees: results are deterministic and do not depend on GOMAXPROCS;
-// a Report, its Digraph and its Witnesses are not modified after Analyze
-// returns and may be read concurrently. Slices in a Report belong to it:
-// callers must not modify them.
+// Cost. Before it runs, Analyze estimates the test's memory (Estimate:
+// its move table, and its first 32 sets R_k with their witness links) and
+// refuses a test over Options.MaxMemory with a *BudgetError (errors.Is
+// ErrBudget); each further set is checked against the budget as the test
+// goes. Nothing else limits the pattern length: a single pattern of length
+// 9 has |D| = 48602.
+//
+// The order-cell form of this test (window digraph, joint patterns over
+// S_2m) is gone; its verdicts on 363 sets are kept in
+// testdata/cellform-verdicts.txt, and a test checks that this one agrees
+// with them wherever the difference is not a transient start cell.
+//
+// Guarantees: results are deterministic and do not depend on GOMAXPROCS.
+// A Report is not modified after Analyze returns and may be read
+// concurrently; its slices, its States and its Witnesses belong to it and
+// callers must not modify them. Report.Witnesses rebuilds realisations on
+// demand and is not safe for concurrent use. Analyze may run on several
+// sets at once.
 package structure

@@ -1,5 +1,7 @@
 package transfer
 
+import "avoidcert/internal/bytesize"
+
 // Compositions of D into L+1 parts (the gaps a_0..a_L of a state of length
 // L) are stored in colex order of the L-subset {s_0, s_1+1, ..., s_(L-1)+L-1}
 // where s_i = a_0+...+a_i. The rank is then sum_i C(s_i+i, i+1) (the
@@ -11,8 +13,18 @@ package transfer
 // concurrent use.
 type Indexer struct {
 	l     int     // parts - 1
-	binom [][]int // binom[n][r] = C(n, r) for r <= l+1
+	binom [][]int // binom[n][r] = min(C(n, r), MaxCount) for r <= l+1
 }
+
+// MaxCount caps the binomials of an Indexer: a count of compositions at or
+// above it is MaxCount. No array of that many coefficients can be held
+// (2^36 of at least 8 bytes each, bytesize.Beyond), so every size computed
+// from counts (memory estimates, in bytes) stays far below the int64
+// range, and an estimate that reaches the cap is refused by any memory
+// budget rather than wrapping around; it is then a lower bound, and
+// messages say "more than" (bytesize.About). With 9 gaps (patterns of
+// length 9) C(n, 8) passes the int64 range near n = 800.
+const MaxCount = bytesize.Beyond / 8
 
 // NewIndexer returns an Indexer for l+1 parts and degrees up to maxD.
 func NewIndexer(l, maxD int) *Indexer {
@@ -22,13 +34,14 @@ func NewIndexer(l, maxD int) *Indexer {
 		b[i] = make([]int, l+2)
 		b[i][0] = 1
 		for r := 1; r <= l+1 && i > 0; r++ {
-			b[i][r] = b[i-1][r-1] + b[i-1][r]
+			b[i][r] = min(b[i-1][r-1]+b[i-1][r], MaxCount)
 		}
 	}
 	return &Indexer{l: l, binom: b}
 }
 
-// Count returns the number of compositions of D: C(D+l, l), 0 for D < 0.
+// Count returns the number of compositions of D: C(D+l, l), 0 for D < 0,
+// or MaxCount when that is larger.
 func (ix *Indexer) Count(D int) int {
 	if D < 0 {
 		return 0

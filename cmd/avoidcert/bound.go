@@ -15,7 +15,6 @@ import (
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/prove"
-	"avoidcert/structure"
 )
 
 func init() {
@@ -43,8 +42,8 @@ Flags:
   --width W           absolute width target instead, e.g. 1e-20 (not with --digits)
   --out FILE          certificate path (default avoidcert-SET.json); see below
   --no-certificate    write no certificate
-  --json              {"patterns":[...],"class":...,"period":d,"exponent":e,
-                      "lambda":{"lo","hi"},"radius":{...},"k":K,"digits":D,
+  --json              {"patterns":[...],"class":...,"primitivity_exponent":k,
+                      "period":p,"finite_from":N1,"lambda":{"lo","hi"},"radius":{...},"k":K,"digits":D,
                       "all_n":{"n0","a_n0","lo","hi"},"estimates":{"note":
                       "estimate, not certified",...},"stop":...,"certificate":PATH}
   --max-k K           stop at this k (default 1000, the checker's limit)
@@ -300,13 +299,13 @@ func certified(c *certify.Certificate) (lambda, radius bounds.Enclosure, digits,
 }
 
 func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
-	res, rep := r.Bracket, r.Report
+	res, cs := r.Bracket, r.Certificate.Structure
 	lambda, radius, digits, agreed := certified(r.Certificate)
 	fmt.Fprintf(w, "patterns: %s (window length %d)\n", r.Set, r.Set.Window())
 	form := prove.FormOf(r.Certificate)
 	printWrapped(w, "class: "+form.Words(), "  ")
 	if form.Class == certify.ClassSubexponential {
-		fmt.Fprintln(w, "lambda = 0 (proved by the structure pass: no cyclic avoider of any length)")
+		fmt.Fprintln(w, "lambda = 0 (proved by the structure test: no cyclic avoider of any length)")
 	}
 	fmt.Fprintf(w, "lambda   in %s  (%s)\n", lambda.String(digits), digitWords(lambda, agreed))
 	fmt.Fprintf(w, "1/lambda in %s\n", radius.String(digits))
@@ -326,7 +325,7 @@ func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
 	for i, c := range est.ByResidue {
 		fmt.Fprintf(w, "estimate, not certified: c_%d in a_n/n! = lambda^n (c_(n mod %d) + o(1)) ~ %.6g (from the exact a_n)\n", i, len(est.ByResidue), c)
 	}
-	if rep.Class == structure.Subexponential {
+	if cs.Class == certify.ClassSubexponential {
 		fmt.Fprintf(w, "stopped: upper bound taken at k = %d (lambda = 0 is proved; the bracket only bounds the decay) after %.1f s\n",
 			r.K(), res.Elapsed.Seconds())
 	} else {
@@ -394,8 +393,9 @@ func digitWords(x bounds.Enclosure, digits int) string {
 type boundJSON struct {
 	Patterns    []string       `json:"patterns"`
 	Class       string         `json:"class"`
+	Exponent    *int           `json:"primitivity_exponent"`
 	Period      *int           `json:"period"`
-	Exponent    *int           `json:"exponent"`
+	FiniteFrom  *int           `json:"finite_from"`
 	Lambda      endsJSON       `json:"lambda"`
 	Radius      endsJSON       `json:"radius"`
 	K           int            `json:"k"`
@@ -444,11 +444,10 @@ func ends(x bounds.Enclosure, digits int) endsJSON {
 func writeBoundJSON(w io.Writer, r *prove.Result, dest *outFile) {
 	res := r.Bracket
 	lambda, radius, digits, agreed := certified(r.Certificate)
-	form := prove.FormOf(r.Certificate)
-	out := boundJSON{Patterns: r.Set.Strings(), Class: string(form.Class),
+	out := boundJSON{Patterns: r.Set.Strings(), Class: string(prove.FormOf(r.Certificate).Class),
 		Lambda: ends(lambda, digits), Radius: ends(radius, digits), K: r.K(), Digits: min(agreed, 1000),
 		Stop: string(res.Stop), Seconds: res.Elapsed.Seconds()}
-	out.Period, out.Exponent = periodExponent(form)
+	out.Exponent, out.Period, out.FiniteFrom = classNumbers(r.Certificate.Structure)
 	out.AllN = allNJSONOf(r.Certificate.Statement.AllN, digits)
 	est := &estimatesJSON{Note: "estimate, not certified", CPhases: r.Estimates.ByResidue}
 	if x := r.Estimates.Rate; x > 0 {

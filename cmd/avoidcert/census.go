@@ -27,7 +27,7 @@ func init() {
        avoidcert census merge [--out DIR] SHARD-DIR...
 
 Tabulates every symmetry class (reverse, complement, both) of single
-patterns of length K (3..7): exact counts a_0..a_N, lambda and 1/lambda
+patterns of length K (3..8): exact counts a_0..a_N, lambda and 1/lambda
 certified to D significant digits with a certificate the checker accepted,
 the asymptotic form; the groups of classes with equal counts up to N
 (candidate c-Wilf equivalences; different groups are proved inequivalent at
@@ -39,7 +39,7 @@ certificates/. A run killed at any moment continues where it stopped when
 run again with the same flags: finished classes are in DIR/journal.
 
 Flags:
-  --length K       pattern length, 3 to 7 (required)
+  --length K       pattern length, 3 to 8 (required)
   --to N           counts a_0..a_N (default 20)
   --digits D       significant digits of lambda to certify (default 10)
   --out DIR        output folder (default census-K, or census-K-shard-I-of-N)

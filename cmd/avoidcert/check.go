@@ -35,8 +35,9 @@ Flags:
                       any set is accepted: say which set you expect
                       whenever you know it.
   --json              {"verdict":"valid"|"invalid"|"undecided","reason":...,
-                      "patterns":[...],"class":...,"period":d,"exponent":e,
-                      "lambda":{"lo","hi"},"radius":{...},"n":[...],
+                      "patterns":[...],"class":...,"primitivity_exponent":k,
+                      "period":p,"finite_from":N1,"blocks":[[...]],
+                      "lambda_status":...,"lambda":{"lo","hi"},"radius":{...},"n":[...],
                       "all_n":{"n0","a_n0","lo","hi"}}
   --max-work N        refuse certificates whose recomputation is estimated
                       above N coefficient operations (default 1e12; the
@@ -199,8 +200,11 @@ type checkJSON struct {
 	Reason   string    `json:"reason,omitempty"`
 	Patterns []string  `json:"patterns"`
 	Class    *string   `json:"class"`
+	Exponent *int      `json:"primitivity_exponent"`
 	Period   *int      `json:"period"`
-	Exponent *int      `json:"exponent"`
+	N1       *int      `json:"finite_from"`
+	Blocks   [][]int   `json:"blocks"`
+	LambdaSt *string   `json:"lambda_status"`
 	Lambda   *endsJSON `json:"lambda"`
 	Radius   *endsJSON `json:"radius"`
 	N        []int     `json:"n"`
@@ -237,11 +241,18 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 	if v.Class != "" {
 		out.Class = &v.Class
 	}
+	if v.Exponent > 0 {
+		out.Exponent = &v.Exponent
+	}
 	if v.Period > 0 {
 		out.Period = &v.Period
 	}
-	if v.Exponent > 0 {
-		out.Exponent = &v.Exponent
+	if v.N1 > 0 {
+		out.N1 = &v.N1
+	}
+	out.Blocks = v.Blocks
+	if v.LambdaStatus != "" {
+		out.LambdaSt = &v.LambdaStatus
 	}
 	if a := v.AllN; a != nil {
 		out.AllN = &allNJSON{N0: a.N0, AN0: a.AN0, Lo: nonEmpty(a.Lo), Hi: nonEmpty(a.Hi)}

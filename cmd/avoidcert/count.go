@@ -67,8 +67,8 @@ func runCount(ctx context.Context, e *env, args []string) int {
 	}
 	if need := transfer.CountsFootprint(set, *to); need > int64(maxMem) {
 		// a budget, not bad input: exit 3 as for every budget
-		fmt.Fprintf(e.stderr, "avoidcert: count: undecided: counting to n = %d needs about %s, over --max-memory %s; lower --to or raise --max-memory\n",
-			*to, bytesize.Format(need), bytesize.Format(int64(maxMem)))
+		fmt.Fprintf(e.stderr, "avoidcert: count: undecided: counting to n = %d needs %s, over --max-memory %s; lower --to or raise --max-memory\n",
+			*to, bytesize.About(need), bytesize.Format(int64(maxMem)))
 		return exitUndecided
 	}
 	if *verbose {

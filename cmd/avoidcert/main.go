@@ -15,6 +15,7 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/prove"
+	"avoidcert/structure"
 )
 
 // Exit codes, documented in the README.
@@ -147,6 +148,7 @@ Exit codes: 0 success, 1 a claim or check failed, 2 usage or input error,
 func failure(e *env, err error) int {
 	var ue usageError
 	var be *bounds.BudgetError
+	var sbe *structure.BudgetError
 	switch {
 	case errors.As(err, &ue):
 		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)
@@ -165,6 +167,9 @@ func failure(e *env, err error) int {
 			raise = "the budget"
 		}
 		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise %s\n", be, raise)
+		return exitUndecided
+	case errors.As(err, &sbe):
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise --max-memory\n", sbe)
 		return exitUndecided
 	case errors.Is(err, prove.ErrBudget):
 		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise the budget\n", err)

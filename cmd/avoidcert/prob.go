@@ -127,7 +127,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 		out.AllN = &probAllN{N0: all.N0, LambdaDigits: c.Digits}
 		why := "N is past 500"
 		if *n <= prob.MaxExactN {
-			why = fmt.Sprintf("an exact count would need about %s, over --max-memory %s", bytesize.Format(need), bytesize.Format(int64(maxMem)))
+			why = fmt.Sprintf("an exact count would need %s, over --max-memory %s", bytesize.About(need), bytesize.Format(int64(maxMem)))
 		}
 		out.Note = fmt.Sprintf("%s; from the checked certificate's bound for every n >= %d (lambda bracketed to %d digits)", why, all.N0, c.Digits)
 		narrow := c.Narrow

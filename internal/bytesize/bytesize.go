@@ -28,6 +28,20 @@ func Parse(s string) (int64, error) {
 	return int64(v * float64(units[unit])), nil
 }
 
+// Beyond is the size at which estimates stop being exact: the engine
+// caps its counts of coefficients at Beyond/8 (transfer.MaxCount), so an
+// estimate that reaches Beyond may be far below the true need.
+const Beyond = 512 << 30
+
+// About writes an estimate n for a message: "about 3.2 GiB", or "more
+// than 512.0 GiB" from Beyond on (where estimates are lower bounds).
+func About(n int64) string {
+	if n >= Beyond {
+		return "more than " + Format(Beyond)
+	}
+	return "about " + Format(n)
+}
+
 // Format writes n bytes with a binary unit: "8.0 GiB", "136.9 MiB",
 // "2.0 KiB", "512 bytes".
 func Format(n int64) string {

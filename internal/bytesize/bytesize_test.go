@@ -34,3 +34,21 @@ func TestParse(t *testing.T) {
 		}
 	}
 }
+
+// Estimates from Beyond on may come from capped counts: they are said as
+// lower bounds.
+func TestAbout(t *testing.T) {
+	for _, tc := range []struct {
+		n    int64
+		want string
+	}{
+		{3 << 30, "about 3.0 GiB"},
+		{Beyond - 1, "about 512.0 GiB"},
+		{Beyond, "more than 512.0 GiB"},
+		{1 << 62, "more than 512.0 GiB"},
+	} {
+		if got := About(tc.n); got != tc.want {
+			t.Errorf("About(%d) = %q, want %q", tc.n, got, tc.want)
+		}
+	}
+}

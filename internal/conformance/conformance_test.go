@@ -5,12 +5,14 @@ import (
 	"math"
 	"math/big"
 	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
 	"avoidcert/internal/brute"
+	"avoidcert/internal/settest"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/prove"
@@ -66,11 +68,11 @@ func TestCountsAgree(t *testing.T) {
 // sets; step p for periodic ones) and the structure pass's section.
 func engineCertificate(t *testing.T, s pattern.Set, n int) (*certify.Certificate, *structure.Report) {
 	t.Helper()
-	rep, err := structure.Analyze(ctx, s, structure.Options{Witnesses: s.Window() <= 5})
+	rep, err := structure.Analyze(ctx, s, structure.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	st := transfer.NewStates(s)
+	st := rep.States
 	n = max(n, st.MaxLength())
 	var brackets []*bounds.Bracket
 	whole, err := bounds.BracketAt(ctx, transfer.Whole(st), n, 1, 128)
@@ -105,10 +107,7 @@ func engineCertificate(t *testing.T, s pattern.Set, n int) (*certify.Certificate
 			}
 		}
 	}
-	c := &certify.Certificate{Tool: "avoidcert conformance tests", Statement: certify.Statement{Given: s.Strings()}}
-	if rep.M >= 0 {
-		c.Structure = prove.Structure(rep)
-	}
+	c := &certify.Certificate{Tool: "avoidcert conformance tests", Statement: certify.Statement{Given: s.Strings()}, Structure: prove.Structure(rep)}
 	lo, hi := new(big.Rat), new(big.Rat)
 	for _, b := range brackets {
 		c.Evidence.Brackets = append(c.Evidence.Brackets, certify.Bracket{States: b.States, Start: certify.Start(b.Start),
@@ -272,4 +271,103 @@ func TestDecimalsAgree(t *testing.T) {
 			t.Fatalf("%s at %d digits: up %s, interval.DecimalUp %s", r, digits, c.Statement.Lambda.HiDecimal, want)
 		}
 	}
+}
+
+// structureSets are random sets of mixed lengths 2 to 6 and sets of every
+// class named in docs/prefix-states.md, with single patterns of lengths 7
+// to 9 (|D| = 3418, 12854, 48602).
+func structureSets(t *testing.T) []pattern.Set {
+	sets := settest.List(t, "123,321", "321,1234,2143,3142,3241,4132,4231", "12,21", "1", "21,1234567", "12",
+		"132,231", "123,231,312,321", "1423,2413,3412,4123,4312", "132,1234,3421,4321", "1243,1342,2314,2413,3421,4132", "231,1243",
+		"1234567", "1526374", "12345678", "123456789", "192837465")
+	rng := rand.New(rand.NewPCG(14, 6))
+	for range 150 {
+		sets = append(sets, settest.Random(rng, 6, 6))
+	}
+	return sets
+}
+
+// TestStructureSectionsCheck has the checker recompute the structure
+// section the engine states (class, primitivity exponent, period, N1,
+// blocks, recurrent states, |D|, joint cycle, cyclic avoider) for sets of
+// every class: it must accept each. Then it changes one derived value of
+// each of the first sets and of the named ones (the engine and the
+// checker disagreeing) and the checker must refuse every change.
+func TestStructureSectionsCheck(t *testing.T) {
+	classes := map[structure.Class]int{}
+	for i, s := range structureSets(t) {
+		c, rep := engineCertificate(t, s, 0)
+		if c == nil {
+			t.Fatalf("%s: no certificate at the smallest n", s)
+		}
+		if err := certify.Check(ctx, c, certify.CheckOptions{Expect: s.Strings()}); err != nil {
+			t.Fatalf("%s (%s): %v", s, rep.Class, err)
+		}
+		classes[rep.Class]++
+		if i >= 40 {
+			continue
+		}
+		for what, change := range structureChanges(c.Structure) {
+			bad := *c
+			st := *c.Structure
+			change(&st)
+			bad.Structure = &st
+			if err := certify.Check(ctx, &bad, certify.CheckOptions{Expect: s.Strings()}); err == nil {
+				t.Errorf("%s (%s): the checker accepted the section with %s", s, rep.Class, what)
+			}
+		}
+	}
+	t.Logf("classes %v", classes)
+	for _, want := range []structure.Class{structure.Primitive, structure.Periodic, structure.Reducible, structure.Finite, structure.Subexponential} {
+		if classes[want] == 0 {
+			t.Errorf("no set of class %s among the sets", want)
+		}
+	}
+}
+
+// structureChanges returns, for a structure section, ways to change one of
+// its derived values (each on a copy the caller made; slices are
+// replaced, never written).
+func structureChanges(cs *certify.Structure) map[string]func(*certify.Structure) {
+	out := map[string]func(*certify.Structure){}
+	switch cs.Class {
+	case certify.ClassPrimitive:
+		out["the exponent one more"] = func(s *certify.Structure) { s.Exponent++ }
+		if cs.Exponent > 1 {
+			out["the exponent one less"] = func(s *certify.Structure) { s.Exponent-- }
+		}
+	case certify.ClassPeriodic:
+		out["the period and cycle one longer"] = func(s *certify.Structure) { s.Period++; s.CycleLength++ }
+	case certify.ClassFinite:
+		out["N1 one more"] = func(s *certify.Structure) { s.N1++ }
+		out["N1 one less"] = func(s *certify.Structure) { s.N1-- }
+	case certify.ClassReducible:
+		out["the blocks merged"] = func(s *certify.Structure) {
+			var all []int
+			for _, b := range s.Blocks {
+				all = append(all, b...)
+			}
+			slices.Sort(all)
+			s.Blocks = [][]int{all}
+		}
+	}
+	if len(cs.Recurrent) > 0 {
+		out["a recurrent state left out"] = func(s *certify.Structure) { s.Recurrent = slices.Clone(s.Recurrent[1:]) }
+		out["|D| one more"] = func(s *certify.Structure) { s.Configurations++ }
+	}
+	if cs.CycleLength > 0 {
+		out["the cycle starting one later"] = func(s *certify.Structure) { s.CycleStart++ }
+	}
+	if cs.Class == certify.ClassPrimitive {
+		out["class periodic with period 2"] = func(s *certify.Structure) {
+			s.Class, s.Exponent, s.Period, s.CycleStart, s.CycleLength = certify.ClassPeriodic, 0, 2, 1, 2
+		}
+	}
+	if cs.Class == certify.ClassSubexponential {
+		out["lambda positive with a made-up avoider"] = func(s *certify.Structure) {
+			s.Class, s.Lambda, s.CyclicAvoider = certify.ClassReducible, certify.LambdaPositive, []int{1, 3, 2, 4}
+			s.Blocks = [][]int{s.Recurrent}
+		}
+	}
+	return out
 }

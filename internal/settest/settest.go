@@ -20,6 +20,17 @@ func Must(t testing.TB, args ...string) pattern.Set {
 	return s
 }
 
+// List parses one set per argument (each a comma list, "123,321") or
+// fails the test.
+func List(t testing.TB, sets ...string) []pattern.Set {
+	t.Helper()
+	out := make([]pattern.Set, len(sets))
+	for i, arg := range sets {
+		out[i] = Must(t, arg)
+	}
+	return out
+}
+
 // Random draws one to maxCount patterns of lengths 2..maxLen.
 func Random(rng *rand.Rand, maxCount, maxLen int) pattern.Set {
 	return pattern.NewSet(brute.RandomPatterns[pattern.Perm](rng, maxCount, 2, maxLen)...)
