@@ -144,7 +144,7 @@ func Run(ctx context.Context, opts Options) (*Report, error) {
 	if opts.Shard.Whole() {
 		opts.Shard = Shard{}
 	}
-	j, err := openJournal(opts.Dir, opts.Params, opts.Shard)
+	j, err := openJournal(ctx, opts.Dir, opts.Params, opts.Shard)
 	if err != nil {
 		return nil, err
 	}
@@ -154,7 +154,7 @@ func Run(ctx context.Context, opts Options) (*Report, error) {
 		return nil, inputErrorf("shard %s of length %d holds no class: there are only %d classes; use at most that many shards",
 			opts.Shard, opts.Params.Length, len(Shard{}.Classes(opts.Params.Length)))
 	}
-	rows, err := j.finished(classes)
+	rows, err := j.finished(ctx, classes)
 	if err != nil {
 		return nil, err
 	}

@@ -122,7 +122,7 @@ func TestRunWritesTablesAndCertificates(t *testing.T) {
 			t.Error(err)
 		}
 	}
-	back, err := ReadReport(dir)
+	back, err := ReadReport(context.Background(), dir)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -206,7 +206,7 @@ func TestRunRefusesAFolderOfAnotherCensus(t *testing.T) {
 
 func TestRunRefusesASecondRunOnTheFolder(t *testing.T) {
 	dir := t.TempDir()
-	j, err := openJournal(dir, Params{Length: 3, To: 9, Digits: 5}, Shard{})
+	j, err := openJournal(context.Background(), dir, Params{Length: 3, To: 9, Digits: 5}, Shard{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -242,7 +242,7 @@ func TestMergeOfShardsEqualsTheWhole(t *testing.T) {
 	out := t.TempDir()
 	dirs := shards(t, 5, 3)
 	slices.Reverse(dirs) // the order of the folders does not matter
-	if _, err := Merge(out, dirs); err != nil {
+	if _, err := Merge(context.Background(), out, dirs); err != nil {
 		t.Fatal(err)
 	}
 	sameTree(t, whole, out)
@@ -263,7 +263,7 @@ func TestMergeRefusals(t *testing.T) {
 		t.Fatal(err)
 	}
 	dropped := shards(t, 4, 3)[0]
-	rep, err := ReadReport(dropped)
+	rep, err := ReadReport(context.Background(), dropped)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -288,7 +288,7 @@ func TestMergeRefusals(t *testing.T) {
 		if c.name == "output is a shard" {
 			out = dirs[0]
 		}
-		_, err := Merge(out, c.dirs)
+		_, err := Merge(context.Background(), out, c.dirs)
 		var in *InputError
 		if !errors.As(err, &in) || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%s: error %v, want an input error containing %q", c.name, err, c.want)

@@ -2,6 +2,7 @@ package census
 
 import (
 	"bytes"
+	"context"
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
@@ -13,6 +14,7 @@ import (
 	"slices"
 
 	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/input"
 	"avoidcert/pattern"
 )
 
@@ -53,7 +55,7 @@ type journal struct {
 	unlock func()
 }
 
-func openJournal(dir string, params Params, shard Shard) (*journal, error) {
+func openJournal(ctx context.Context, dir string, params Params, shard Shard) (*journal, error) {
 	for _, d := range []string{dir, filepath.Join(dir, journalDir), filepath.Join(dir, certificateDir)} {
 		if err := os.MkdirAll(d, 0o755); err != nil {
 			return nil, inputErrorf("cannot create the census folder %s: %v; choose another --out", d, err)
@@ -86,12 +88,14 @@ func openJournal(dir string, params Params, shard Shard) (*journal, error) {
 		return nil, err
 	}
 	path := filepath.Join(dir, journalDir, paramsFile)
-	have, err := os.ReadFile(path)
+	have, err := input.ReadFile(ctx, path, input.JournalEntry)
 	switch {
 	case errors.Is(err, fs.ErrNotExist):
 		if err := atomicfile.WriteFile(path, wantBytes, 0o644); err != nil {
 			return nil, err
 		}
+	case errors.As(err, new(*input.Error)):
+		return nil, inputErrorf("%v; it should be the journal's parameters: choose another --out", err)
 	case err != nil:
 		return nil, err
 	case !bytes.Equal(have, wantBytes):
@@ -152,27 +156,33 @@ func (j *journal) record(row Row, certificate []byte, seconds float64) (Row, err
 // finished returns the journalled rows of the given classes, by
 // representative. A record whose certificate is missing or differs from
 // its digest is not counted: that class is done again.
-func (j *journal) finished(classes []pattern.Class) (map[string]Row, error) {
+func (j *journal) finished(ctx context.Context, classes []pattern.Class) (map[string]Row, error) {
 	rows := make(map[string]Row)
 	for _, c := range classes {
 		rep := c.Representative.String()
-		data, err := os.ReadFile(j.recordPath(rep))
-		if errors.Is(err, fs.ErrNotExist) {
+		data, err := input.ReadFile(ctx, j.recordPath(rep), input.JournalEntry)
+		switch {
+		case errors.Is(err, fs.ErrNotExist):
 			continue
-		}
-		if err != nil {
+		case errors.As(err, new(*input.Error)):
+			return nil, inputErrorf("%v; remove it to redo the class", err)
+		case err != nil:
 			return nil, err
 		}
 		var rec record
-		if err := json.Unmarshal(data, &rec); err != nil {
+		if err := decodeJSON(data, &rec); err != nil {
 			return nil, inputErrorf("journal record %s is not readable (%v): it was changed by hand; remove it to redo the class", j.recordPath(rep), err)
 		}
 		row := rec.Row
 		if err := row.fits(c, j.params); err != nil {
 			return nil, inputErrorf("journal record %s: %v; remove it to redo the class", j.recordPath(rep), err)
 		}
-		if _, err := readCertificate(j.dir, row); err == nil {
+		_, err = readCertificate(ctx, j.dir, row)
+		switch {
+		case err == nil:
 			rows[rep] = row
+		case ctx.Err() != nil:
+			return nil, ctx.Err()
 		}
 	}
 	return rows, nil
@@ -199,8 +209,8 @@ func (r Row) fits(c pattern.Class, params Params) error {
 
 // readCertificate returns the row's certificate file in dir, checked
 // against the row's digest.
-func readCertificate(dir string, row Row) ([]byte, error) {
-	data, err := os.ReadFile(filepath.Join(dir, row.Certificate))
+func readCertificate(ctx context.Context, dir string, row Row) ([]byte, error) {
+	data, err := input.ReadFile(ctx, filepath.Join(dir, row.Certificate), input.Certificate)
 	if err != nil {
 		return nil, err
 	}
@@ -209,6 +219,15 @@ func readCertificate(dir string, row Row) ([]byte, error) {
 		return nil, fmt.Errorf("%s does not have the SHA-256 its row records: the file was changed", filepath.Join(dir, row.Certificate))
 	}
 	return data, nil
+}
+
+// decodeJSON reads a JSON file the census wrote into v, refusing nesting
+// deeper than any such file has before the decoder sees it.
+func decodeJSON(data []byte, v any) error {
+	if err := input.CheckJSON(data); err != nil {
+		return err
+	}
+	return json.Unmarshal(data, v)
 }
 
 // marshal is the one JSON layout of every file the census writes:

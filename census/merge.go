@@ -2,6 +2,7 @@ package census
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"errors"
 	"io/fs"
@@ -10,6 +11,7 @@ import (
 	"path/filepath"
 
 	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/input"
 )
 
 // Merge combines the finished shards in dirs into the whole census in
@@ -17,7 +19,7 @@ import (
 // refuses (with an *InputError) shards of different parameters, tools or
 // shard counts, a shard given twice or missing, a class missing or
 // present twice, and a certificate whose file differs from its digest.
-func Merge(out string, dirs []string) (*Report, error) {
+func Merge(ctx context.Context, out string, dirs []string) (*Report, error) {
 	if len(dirs) == 0 {
 		return nil, inputErrorf("no shard folder given; name the folders of every shard")
 	}
@@ -32,7 +34,7 @@ func Merge(out string, dirs []string) (*Report, error) {
 		certOf = make(map[string][]byte)
 	)
 	for _, dir := range dirs {
-		rep, err := ReadReport(dir)
+		rep, err := ReadReport(ctx, dir)
 		if err != nil {
 			return nil, err
 		}
@@ -64,7 +66,10 @@ func Merge(out string, dirs []string) (*Report, error) {
 			}
 			owner[r.Representative] = dir
 			mine[r.Representative] = true
-			cert, err := readCertificate(dir, r)
+			cert, err := readCertificate(ctx, dir, r)
+			if ctx.Err() != nil {
+				return nil, ctx.Err()
+			}
 			if err != nil {
 				return nil, inputErrorf("%s: class %s: %v", dir, r.Representative, err)
 			}
@@ -114,14 +119,20 @@ func Merge(out string, dirs []string) (*Report, error) {
 
 // ReadReport reads a folder's census.json strictly: the format, every
 // member known, every number well formed. It returns an *InputError for
-// a file that is missing or not a census.
-func ReadReport(dir string) (*Report, error) {
-	data, err := os.ReadFile(filepath.Join(dir, JSONFile))
-	if errors.Is(err, fs.ErrNotExist) {
+// a file that is missing, not a census, not a regular file or over
+// input.Census's size limit, and ctx.Err() when ctx is cancelled.
+func ReadReport(ctx context.Context, dir string) (*Report, error) {
+	data, err := input.ReadFile(ctx, filepath.Join(dir, JSONFile), input.Census)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
 		return nil, inputErrorf("%s has no %s: the shard is not finished (run it again with the same flags to complete it) or the folder is not a census", dir, JSONFile)
+	case ctx.Err() != nil:
+		return nil, ctx.Err()
+	case err != nil:
+		return nil, inputErrorf("%v", err)
 	}
-	if err != nil {
-		return nil, inputErrorf("cannot read %s: %v", filepath.Join(dir, JSONFile), err)
+	if err := input.CheckJSON(data); err != nil {
+		return nil, inputErrorf("%s is not a census file: %v", filepath.Join(dir, JSONFile), err)
 	}
 	var rep Report
 	dec := json.NewDecoder(bytes.NewReader(data))

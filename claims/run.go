@@ -164,7 +164,7 @@ func judgeCertified(ctx context.Context, c Claim, po prove.Options, opts Options
 func loadChecked(ctx context.Context, sets []pattern.Set, paths []string, po prove.Options) ([]*certify.Certificate, error) {
 	var certs []*certify.Certificate
 	for i, p := range paths {
-		cert, err := prove.Load(p)
+		cert, err := prove.Load(ctx, p)
 		if err != nil {
 			return nil, err
 		}

@@ -4,11 +4,11 @@ import (
 	"context"
 	"crypto/sha256"
 	"fmt"
-	"os"
 	"path/filepath"
 	"sort"
 
 	"avoidcert/census"
+	"avoidcert/internal/input"
 )
 
 // Census is what a report states about a census folder: its census.json,
@@ -21,7 +21,7 @@ type Census struct {
 // FromCensus reads dir/census.json and has the checker re-verify every
 // row's certificate (after comparing its SHA-256 with the row's).
 func FromCensus(ctx context.Context, dir string) (*Census, error) {
-	rep, err := census.ReadReport(dir)
+	rep, err := census.ReadReport(ctx, dir)
 	if err != nil {
 		return nil, err
 	}
@@ -30,8 +30,11 @@ func FromCensus(ctx context.Context, dir string) (*Census, error) {
 	}
 	for _, row := range rep.Rows {
 		path := filepath.Join(dir, filepath.FromSlash(row.Certificate))
-		data, err := os.ReadFile(path)
+		data, err := input.ReadFile(ctx, path, input.Certificate)
 		if err != nil {
+			if ctx.Err() != nil {
+				return nil, ctx.Err()
+			}
 			return nil, fmt.Errorf("%s: row %s: %v", dir, row.Representative, err)
 		}
 		if got := fmt.Sprintf("%x", sha256.Sum256(data)); got != row.CertificateSHA256 {

@@ -63,7 +63,7 @@ interrupted or a class failed (the finished classes are kept: run again).
 
 func runCensus(ctx context.Context, e *env, args []string) int {
 	if len(args) > 0 && args[0] == "merge" {
-		return runCensusMerge(e, args[1:])
+		return runCensusMerge(ctx, e, args[1:])
 	}
 	fs := newFlags("census")
 	length := fs.Int("length", 0, "")
@@ -167,7 +167,7 @@ func censusFailure(e *env, dir string, err error) int {
 	return exitAborted
 }
 
-func runCensusMerge(e *env, args []string) int {
+func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("census merge")
 	out := fs.String("out", "", "")
 	dirs, err := parseArgs(fs, args)
@@ -179,22 +179,28 @@ func runCensusMerge(e *env, args []string) int {
 	}
 	dir := *out
 	if dir == "" {
-		rep, err := census.ReadReport(dirs[0])
+		rep, err := census.ReadReport(ctx, dirs[0])
 		if err != nil {
-			return failure(e, usagef("census merge: %v", err))
+			return censusMergeFailure(e, err)
 		}
 		dir = "census-" + strconv.Itoa(rep.Params.Length)
 	}
-	rep, err := census.Merge(dir, dirs)
+	rep, err := census.Merge(ctx, dir, dirs)
 	if err != nil {
-		var in *census.InputError
-		if errors.As(err, &in) {
-			return failure(e, usagef("census merge: %v", err))
-		}
-		return failure(e, err)
+		return censusMergeFailure(e, err)
 	}
 	writeCensusSummary(e, dir, rep)
 	return exitOK
+}
+
+// censusMergeFailure reports a merge that did not finish: refused shards
+// are exit 2.
+func censusMergeFailure(e *env, err error) int {
+	var in *census.InputError
+	if errors.As(err, &in) {
+		return failure(e, usagef("census merge: %v", err))
+	}
+	return failure(e, err)
 }
 
 func writeCensusSummary(e *env, dir string, rep *census.Report) {

@@ -5,13 +5,13 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"io"
-	"io/fs"
 	"os"
 	"strings"
 
 	"avoidcert/certify"
+	"avoidcert/internal/brief"
 	"avoidcert/internal/bytesize"
+	"avoidcert/internal/input"
 	"avoidcert/pattern"
 )
 
@@ -98,7 +98,7 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	}
 	opts.MaxWork = int64(*maxWork)
 	opts.MaxMemory = int64(maxMem)
-	data, err := readInput(pos[0])
+	data, err := readCertificateInput(ctx, pos[0])
 	if err != nil {
 		return failure(e, err)
 	}
@@ -136,36 +136,21 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	return checkVerdict(e, *asJSON, cert, err)
 }
 
-// readInput reads a certificate file ("-": standard input). A file that
-// cannot be read is an input error (exit 2), not an invalid certificate.
-func readInput(path string) ([]byte, error) {
+// readCertificateInput reads a certificate file ("-": standard input),
+// bounded and regular files only (internal/input). A file that cannot be
+// read is an input error (exit 2), not an invalid certificate.
+func readCertificateInput(ctx context.Context, path string) ([]byte, error) {
+	var data []byte
+	var err error
 	if path == "-" {
-		data, err := io.ReadAll(io.LimitReader(os.Stdin, certify.MaxFileSize+1))
-		if err != nil {
-			return nil, usagef("check: cannot read standard input: %v", err)
-		}
-		return data, nil
+		data, err = input.ReadStream(ctx, os.Stdin, "standard input", input.Certificate)
+	} else {
+		data, err = input.ReadFile(ctx, path, input.Certificate)
 	}
-	info, err := os.Stat(path)
-	switch {
-	case errors.Is(err, fs.ErrNotExist):
-		return nil, usagef("check: %s does not exist; name a certificate file", quote(path))
-	case err != nil:
-		return nil, usagef("check: cannot read %s: %v", quote(path), err)
-	case info.IsDir():
-		return nil, usagef("check: %s is a folder; name a certificate file", quote(path))
+	if err != nil && ctx.Err() == nil {
+		return nil, usagef("check: %v", err)
 	}
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, usagef("check: cannot read %s: %v", quote(path), err)
-	}
-	defer f.Close()
-	// Read refuses anything over MaxFileSize; one byte more shows it.
-	data, err := io.ReadAll(io.LimitReader(f, certify.MaxFileSize+1))
-	if err != nil {
-		return nil, usagef("check: cannot read %s: %v", quote(path), err)
-	}
-	return data, nil
+	return data, err
 }
 
 // checkUndecided reports a certificate over the limits: exit 3.
@@ -263,7 +248,7 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 			upper = fmt.Sprintf(" <= A*%s^(n-%d)", *all.Hi, all.N0)
 		}
 		fmt.Fprintf(w, "verified: for every n >= %d: %sa_n/n!%s, A = a_%d/%d!, a_%d = %s\n",
-			all.N0, lower, upper, all.N0, all.N0, all.N0, abbreviateDigits(all.AN0))
+			all.N0, lower, upper, all.N0, all.N0, all.N0, brief.Digits(all.AN0))
 	}
 	return exitOK
 }
@@ -280,14 +265,6 @@ func orInf(s *string) string {
 		return "inf"
 	}
 	return *s
-}
-
-// abbreviateDigits shows a long integer by its first and last digits.
-func abbreviateDigits(s string) string {
-	if len(s) <= 40 {
-		return s
-	}
-	return fmt.Sprintf("%s...%s (%d digits)", s[:15], s[len(s)-15:], len(s))
 }
 
 // bracketWords describes one bracket of a certificate for a reader.

@@ -49,7 +49,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	}
 	var m *claims.Manifest
 	if *manifest != "" {
-		m, err = readManifest("demo", *manifest)
+		m, err = readManifest(ctx, "demo", *manifest)
 	} else {
 		m, err = claims.Parse(demo.ManuscriptName, demo.Manuscript)
 	}

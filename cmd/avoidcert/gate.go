@@ -9,6 +9,7 @@ import (
 
 	"avoidcert/claims"
 	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/input"
 )
 
 func init() {
@@ -74,7 +75,7 @@ func runGate(ctx context.Context, e *env, args []string) int {
 	if *timeout < 0 {
 		return failure(e, usagef("gate: --timeout must not be negative"))
 	}
-	m, err := readManifest("gate", pos[0])
+	m, err := readManifest(ctx, "gate", pos[0])
 	if err != nil {
 		return failure(e, err)
 	}
@@ -105,10 +106,13 @@ func runGate(ctx context.Context, e *env, args []string) int {
 }
 
 // readManifest reads and parses a manifest; every fault is a usage error.
-func readManifest(cmd, path string) (*claims.Manifest, error) {
-	data, err := os.ReadFile(path)
+func readManifest(ctx context.Context, cmd, path string) (*claims.Manifest, error) {
+	data, err := input.ReadFile(ctx, path, input.Manifest)
 	if err != nil {
-		return nil, usagef("%s: cannot read the manifest: %v", cmd, err)
+		if ctx.Err() != nil {
+			return nil, err
+		}
+		return nil, usagef("%s: %v", cmd, err)
 	}
 	m, err := claims.Parse(path, data)
 	if err != nil {

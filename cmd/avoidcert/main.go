@@ -12,8 +12,10 @@ import (
 	"os/signal"
 	"runtime/debug"
 	"sort"
+	"syscall"
 
 	"avoidcert/bounds"
+	"avoidcert/internal/brief"
 	"avoidcert/prove"
 )
 
@@ -49,12 +51,27 @@ func main() {
 	os.Exit(runProcess())
 }
 
-// runProcess runs the command line of this process, with Ctrl-C (SIGINT)
-// cancelling the context: every command then stops and exits 4.
-func runProcess() int {
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+// runProcess runs the command line of this process. Ctrl-C (SIGINT) and
+// SIGTERM (what 'timeout', CI cancellation and Slurm send) cancel the
+// context: every command then stops and exits 4 with a message. A panic
+// is an internal error, exit 4, never the usage code 2 (which is also
+// what the Go runtime gives a crash it cannot recover).
+func runProcess() (code int) {
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
+	defer func() {
+		if r := recover(); r != nil {
+			code = internalError(os.Stderr, r, debug.Stack())
+		}
+	}()
 	return run(ctx, &env{stdout: os.Stdout, stderr: os.Stderr, progress: progressWanted(os.Stderr)}, os.Args[1:])
+}
+
+// internalError reports a recovered panic: one line, then the stack for
+// the report; exit 4.
+func internalError(w io.Writer, r any, stack []byte) int {
+	fmt.Fprintf(w, "avoidcert: internal error, please report it with the lines below: %s\n%s", brief.Quote(fmt.Sprint(r)), stack)
+	return exitAborted
 }
 
 func run(ctx context.Context, e *env, args []string) int {
@@ -191,7 +208,7 @@ func limitMemory(bytes int64) {
 	debug.SetMemoryLimit(bytes)
 }
 
-// interrupted reports a Ctrl-C: exit 4, nothing written.
+// interrupted reports a Ctrl-C or SIGTERM: exit 4, nothing written.
 func interrupted(e *env) int {
 	fmt.Fprintln(e.stderr, "avoidcert: interrupted; nothing was written")
 	return exitAborted

@@ -11,6 +11,8 @@ import (
 	"time"
 
 	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/brief"
+	"avoidcert/internal/input"
 )
 
 // outFile is where a command writes a file it produces: a path, standard
@@ -93,26 +95,12 @@ func (o *outFile) resolve() error {
 		case info.IsDir():
 			return errors.New("it is a folder; name a file inside it")
 		case !info.Mode().IsRegular():
-			return fmt.Errorf("it is a %s, not a regular file, and is never replaced", kindOf(info.Mode()))
+			return fmt.Errorf("it is a %s, not a regular file, and is never replaced", input.TypeName(info.Mode()))
 		default:
 			o.target = p
 			return nil
 		}
 	}
-}
-
-func kindOf(m fs.FileMode) string {
-	switch {
-	case m&fs.ModeNamedPipe != 0:
-		return "FIFO (named pipe)"
-	case m&fs.ModeSocket != 0:
-		return "socket"
-	case m&fs.ModeCharDevice != 0:
-		return "character device"
-	case m&fs.ModeDevice != 0:
-		return "device"
-	}
-	return "special file"
 }
 
 // describe says where the file went, for the command's report.
@@ -153,10 +141,4 @@ func (o *outFile) write(stdout io.Writer, data []byte) (err error) {
 }
 
 // quote quotes s for a message, cut to a few dozen characters.
-func quote(s string) string {
-	const most = 60
-	if len(s) > most {
-		return fmt.Sprintf("%q... (%d bytes)", s[:most], len(s))
-	}
-	return fmt.Sprintf("%q", s)
-}
+func quote(s string) string { return brief.Quote(s) }

@@ -7,6 +7,7 @@ import (
 	"io"
 	"os"
 
+	"avoidcert/internal/input"
 	"avoidcert/report"
 )
 
@@ -103,7 +104,7 @@ func addInput(ctx context.Context, doc *report.Document, path string) error {
 		doc.Censuses = append(doc.Censuses, c)
 		return nil
 	}
-	data, err := os.ReadFile(path)
+	data, err := input.ReadFile(ctx, path, input.ReportInput)
 	if err != nil {
 		return err
 	}

@@ -5,6 +5,7 @@ package brief
 
 import (
 	"fmt"
+	"strings"
 	"unicode/utf8"
 )
 
@@ -27,11 +28,16 @@ func Quote(s string) string {
 // digitsShown is how many leading and trailing digits Digits keeps.
 const digitsShown = 15
 
-// Digits shows a long run of digits (a count, a numerator) by its first and
-// last digits and its length; a short one is returned as it is.
+// Digits shows a long run of digits (a count, a numerator, a decimal as a
+// claim wrote it) by its first and last characters and its length; a short
+// one is returned as it is.
 func Digits(s string) string {
 	if len(s) <= 2*digitsShown+10 {
 		return s
 	}
-	return fmt.Sprintf("%s...%s (%d digits)", s[:digitsShown], s[len(s)-digitsShown:], len(s))
+	unit := "digits"
+	if strings.Trim(s, "0123456789") != "" {
+		unit = "characters"
+	}
+	return fmt.Sprintf("%s...%s (%d %s)", s[:digitsShown], s[len(s)-digitsShown:], len(s), unit)
 }

@@ -30,4 +30,8 @@ func TestDigits(t *testing.T) {
 	if want := "100000000000000...000000000000000 (1000000 digits)"; got != want {
 		t.Errorf("Digits(10^999999) = %s, want %s", got, want)
 	}
+	stated := "[0." + strings.Repeat("9", 998) + ", 1]"
+	if got, want := Digits(stated), "[0.999999999999...99999999999, 1] (1005 characters)"; got != want {
+		t.Errorf("Digits(an interval) = %s, want %s", got, want)
+	}
 }
