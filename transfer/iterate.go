@@ -138,4 +138,3 @@ func (g *Iterate) Digest() [32]byte {
 	h.Sum(out[:0])
 	return out
 }
-
