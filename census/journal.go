@@ -14,6 +14,7 @@ import (
 	"slices"
 
 	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/filelock"
 	"avoidcert/internal/input"
 	"avoidcert/pattern"
 )
@@ -61,7 +62,7 @@ func openJournal(ctx context.Context, dir string, params Params, shard Shard) (*
 			return nil, inputErrorf("cannot create the census folder %s: %v; choose another --out", d, err)
 		}
 	}
-	unlock, err := lockFolder(filepath.Join(dir, journalDir, lockFile))
+	unlock, err := filelock.Lock(filepath.Join(dir, journalDir, lockFile))
 	if err != nil {
 		return nil, inputErrorf("%s is in use by another census run (%v); wait for it or choose another --out", dir, err)
 	}

@@ -209,6 +209,29 @@ func keep(c Claim, sets []pattern.Set, certs []*certify.Certificate, opts Option
 	return refs, nil
 }
 
+// Files lists every file a run of the manifest may read or replace: each
+// certificate claim's cache entries (when opts.CacheDir is set) and kept
+// certificates (when opts.CertDir is set). A caller checks them before the
+// run, so that a FIFO or a device at one of these paths is refused at once.
+func (m *Manifest) Files(opts Options) []string {
+	var paths []string
+	for _, c := range m.Claims {
+		if c.Kind == KindCount || c.Kind == KindEqualCounts || c.Kind == KindProbability {
+			continue // no certificate
+		}
+		n := len(certifiedFor(c).sets)
+		if opts.CacheDir != "" {
+			paths = append(paths, cachePaths(opts.CacheDir, c, n)...)
+		}
+		if opts.CertDir != "" {
+			for i := range n {
+				paths = append(paths, filepath.Join(opts.CertDir, certName(c.ID, i, n)))
+			}
+		}
+	}
+	return paths
+}
+
 // certName is "ID.json", or "ID.1.json" and "ID.2.json" for the two
 // sets of an order claim.
 func certName(id string, i, n int) string {

@@ -65,6 +65,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	if err := g.prepare("demo"); err != nil {
 		return failure(e, err)
 	}
+	defer g.done()
 	title := m.Title
 	if title == "" {
 		title = m.File

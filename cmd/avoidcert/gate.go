@@ -2,13 +2,16 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"time"
 
 	"avoidcert/claims"
 	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/filelock"
 	"avoidcert/internal/input"
 )
 
@@ -53,7 +56,12 @@ type gateRun struct {
 	opts     claims.Options
 	junit    string // "" for none
 	progress bool
+	release  []func() // the folder locks prepare took
 }
+
+// lockName is the lock file a gate holds in its --certificates and
+// --cache folders for the whole run.
+const lockName = ".avoidcert-lock"
 
 func runGate(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("gate")
@@ -90,6 +98,7 @@ func runGate(ctx context.Context, e *env, args []string) int {
 	if err := g.prepare("gate"); err != nil {
 		return failure(e, err)
 	}
+	defer g.done()
 	results, code := g.run(ctx, e)
 	if code != exitOK {
 		return code
@@ -121,15 +130,43 @@ func readManifest(ctx context.Context, cmd, path string) (*claims.Manifest, erro
 	return m, nil
 }
 
-// prepare creates the cache and certificate folders and refuses an
-// unusable --junit before the work.
-func (g *gateRun) prepare(cmd string) error {
-	for _, dir := range []string{g.opts.CacheDir, g.opts.CertDir} {
-		if dir == "" {
+// prepare creates the cache and certificate folders, locks them against
+// a concurrent run (whose certificates would replace this run's under the
+// SHA-256 values it records), removes the temp files of killed runs there,
+// and refuses before the work an unusable --junit and any file the run
+// would read or replace that is not a regular file. Call done afterwards.
+func (g *gateRun) prepare(cmd string) (err error) {
+	defer func() {
+		if err != nil {
+			g.done()
+		}
+	}()
+	var locked []string
+	for _, d := range []struct{ dir, flag string }{{g.opts.CacheDir, "--cache"}, {g.opts.CertDir, "--certificates"}} {
+		if d.dir == "" || slices.ContainsFunc(locked, func(l string) bool { return sameFolder(l, d.dir) }) {
 			continue
 		}
-		if err := os.MkdirAll(dir, 0o755); err != nil {
-			return usagef("%s: cannot create the folder %s: %v", cmd, dir, err)
+		if err := os.MkdirAll(d.dir, 0o755); err != nil {
+			return usagef("%s: cannot create the folder %s: %v", cmd, quote(d.dir), err)
+		}
+		release, err := filelock.Lock(filepath.Join(d.dir, lockName))
+		if errors.Is(err, filelock.ErrHeld) {
+			return usagef("%s: the folder %s is in use by another gate run (it holds %s); wait for that run to finish or choose another %s",
+				cmd, quote(d.dir), lockName, d.flag)
+		}
+		if err != nil {
+			return usagef("%s: cannot lock the folder %s (%v); choose another %s", cmd, quote(d.dir), err, d.flag)
+		}
+		g.release = append(g.release, release)
+		locked = append(locked, d.dir)
+		// with the lock held, no other gate writes here: what is left are
+		// killed runs' temp files (removed by the rule of the README)
+		atomicfile.RemoveStale(d.dir)
+	}
+	for _, path := range g.manifest.Files(g.opts) {
+		if info, err := os.Lstat(path); err == nil && !info.Mode().IsRegular() {
+			return usagef("%s: %s is a %s, not a regular file; the gate never reads or replaces one: remove it or choose another folder",
+				cmd, quote(path), input.TypeName(info.Mode()))
 		}
 	}
 	if g.junit != "" {
@@ -141,6 +178,21 @@ func (g *gateRun) prepare(cmd string) error {
 		}
 	}
 	return nil
+}
+
+// done releases the folder locks.
+func (g *gateRun) done() {
+	for _, release := range g.release {
+		release()
+	}
+	g.release = nil
+}
+
+// sameFolder reports whether two paths name one folder.
+func sameFolder(a, b string) bool {
+	x, errA := os.Stat(a)
+	y, errB := os.Stat(b)
+	return errA == nil && errB == nil && os.SameFile(x, y)
 }
 
 // run judges the claims and writes the JUnit file. A code other than
