@@ -142,14 +142,14 @@ func (j *journal) record(row Row, certificate []byte, seconds float64) (Row, err
 	row.Certificate = certificateDir + "/" + row.Representative + ".json"
 	row.CertificateSHA256 = hex.EncodeToString(sum[:])
 	if err := atomicfile.WriteFile(filepath.Join(j.dir, row.Certificate), certificate, 0o644); err != nil {
-		return Row{}, fmt.Errorf("writing the certificate: %v", err)
+		return Row{}, fmt.Errorf("writing the certificate: %w", err)
 	}
 	data, err := marshal(record{Row: row, Seconds: seconds})
 	if err != nil {
 		return Row{}, err
 	}
 	if err := atomicfile.WriteFile(j.recordPath(row.Representative), data, 0o644); err != nil {
-		return Row{}, fmt.Errorf("writing the journal: %v", err)
+		return Row{}, fmt.Errorf("writing the journal: %w", err)
 	}
 	return row, nil
 }

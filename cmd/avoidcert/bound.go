@@ -246,7 +246,7 @@ func runBound(ctx context.Context, e *env, args []string) int {
 		return failure(e, err)
 	}
 	if err := dest.write(e.stdout, data); err != nil {
-		return failure(e, usagef("bound: cannot write the certificate to %s: %v; choose another --out", quote(path), err))
+		return failure(e, fmt.Errorf("bound: cannot write the certificate to %s: %w", quote(path), err))
 	}
 	if *asJSON {
 		writeBoundJSON(report, r, dest)

@@ -155,6 +155,9 @@ func parseShard(s string, classes int) (census.Shard, error) {
 func censusFailure(e *env, dir string, err error) int {
 	var in *census.InputError
 	switch {
+	case outOfSpace(err):
+		fmt.Fprintf(e.stderr, "avoidcert: census: out of space writing %s: the disk or the quota is full; finished classes are kept in %s: free space and run the same command again\n",
+			writtenWhere(err), filepath.Join(dir, "journal"))
 	case errors.As(err, &in):
 		return failure(e, usagef("census: %v", err))
 	case errors.Is(err, context.Canceled):

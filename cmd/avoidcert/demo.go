@@ -58,7 +58,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	}
 	dir, err := os.MkdirTemp(*out, "avoidcert-demo-")
 	if err != nil {
-		return failure(e, usagef("demo: cannot make a folder for the results: %v; choose another --out", err))
+		return failure(e, usagef("demo: cannot make a folder for the results: %w; choose another --out", err))
 	}
 	g := &gateRun{manifest: m, junit: filepath.Join(dir, "junit.xml"),
 		opts: claims.Options{CertDir: filepath.Join(dir, "certificates"), Tool: "avoidcert " + version}}
@@ -80,7 +80,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 		err = atomicfile.WriteFile(filepath.Join(dir, "verdicts.jsonl"), lines.Bytes(), 0o644)
 	}
 	if err != nil {
-		return failure(e, fmt.Errorf("demo: cannot write the verdicts: %v", err))
+		return failure(e, fmt.Errorf("demo: cannot write the verdicts: %w", err))
 	}
 	claims.WriteTable(e.stdout, results)
 	fmt.Fprintf(e.stdout, "\n%s.\n", claims.Summarize(results))

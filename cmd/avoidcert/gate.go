@@ -147,7 +147,7 @@ func (g *gateRun) prepare(cmd string) (err error) {
 			continue
 		}
 		if err := os.MkdirAll(d.dir, 0o755); err != nil {
-			return usagef("%s: cannot create the folder %s: %v", cmd, quote(d.dir), err)
+			return usagef("%s: cannot create the folder %s: %w", cmd, quote(d.dir), err)
 		}
 		release, err := filelock.Lock(filepath.Join(d.dir, lockName))
 		if errors.Is(err, filelock.ErrHeld) {
@@ -223,7 +223,7 @@ func (g *gateRun) run(ctx context.Context, e *env) ([]claims.Result, int) {
 			err = atomicfile.WriteFile(g.junit, data, 0o644)
 		}
 		if err != nil {
-			return nil, failure(e, fmt.Errorf("cannot write the JUnit file: %v", err))
+			return nil, failure(e, fmt.Errorf("cannot write the JUnit file: %w", err))
 		}
 	}
 	return results, exitOK

@@ -9,12 +9,15 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"io/fs"
 	"os/signal"
+	"path/filepath"
 	"runtime/debug"
 	"sort"
 	"syscall"
 
 	"avoidcert/bounds"
+	"avoidcert/internal/atomicfile"
 	"avoidcert/internal/brief"
 	"avoidcert/prove"
 )
@@ -25,7 +28,7 @@ const (
 	exitFailed    = 1 // a claim was refuted or a check failed
 	exitUsage     = 2 // usage or input error; nothing was written to stdout
 	exitUndecided = 3 // undecided within the budget
-	exitAborted   = 4 // interrupted, or an internal error
+	exitAborted   = 4 // interrupted, out of space, or an internal error
 )
 
 // command is one subcommand: its one-line summary, its usage text and the
@@ -64,7 +67,62 @@ func runProcess() (code int) {
 			code = internalError(os.Stderr, r, debug.Stack())
 		}
 	}()
-	return run(ctx, &env{stdout: os.Stdout, stderr: os.Stderr, progress: progressWanted(os.Stderr)}, os.Args[1:])
+	stdout := &checkedWriter{w: os.Stdout}
+	code = run(ctx, &env{stdout: stdout, stderr: os.Stderr, progress: progressWanted(os.Stderr)}, os.Args[1:])
+	if stdout.err != nil && code != exitAborted {
+		return writeFailure(os.Stderr, "standard output", stdout.err)
+	}
+	return code
+}
+
+// checkedWriter keeps the first error of its writes: output that could not
+// be written (standard output on a full disk) must not end in success.
+type checkedWriter struct {
+	w   io.Writer
+	err error
+}
+
+func (c *checkedWriter) Write(p []byte) (int, error) {
+	if c.err != nil {
+		return 0, c.err
+	}
+	n, err := c.w.Write(p)
+	c.err = err
+	return n, err
+}
+
+// writeFailure reports output that could not be written after the work:
+// exit 4, the same code for a full disk or quota in every command.
+func writeFailure(w io.Writer, what string, err error) int {
+	if outOfSpace(err) {
+		fmt.Fprintf(w, "avoidcert: out of space writing %s: the disk or the quota is full; nothing was replaced: free space and run again\n", what)
+	} else {
+		fmt.Fprintf(w, "avoidcert: cannot write %s (%s); the output is incomplete\n", what, osReason(err))
+	}
+	return exitAborted
+}
+
+// writtenWhere names where a failed write went: the folder of a temp file
+// (the target's folder), or the file itself.
+func writtenWhere(err error) string {
+	var pe *fs.PathError
+	if !errors.As(err, &pe) {
+		return "the output"
+	}
+	if atomicfile.IsTemp(filepath.Base(pe.Path)) {
+		return "in " + quote(filepath.Dir(pe.Path))
+	}
+	return quote(pe.Path)
+}
+
+// osReason is the system's few words for a failure, without the path and
+// operation Go puts around them.
+func osReason(err error) string {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err.Error()
+	}
+	return err.Error()
 }
 
 // internalError reports a recovered panic: one line, then the stack for
@@ -165,6 +223,8 @@ func failure(e *env, err error) int {
 	var ue usageError
 	var be *bounds.BudgetError
 	switch {
+	case outOfSpace(err):
+		return writeFailure(e.stderr, writtenWhere(err), err)
 	case errors.As(err, &ue):
 		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)
 		return exitUsage
@@ -192,13 +252,16 @@ func failure(e *env, err error) int {
 	}
 }
 
-// usageError marks bad flags, arguments or input files.
-type usageError struct{ msg string }
+// usageError marks bad flags, arguments or input files. It wraps what
+// usagef's %w wraps (a full disk is then still recognised as such).
+type usageError struct{ err error }
 
-func (u usageError) Error() string { return u.msg }
+func (u usageError) Error() string { return u.err.Error() }
+
+func (u usageError) Unwrap() error { return u.err }
 
 func usagef(format string, args ...any) error {
-	return usageError{msg: fmt.Sprintf(format, args...)}
+	return usageError{err: fmt.Errorf(format, args...)}
 }
 
 // limitMemory tells the garbage collector the memory budget, so that it
