@@ -43,6 +43,7 @@ func TestScripts(t *testing.T) {
 			"age":       ageCmd,
 			"mkfifo":    mkfifoCmd,
 			"tempfile":  tempfileCmd,
+			"repeat":    repeatCmd,
 		},
 	})
 }
@@ -165,6 +166,22 @@ func exitCode(ts *testscript.TestScript, err error) int {
 	}
 	ts.Fatalf("%v", err)
 	return -1
+}
+
+// repeatCmd is "repeat FILE TEXT N [TEXT N]...": it writes FILE as each
+// TEXT repeated N times, in order; "\n" in a TEXT is a newline. The scripts
+// make huge and deeply nested inputs with it.
+func repeatCmd(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) < 3 || len(args)%2 != 1 {
+		ts.Fatalf("usage: repeat FILE TEXT N [TEXT N]...")
+	}
+	var b bytes.Buffer
+	for i := 1; i < len(args); i += 2 {
+		n, err := strconv.Atoi(args[i+1])
+		ts.Check(err)
+		b.WriteString(strings.Repeat(strings.ReplaceAll(args[i], `\n`, "\n"), n))
+	}
+	ts.Check(os.WriteFile(ts.MkAbs(args[0]), b.Bytes(), 0o644))
 }
 
 // ageCmd is "age FILE D": it sets FILE's modification time D back (a

@@ -24,7 +24,7 @@ var (
 	// Certificate is a certificate file: the checker's own limit.
 	Certificate = Kind{"certificate", certify.MaxFileSize}
 	// Manifest is a claims manifest (TOML).
-	Manifest = Kind{"claims manifest", 4 << 20}
+	Manifest = Kind{"claims manifest", 2 << 20}
 	// Census is a census folder's census.json: a census of length 8
 	// counted to n = 40 takes about 30 MiB.
 	Census = Kind{"census file", 64 << 20}
