@@ -194,14 +194,14 @@ func keep(c Claim, sets []pattern.Set, certs []*certify.Certificate, opts Option
 			ref.Path = cached[i]
 			if fresh {
 				if err := prove.Save(cached[i], cert); err != nil {
-					return nil, fmt.Errorf("cannot write the cache: %v", err)
+					return nil, writeError("the cache entry", cached[i], err)
 				}
 			}
 		}
 		if opts.CertDir != "" {
 			ref.Path = filepath.Join(opts.CertDir, certName(c.ID, i, len(certs)))
 			if err := prove.Save(ref.Path, cert); err != nil {
-				return nil, fmt.Errorf("cannot keep the certificate: %v", err)
+				return nil, writeError("the kept certificate", ref.Path, err)
 			}
 		}
 		refs = append(refs, ref)
@@ -230,6 +230,16 @@ func (m *Manifest) Files(opts Options) []string {
 		}
 	}
 	return paths
+}
+
+// writeError says which file could not be written and the system's reason
+// ("no space left on device"), without the temp file's name.
+func writeError(what, path string, err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		err = pe.Err
+	}
+	return fmt.Errorf("cannot write %s %s: %w", what, path, err)
 }
 
 // certName is "ID.json", or "ID.1.json" and "ID.2.json" for the two

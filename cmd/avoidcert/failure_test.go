@@ -43,3 +43,17 @@ func TestFailureExitCodes(t *testing.T) {
 		}
 	}
 }
+
+// A panic is an internal error: exit 4 with a line asking for a report,
+// never the usage code 2 (which is what the Go runtime gives a crash).
+func TestGuardedPanic(t *testing.T) {
+	var stderr bytes.Buffer
+	code := guarded(&stderr, func() int { panic("index out of range [3] with length 3") })
+	first, _, _ := strings.Cut(stderr.String(), "\n")
+	if code != exitAborted || first != `avoidcert: internal error, please report it with the lines below: "index out of range [3] with length 3"` {
+		t.Fatalf("exit %d, %q", code, first)
+	}
+	if code := guarded(&stderr, func() int { return exitUndecided }); code != exitUndecided {
+		t.Fatalf("guarded changed an exit code: %d", code)
+	}
+}

@@ -59,20 +59,29 @@ func main() {
 // context: every command then stops and exits 4 with a message. A panic
 // is an internal error, exit 4, never the usage code 2 (which is also
 // what the Go runtime gives a crash it cannot recover).
-func runProcess() (code int) {
+func runProcess() int {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
-	defer func() {
-		if r := recover(); r != nil {
-			code = internalError(os.Stderr, r, debug.Stack())
-		}
-	}()
 	stdout := &checkedWriter{w: os.Stdout}
-	code = run(ctx, &env{stdout: stdout, stderr: os.Stderr, progress: progressWanted(os.Stderr)}, os.Args[1:])
+	code := guarded(os.Stderr, func() int {
+		return run(ctx, &env{stdout: stdout, stderr: os.Stderr, progress: progressWanted(os.Stderr)}, os.Args[1:])
+	})
 	if stdout.err != nil && code != exitAborted {
-		return writeFailure(os.Stderr, "standard output", stdout.err)
+		return writeFailure(os.Stderr, "standard output", stdout.err, "the output is incomplete")
 	}
 	return code
+}
+
+// guarded runs a command and turns a panic into an internal error: one
+// line, then the stack for the report; exit 4.
+func guarded(stderr io.Writer, command func() int) (code int) {
+	defer func() {
+		if r := recover(); r != nil {
+			fmt.Fprintf(stderr, "avoidcert: internal error, please report it with the lines below: %s\n%s", brief.Quote(fmt.Sprint(r)), debug.Stack())
+			code = exitAborted
+		}
+	}()
+	return command()
 }
 
 // checkedWriter keeps the first error of its writes: output that could not
@@ -91,13 +100,14 @@ func (c *checkedWriter) Write(p []byte) (int, error) {
 	return n, err
 }
 
-// writeFailure reports output that could not be written after the work:
-// exit 4, the same code for a full disk or quota in every command.
-func writeFailure(w io.Writer, what string, err error) int {
+// writeFailure reports output that could not be written after the work,
+// and what became of it: exit 4, the same code for a full disk or quota in
+// every command.
+func writeFailure(w io.Writer, what string, err error, left string) int {
 	if outOfSpace(err) {
-		fmt.Fprintf(w, "avoidcert: out of space writing %s: the disk or the quota is full; nothing was replaced: free space and run again\n", what)
+		fmt.Fprintf(w, "avoidcert: out of space writing %s: the disk or the quota is full; %s: free space and run again\n", what, left)
 	} else {
-		fmt.Fprintf(w, "avoidcert: cannot write %s (%s); the output is incomplete\n", what, osReason(err))
+		fmt.Fprintf(w, "avoidcert: cannot write %s (%s); %s\n", what, osReason(err), left)
 	}
 	return exitAborted
 }
@@ -123,13 +133,6 @@ func osReason(err error) string {
 		return pe.Err.Error()
 	}
 	return err.Error()
-}
-
-// internalError reports a recovered panic: one line, then the stack for
-// the report; exit 4.
-func internalError(w io.Writer, r any, stack []byte) int {
-	fmt.Fprintf(w, "avoidcert: internal error, please report it with the lines below: %s\n%s", brief.Quote(fmt.Sprint(r)), stack)
-	return exitAborted
 }
 
 func run(ctx context.Context, e *env, args []string) int {
@@ -224,7 +227,7 @@ func failure(e *env, err error) int {
 	var be *bounds.BudgetError
 	switch {
 	case outOfSpace(err):
-		return writeFailure(e.stderr, writtenWhere(err), err)
+		return writeFailure(e.stderr, writtenWhere(err), err, "nothing was replaced")
 	case errors.As(err, &ue):
 		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)
 		return exitUsage

@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"os/exec"
+	"path/filepath"
 	"strconv"
 	"strings"
 	"syscall"
@@ -129,7 +130,8 @@ func signalCmd(sig os.Signal) func(ts *testscript.TestScript, neg bool, args []s
 // write of NAME as a writer would, last modified AGE ago: OWNER "live" names
 // a running process (this test's), "gone" one that has exited, "none" is a
 // name without a process id (earlier versions). The file is
-// ".NAME.avoidcert-tmp-PID-ID" (".NAME.avoidcert-tmp-ID" for none).
+// ".NAME.avoidcert-tmp-PID-ID" (".NAME.avoidcert-tmp-ID" for none), beside
+// NAME.
 func tempfileCmd(ts *testscript.TestScript, neg bool, args []string) {
 	if neg || len(args) != 4 {
 		ts.Fatalf("usage: tempfile NAME live|gone|none AGE ID")
@@ -150,7 +152,8 @@ func tempfileCmd(ts *testscript.TestScript, neg bool, args []string) {
 	}
 	age, err := time.ParseDuration(args[2])
 	ts.Check(err)
-	path := ts.MkAbs("." + args[0] + ".avoidcert-tmp-" + owner + args[3])
+	dir, base := filepath.Split(args[0])
+	path := ts.MkAbs(filepath.Join(dir, "."+base+".avoidcert-tmp-"+owner+args[3]))
 	ts.Check(os.WriteFile(path, []byte("partial"), 0o644))
 	when := time.Now().Add(-age)
 	ts.Check(os.Chtimes(path, when, when))
