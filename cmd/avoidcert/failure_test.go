@@ -57,3 +57,26 @@ func TestGuardedPanic(t *testing.T) {
 		t.Fatalf("guarded changed an exit code: %d", code)
 	}
 }
+
+// cancellable returns at once when the context is cancelled, and passes
+// a panic of the work on to the caller (where guarded reports it).
+func TestCancellable(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	block := make(chan struct{})
+	defer close(block)
+	cancel()
+	if _, err := cancellable(ctx, func() (int, error) { <-block; return 1, nil }); !errors.Is(err, context.Canceled) {
+		t.Fatalf("cancelled work: %v, want context.Canceled", err)
+	}
+	if v, err := cancellable(context.Background(), func() (int, error) { return 7, nil }); v != 7 || err != nil {
+		t.Fatalf("finished work: %d, %v", v, err)
+	}
+	var stderr bytes.Buffer
+	code := guarded(&stderr, func() int {
+		cancellable(context.Background(), func() (int, error) { panic("in the work") })
+		return 0
+	})
+	if code != exitAborted || !strings.Contains(stderr.String(), "internal error") {
+		t.Fatalf("a panic in the work: exit %d, %q", code, stderr.String())
+	}
+}

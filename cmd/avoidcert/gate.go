@@ -123,8 +123,13 @@ func readManifest(ctx context.Context, cmd, path string) (*claims.Manifest, erro
 		}
 		return nil, usagef("%s: %v", cmd, err)
 	}
-	m, err := claims.Parse(path, data)
+	// The TOML library takes seconds on the largest manifests and cannot
+	// be stopped: Ctrl-C leaves it behind.
+	m, err := cancellable(ctx, func() (*claims.Manifest, error) { return claims.Parse(path, data) })
 	if err != nil {
+		if ctx.Err() != nil {
+			return nil, err
+		}
 		return nil, usagef("%s: %v", cmd, err)
 	}
 	return m, nil

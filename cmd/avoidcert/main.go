@@ -84,6 +84,38 @@ func guarded(stderr io.Writer, command func() int) (code int) {
 	return command()
 }
 
+// cancellable runs work on its own goroutine and returns its result, or
+// ctx.Err() as soon as ctx is cancelled (the work is then abandoned: the
+// process is about to end). A panic in the work is raised again here, where
+// guarded reports it.
+func cancellable[T any](ctx context.Context, work func() (T, error)) (T, error) {
+	type outcome struct {
+		v     T
+		err   error
+		panic any
+	}
+	done := make(chan outcome, 1)
+	go func() {
+		defer func() {
+			if r := recover(); r != nil {
+				done <- outcome{panic: r}
+			}
+		}()
+		v, err := work()
+		done <- outcome{v: v, err: err}
+	}()
+	select {
+	case <-ctx.Done():
+		var zero T
+		return zero, ctx.Err()
+	case o := <-done:
+		if o.panic != nil {
+			panic(o.panic)
+		}
+		return o.v, o.err
+	}
+}
+
 // checkedWriter keeps the first error of its writes: output that could not
 // be written (standard output on a full disk) must not end in success.
 type checkedWriter struct {

@@ -3,11 +3,14 @@ package input
 import "fmt"
 
 // Limits of the nesting checks (README, "Input limits"). A claims manifest
-// needs one level of arrays and keys of two parts; every JSON file the
-// tool writes nests fewer than ten levels.
+// needs three levels (claim = [{patterns = ["123"]}]) and keys of two parts
+// (run.timeout); every JSON file the tool writes nests fewer than ten
+// levels. The TOML library's memory grows with the square of both; at
+// these limits the worst manifest of input.Manifest's size stays within a
+// few hundred megabytes.
 const (
-	TOMLMaxDepth    = 4  // arrays and inline tables inside one another
-	TOMLMaxKeyParts = 4  // parts of a dotted key or a table name: a.b.c.d
+	TOMLMaxDepth    = 3  // arrays and inline tables inside one another
+	TOMLMaxKeyParts = 3  // parts of a dotted key or a table name: a.b.c
 	JSONMaxDepth    = 32 // arrays and objects inside one another
 )
 
@@ -77,7 +80,7 @@ func (s *tomlScan) step() error {
 		if s.key || s.header {
 			s.parts++
 			if s.parts >= TOMLMaxKeyParts {
-				return s.fail("a key or table name of more than %d dotted parts; a claims manifest needs at most 2", TOMLMaxKeyParts)
+				return s.fail("a key or table name of more than %d dotted parts; no claims manifest needs more", TOMLMaxKeyParts)
 			}
 		}
 	case '=':
@@ -122,7 +125,7 @@ func (s *tomlScan) step() error {
 func (s *tomlScan) push(c byte) error {
 	s.open = append(s.open, c)
 	if len(s.open) > TOMLMaxDepth {
-		return s.fail("arrays and inline tables nested more than %d deep; a claims manifest needs 1", TOMLMaxDepth)
+		return s.fail("arrays and inline tables nested more than %d deep; no claims manifest needs more", TOMLMaxDepth)
 	}
 	return nil
 }
