@@ -8,6 +8,7 @@ import (
 	"sync"
 	"time"
 
+	"avoidcert/internal/par"
 	"avoidcert/pattern"
 )
 
@@ -193,6 +194,7 @@ func runClasses(ctx context.Context, opts Options, j *journal, todo []pattern.Cl
 		mu       sync.Mutex
 		firstErr error
 		wg       sync.WaitGroup
+		panicked par.PanicBox
 	)
 	fail := func(err error) {
 		mu.Lock()
@@ -206,6 +208,11 @@ func runClasses(ctx context.Context, opts Options, j *journal, todo []pattern.Cl
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			defer func() {
+				if panicked.Caught(recover()) {
+					cancel() // the others stop; Raise reports it below
+				}
+			}()
 			for c := range work {
 				row, err := certifyClass(ctx, opts, j, c)
 				if err != nil {
@@ -233,6 +240,7 @@ feed:
 	}
 	close(work)
 	wg.Wait()
+	panicked.Raise()
 	if firstErr != nil {
 		return firstErr
 	}

@@ -13,6 +13,7 @@ import (
 	"sync"
 	"testing"
 
+	"avoidcert/internal/par"
 	"avoidcert/pattern"
 	"avoidcert/transfer"
 )
@@ -319,4 +320,23 @@ func TestOrderIsStrictOnlyForDisjointRanges(t *testing.T) {
 	if len(rep.Groups) != 3 || rep.Groups[0].DiffersFromPreviousAt != 0 || rep.Groups[1].DiffersFromPreviousAt != 1 {
 		t.Errorf("groups %+v, want 3 groups (c d), (b), (a) apart at n = 1", rep.Groups)
 	}
+}
+
+// A panic while a class is certified (on a worker goroutine) reaches the
+// caller of Run as a panic of its goroutine, where the command reports an
+// internal error, instead of ending the process with the runtime's exit
+// code 2.
+func TestRunRaisesAWorkersPanic(t *testing.T) {
+	opts := options(t.TempDir(), 4, &fakeCertifier{})
+	opts.Certify = func(ctx context.Context, set pattern.Set, digits int) (Certified, error) {
+		panic("certifier broke on " + set.String())
+	}
+	defer func() {
+		wp, ok := recover().(*par.WorkerPanic)
+		if !ok || !strings.HasPrefix(fmt.Sprint(wp.Value), "certifier broke on ") {
+			t.Fatalf("recovered %v, want the certifier's panic", wp)
+		}
+	}()
+	Run(context.Background(), opts)
+	t.Fatal("Run returned after a certifier panicked")
 }

@@ -77,7 +77,11 @@ func runProcess() int {
 func guarded(stderr io.Writer, command func() int) (code int) {
 	defer func() {
 		if r := recover(); r != nil {
-			fmt.Fprintf(stderr, "avoidcert: internal error, please report it with the lines below: %s\n%s", brief.Quote(fmt.Sprint(r)), debug.Stack())
+			stack := debug.Stack()
+			if w, ok := r.(interface{ PanicStack() []byte }); ok {
+				stack = w.PanicStack() // a worker goroutine's panic, raised again here
+			}
+			fmt.Fprintf(stderr, "avoidcert: internal error, please report it with the lines below: %s\n%s", brief.Quote(fmt.Sprint(r)), stack)
 			code = exitAborted
 		}
 	}()
