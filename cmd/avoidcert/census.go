@@ -55,7 +55,8 @@ different parameters, a missing or duplicated shard or class, and changed
 certificates (exit 2).
 
 Exit codes: 0 done, 2 bad input (or a folder holding another census), 4
-interrupted or a class failed (the finished classes are kept: run again).
+interrupted (Ctrl-C, SIGTERM), out of space or a class failed (the finished
+classes are kept: run again).
 `,
 		run: runCensus,
 	}

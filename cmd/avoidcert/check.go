@@ -48,7 +48,7 @@ Flags:
 
 Exit codes: 0 valid, 1 invalid, 2 the file cannot be read, or bad usage,
 3 over --max-work or --max-memory (undecided: raise the flag named),
-4 interrupted (Ctrl-C).
+4 interrupted (Ctrl-C or SIGTERM).
 `,
 		run: runCheck,
 	}

@@ -34,17 +34,19 @@ Flags:
   --junit FILE         also write JUnit XML (one test case per claim;
                        refuted = failure, undecided = skipped with the reason)
   --certificates DIR   keep every certificate there, named after the claim id
-                       (the folder is created)
+                       (the folder is created, and locked for the run: a
+                       second gate on it is refused)
   --cache DIR          certificates kept between runs and re-checked by the
                        checker instead of recomputed (default: .avoidcert-cache
-                       beside FILE; "off" for none)
+                       beside FILE; "off" for none; locked for the run)
   --timeout T          the whole run's budget, e.g. 10m (overrides [run] timeout)
   --max-memory B       cap every claim's memory, e.g. 4G (overrides [run] max_memory)
   --progress           one line on stderr as each claim is judged
 
 Exit codes: 0 every claim proved, 1 some claim refuted, 3 none refuted but
 some undecided within the budget, 2 a malformed manifest or bad flags (the
-message names the file, line and field), 4 interrupted or an internal error.
+message names the file, line and field; also a folder in use by another
+gate), 4 interrupted (Ctrl-C, SIGTERM), out of space or an internal error.
 `,
 		run: runGate,
 	}

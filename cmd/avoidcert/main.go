@@ -250,7 +250,8 @@ Commands:
   version    print the version
 
 Exit codes: 0 success, 1 a claim or check failed, 2 usage or input error,
-3 undecided within the budget, 4 interrupted or internal error.
+3 undecided within the budget, 4 interrupted (Ctrl-C, SIGTERM), out of space
+or internal error.
 `)
 }
 

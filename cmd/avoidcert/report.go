@@ -44,7 +44,9 @@ Flags:
                refused) instead of standard output
 
 Exit codes: 0 success, 1 a certificate the checker refuses, 2 bad input (a
-file that cannot be read or is no certificate), 4 interrupted.
+file that cannot be read or is no certificate; only regular files within the
+limits of the README's "Input limits" are read), 4 interrupted (Ctrl-C or
+SIGTERM) or out of space.
 `,
 		run: runReport,
 	}
