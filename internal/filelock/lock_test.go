@@ -7,6 +7,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"syscall"
 	"testing"
 )
 
@@ -49,5 +50,16 @@ func TestLockExcludesAnotherProcess(t *testing.T) {
 	release()
 	if code := child(); code != 0 {
 		t.Fatalf("the released lock was refused (exit %d)", code)
+	}
+}
+
+// A FIFO where the lock file should be is refused, not waited on.
+func TestLockRefusesAFIFO(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "lock")
+	if err := syscall.Mkfifo(path, 0o644); err != nil {
+		t.Skip(err)
+	}
+	if _, err := Lock(path); err == nil {
+		t.Fatal("a FIFO was taken as the lock file")
 	}
 }
