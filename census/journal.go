@@ -63,8 +63,11 @@ func openJournal(ctx context.Context, dir string, params Params, shard Shard) (*
 		}
 	}
 	unlock, err := filelock.Lock(filepath.Join(dir, journalDir, lockFile))
-	if err != nil {
-		return nil, inputErrorf("%s is in use by another census run (%v); wait for it or choose another --out", dir, err)
+	switch {
+	case errors.Is(err, filelock.ErrHeld):
+		return nil, inputErrorf("%s is in use by another census run; wait for it or choose another --out", dir)
+	case err != nil:
+		return nil, inputErrorf("cannot lock %s: %v; choose another --out", dir, err)
 	}
 	j := &journal{dir: dir, params: params, unlock: unlock}
 	ok := false
