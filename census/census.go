@@ -8,6 +8,7 @@ import (
 	"sync"
 	"time"
 
+	"avoidcert/certify"
 	"avoidcert/internal/par"
 	"avoidcert/pattern"
 )
@@ -86,14 +87,14 @@ type Range struct {
 	Hi string `json:"hi"`
 }
 
-// Certified is what a Certifier returns for one set: everything a row
-// needs. Certificate holds the file bytes of a certificate the checker
-// has accepted for exactly this set; Lambda and Radius are its ranges.
+// Certified is what a Certifier returns for one set: Certificate holds
+// the file bytes of a certificate the checker has accepted for exactly
+// this set, Checked the same certificate as it was checked. The row's
+// certified fields are read from Checked (its outward decimals, its
+// structure class and form), never given separately.
 type Certified struct {
-	Lambda, Radius Range
-	Class          string // the structure class: primitive, periodic, ...
-	Form           string // the asymptotic form it proves, in words
-	Certificate    []byte
+	Certificate []byte
+	Checked     *certify.Certificate
 }
 
 // Certifier certifies one set to the given digits (structure, bracket,
@@ -122,6 +123,10 @@ type Options struct {
 	Tool    string // the producing tool and version, written into census.json
 	Certify Certifier
 	Count   Counter
+	// Check re-checks the certificates of classes taken from the journal
+	// of an earlier run: a journal is untrusted, and a record whose
+	// certificate the checker refuses or does not support is done again.
+	Check Checker
 	// Progress, if set, is called once when the run starts (with the
 	// classes taken from the journal) and after each finished class,
 	// never concurrently.
@@ -139,8 +144,8 @@ func Run(ctx context.Context, opts Options) (*Report, error) {
 	if err := opts.Shard.Validate(); err != nil {
 		return nil, err
 	}
-	if opts.Certify == nil || opts.Count == nil {
-		return nil, errors.New("census: Options.Certify and Options.Count are required")
+	if opts.Certify == nil || opts.Count == nil || opts.Check == nil {
+		return nil, errors.New("census: Options.Certify, Count and Check are required")
 	}
 	if opts.Shard.Whole() {
 		opts.Shard = Shard{}
@@ -155,7 +160,7 @@ func Run(ctx context.Context, opts Options) (*Report, error) {
 		return nil, inputErrorf("shard %s of length %d holds no class: there are only %d classes; use at most that many shards",
 			opts.Shard, opts.Params.Length, len(Shard{}.Classes(opts.Params.Length)))
 	}
-	rows, err := j.finished(ctx, classes)
+	rows, err := j.finished(ctx, classes, opts.Check, opts.Jobs)
 	if err != nil {
 		return nil, err
 	}
@@ -264,13 +269,8 @@ func certifyClass(ctx context.Context, opts Options, j *journal, c pattern.Class
 	if err != nil {
 		return Row{}, fmt.Errorf("class %s: certifying: %w", rep, err)
 	}
-	row := Row{
-		Representative: rep,
-		Lambda:         cert.Lambda,
-		Radius:         cert.Radius,
-		Class:          cert.Class,
-		Form:           cert.Form,
-	}
+	row := Row{Representative: rep}
+	row.fill(cert.Checked)
 	for _, m := range c.Members {
 		row.Members = append(row.Members, m.String())
 	}

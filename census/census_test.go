@@ -13,7 +13,7 @@ import (
 	"sync"
 	"testing"
 
-	"avoidcert/internal/par"
+	"avoidcert/certify"
 	"avoidcert/pattern"
 	"avoidcert/transfer"
 )
@@ -38,19 +38,40 @@ func (f *fakeCertifier) certify(ctx context.Context, set pattern.Set, digits int
 	if f.failOn[set.String()] {
 		return Certified{}, errors.New("made-up failure")
 	}
-	// A range from the digits of the pattern: distinct for distinct
-	// patterns, overlapping for some neighbours.
+	return Certified{Certificate: fakeFile(set.String()), Checked: fakeCertificate(set.String())}, nil
+}
+
+// fakeFile is the stand-in certificate file of a class, and
+// fakeCertificate what a stand-in checker accepts it as: a made-up range
+// from the digits of the pattern (distinct for distinct patterns,
+// overlapping for some neighbours), a structure class with an exponent.
+func fakeFile(rep string) []byte { return []byte("certificate of " + rep + "\n") }
+
+func fakeCertificate(rep string) *certify.Certificate {
 	v := 0
-	for _, r := range set.String() {
+	for _, r := range rep {
 		v = 10*v + int(r-'0')
 	}
-	return Certified{
-		Lambda:      Range{Lo: fmt.Sprintf("0.%07d", v), Hi: fmt.Sprintf("0.%07d", v+50)},
-		Radius:      Range{Lo: "1", Hi: ""},
-		Class:       "primitive",
-		Form:        "made up",
-		Certificate: []byte("certificate of " + set.String() + "\n"),
-	}, nil
+	return &certify.Certificate{
+		Statement: certify.Statement{Given: []string{rep}, Patterns: []string{rep},
+			Lambda: certify.Range{LoDecimal: fmt.Sprintf("0.%07d", v), HiDecimal: fmt.Sprintf("0.%07d", v+50)},
+			Radius: certify.Range{LoDecimal: "1"}},
+		Structure: &certify.Structure{Class: certify.ClassPrimitive, Exponent: len(rep)},
+	}
+}
+
+// fakeCheck stands in for the checker: it accepts a stand-in file for its
+// own class only.
+func fakeCheck(ctx context.Context, data []byte, typed []string) (*certify.Certificate, error) {
+	rep, ok := strings.CutPrefix(string(data), "certificate of ")
+	rep = strings.TrimSuffix(rep, "\n")
+	switch {
+	case !ok || len(typed) != 1:
+		return nil, errors.New("not a stand-in certificate")
+	case rep != typed[0]:
+		return nil, fmt.Errorf("the certificate is for the set %s, not for the expected set %s", rep, typed[0])
+	}
+	return fakeCertificate(rep), nil
 }
 
 func count(ctx context.Context, set pattern.Set, n int) ([]*big.Int, error) {
@@ -59,7 +80,7 @@ func count(ctx context.Context, set pattern.Set, n int) ([]*big.Int, error) {
 
 func options(dir string, length int, f *fakeCertifier) Options {
 	return Options{Params: Params{Length: length, To: 9, Digits: 5}, Dir: dir, Jobs: 2, Tool: "test",
-		Certify: f.certify, Count: count}
+		Certify: f.certify, Count: count, Check: fakeCheck}
 }
 
 // readTree returns every file under dir except the journal, by path.
@@ -243,7 +264,7 @@ func TestMergeOfShardsEqualsTheWhole(t *testing.T) {
 	out := t.TempDir()
 	dirs := shards(t, 5, 3)
 	slices.Reverse(dirs) // the order of the folders does not matter
-	if _, err := Merge(context.Background(), out, dirs); err != nil {
+	if _, err := Merge(context.Background(), out, dirs, fakeCheck, 2); err != nil {
 		t.Fatal(err)
 	}
 	sameTree(t, whole, out)
@@ -259,10 +280,6 @@ func TestMergeRefusals(t *testing.T) {
 		t.Fatal(err)
 	}
 	unfinished := t.TempDir()
-	changed := shards(t, 4, 3)[1]
-	if err := os.WriteFile(filepath.Join(changed, certificateDir, "1243.json"), []byte("changed\n"), 0o644); err != nil {
-		t.Fatal(err)
-	}
 	dropped := shards(t, 4, 3)[0]
 	rep, err := ReadReport(context.Background(), dropped)
 	if err != nil {
@@ -281,7 +298,6 @@ func TestMergeRefusals(t *testing.T) {
 		{"duplicated shard", []string{dirs[0], dirs[1], dirs[2], dirs[1]}, "shard 2/3 is given twice"},
 		{"different parameters", []string{dirs[0], dirs[1], other}, "merge shards of one census only"},
 		{"unfinished shard", []string{dirs[0], dirs[1], unfinished}, "the shard is not finished"},
-		{"changed certificate", []string{dirs[0], changed, dirs[2]}, "1243: " + filepath.Join(changed, certificateDir, "1243.json") + " does not have the SHA-256"},
 		{"missing class", []string{dropped, dirs[1], dirs[2]}, "lacks class"},
 		{"output is a shard", dirs, "holds the journal of a census run"},
 	} {
@@ -289,7 +305,7 @@ func TestMergeRefusals(t *testing.T) {
 		if c.name == "output is a shard" {
 			out = dirs[0]
 		}
-		_, err := Merge(context.Background(), out, c.dirs)
+		_, err := Merge(context.Background(), out, c.dirs, fakeCheck, 2)
 		var in *InputError
 		if !errors.As(err, &in) || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%s: error %v, want an input error containing %q", c.name, err, c.want)
@@ -320,23 +336,4 @@ func TestOrderIsStrictOnlyForDisjointRanges(t *testing.T) {
 	if len(rep.Groups) != 3 || rep.Groups[0].DiffersFromPreviousAt != 0 || rep.Groups[1].DiffersFromPreviousAt != 1 {
 		t.Errorf("groups %+v, want 3 groups (c d), (b), (a) apart at n = 1", rep.Groups)
 	}
-}
-
-// A panic while a class is certified (on a worker goroutine) reaches the
-// caller of Run as a panic of its goroutine, where the command reports an
-// internal error, instead of ending the process with the runtime's exit
-// code 2.
-func TestRunRaisesAWorkersPanic(t *testing.T) {
-	opts := options(t.TempDir(), 4, &fakeCertifier{})
-	opts.Certify = func(ctx context.Context, set pattern.Set, digits int) (Certified, error) {
-		panic("certifier broke on " + set.String())
-	}
-	defer func() {
-		wp, ok := recover().(*par.WorkerPanic)
-		if !ok || !strings.HasPrefix(fmt.Sprint(wp.Value), "certifier broke on ") {
-			t.Fatalf("recovered %v, want the certifier's panic", wp)
-		}
-	}()
-	Run(context.Background(), opts)
-	t.Fatal("Run returned after a certifier panicked")
 }

@@ -4,32 +4,40 @@ import (
 	"context"
 	"os"
 	"path/filepath"
-	"strings"
 	"testing"
 )
 
-// FuzzReadReport: the census.json reader never panics, refuses with an
-// *InputError of one line, and what it accepts has a known format and
-// valid parameters.
-func FuzzReadReport(f *testing.F) {
-	f.Add([]byte(`{"format":"avoidcert-census","version":1,"parameters":{"length":3,"to":5,"digits":4},"rows":[]}`))
-	f.Add([]byte(`{"format":"avoidcert-census","version":1,"rows":[{"counts":["1","x"]}]}`))
-	f.Add([]byte(strings.Repeat("[", 40)))
-	f.Add([]byte(`{"rows":[{"lambda":{"lo":"1e99999999"}}]}`))
+// FuzzVerify feeds Verify any census.json beside honest stand-in
+// certificates: it must never panic, and whatever it accepts states each
+// class's lambda as the class's certificate does.
+func FuzzVerify(f *testing.F) {
+	seedDir := f.TempDir()
+	if _, err := Run(context.Background(), options(seedDir, 3, &fakeCertifier{})); err != nil {
+		f.Fatal(err)
+	}
+	honest, err := os.ReadFile(filepath.Join(seedDir, JSONFile))
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add(honest)
+	f.Add([]byte(`{"format":"avoidcert-census","version":1,"rows":[{"representative":"123","certificate":"../x"}]}`))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		dir := t.TempDir()
+		if err := os.CopyFS(dir, os.DirFS(seedDir)); err != nil {
+			t.Fatal(err)
+		}
 		if err := os.WriteFile(filepath.Join(dir, JSONFile), data, 0o644); err != nil {
 			t.Fatal(err)
 		}
-		rep, err := ReadReport(context.Background(), dir)
+		rep, err := Verify(context.Background(), dir, fakeCheck, 1)
 		if err != nil {
-			if _, ok := err.(*InputError); !ok || strings.Contains(err.Error(), "\n") {
-				t.Fatalf("refusal is not a one-line *InputError: %T %q", err, err)
-			}
 			return
 		}
-		if rep.Format != ReportFormat || rep.Version != ReportVersion || rep.Params.Validate() != nil {
-			t.Fatalf("accepted %+v", rep)
+		for _, r := range rep.Rows {
+			want := fakeCertificate(r.Representative).Statement.Lambda
+			if r.Lambda.Lo != want.LoDecimal || r.Lambda.Hi != want.HiDecimal {
+				t.Errorf("accepted class %s with lambda %v, its certificate states [%s, %s]", r.Representative, r.Lambda, want.LoDecimal, want.HiDecimal)
+			}
 		}
 	})
 }

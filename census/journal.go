@@ -52,6 +52,7 @@ const journalFormat = "avoidcert-census-journal-1"
 // journal is an open census folder, locked against a second run.
 type journal struct {
 	dir    string
+	folder *folder
 	params Params
 	unlock func()
 }
@@ -62,18 +63,30 @@ func openJournal(ctx context.Context, dir string, params Params, shard Shard) (*
 			return nil, inputErrorf("cannot create the census folder %s: %v; choose another --out", d, err)
 		}
 	}
+	f, err := openFolder(dir)
+	if err != nil {
+		return nil, err
+	}
+	for _, sub := range []string{journalDir, certificateDir} {
+		if err := f.within(sub); err != nil {
+			f.close()
+			return nil, err
+		}
+	}
 	unlock, err := filelock.Lock(filepath.Join(dir, journalDir, lockFile))
 	switch {
 	case errors.Is(err, filelock.ErrHeld):
+		f.close()
 		return nil, inputErrorf("%s is in use by another census run; wait for it or choose another --out", dir)
 	case err != nil:
+		f.close()
 		return nil, inputErrorf("cannot lock %s: %v; choose another --out", dir, err)
 	}
-	j := &journal{dir: dir, params: params, unlock: unlock}
+	j := &journal{dir: dir, folder: f, params: params, unlock: func() { unlock(); f.close() }}
 	ok := false
 	defer func() {
 		if !ok {
-			unlock()
+			j.unlock()
 		}
 	}()
 	// With the lock held no other writer is active: temporary files are
@@ -92,16 +105,16 @@ func openJournal(ctx context.Context, dir string, params Params, shard Shard) (*
 		return nil, err
 	}
 	path := filepath.Join(dir, journalDir, paramsFile)
-	have, err := input.ReadFile(ctx, path, input.JournalEntry)
+	have, err := f.read(ctx, journalDir+"/"+paramsFile, input.JournalEntry)
 	switch {
+	case ctx.Err() != nil:
+		return nil, ctx.Err()
 	case errors.Is(err, fs.ErrNotExist):
 		if err := atomicfile.WriteFile(path, wantBytes, 0o644); err != nil {
 			return nil, err
 		}
-	case errors.As(err, new(*input.Error)):
-		return nil, inputErrorf("%v; it should be the journal's parameters: choose another --out", err)
 	case err != nil:
-		return nil, err
+		return nil, inputErrorf("%v; remove %s to start the census again", err, path)
 	case !bytes.Equal(have, wantBytes):
 		var h journalHeader
 		if json.Unmarshal(have, &h) != nil || h.Format != journalFormat {
@@ -144,7 +157,7 @@ func (j *journal) record(row Row, certificate []byte, seconds float64) (Row, err
 	sum := sha256.Sum256(certificate)
 	row.Certificate = certificateDir + "/" + row.Representative + ".json"
 	row.CertificateSHA256 = hex.EncodeToString(sum[:])
-	if err := atomicfile.WriteFile(filepath.Join(j.dir, row.Certificate), certificate, 0o644); err != nil {
+	if err := atomicfile.WriteFile(j.folder.path(row.Certificate), certificate, 0o644); err != nil {
 		return Row{}, fmt.Errorf("writing the certificate: %w", err)
 	}
 	data, err := marshal(record{Row: row, Seconds: seconds})
@@ -158,20 +171,23 @@ func (j *journal) record(row Row, certificate []byte, seconds float64) (Row, err
 }
 
 // finished returns the journalled rows of the given classes, by
-// representative. A record whose certificate is missing or differs from
-// its digest is not counted: that class is done again.
-func (j *journal) finished(ctx context.Context, classes []pattern.Class) (map[string]Row, error) {
-	rows := make(map[string]Row)
+// representative. A journal is untrusted: a record is counted only when
+// its certificate is there, has the digest the record names, is accepted
+// by check for the class, and supports every certified field and count
+// of the record (verifyRow); any other record's class is done again.
+func (j *journal) finished(ctx context.Context, classes []pattern.Class, check Checker, jobs int) (map[string]Row, error) {
+	var rows []Row
 	for _, c := range classes {
 		rep := c.Representative.String()
-		data, err := input.ReadFile(ctx, j.recordPath(rep), input.JournalEntry)
-		switch {
-		case errors.Is(err, fs.ErrNotExist):
+		data, err := j.folder.read(ctx, journalDir+"/"+rep+".json", input.JournalEntry)
+		if errors.Is(err, fs.ErrNotExist) {
 			continue
-		case errors.As(err, new(*input.Error)):
-			return nil, inputErrorf("%v; remove it to redo the class", err)
-		case err != nil:
-			return nil, err
+		}
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
+		if err != nil {
+			return nil, inputErrorf("journal record %s: %v; remove it to redo the class", j.recordPath(rep), err)
 		}
 		var rec record
 		if err := decodeJSON(data, &rec); err != nil {
@@ -181,18 +197,27 @@ func (j *journal) finished(ctx context.Context, classes []pattern.Class) (map[st
 		if err := row.fits(c, j.params); err != nil {
 			return nil, inputErrorf("journal record %s: %v; remove it to redo the class", j.recordPath(rep), err)
 		}
-		_, err = readCertificate(ctx, j.dir, row)
-		switch {
-		case err == nil:
-			rows[rep] = row
-		case ctx.Err() != nil:
-			return nil, ctx.Err()
+		rows = append(rows, row)
+	}
+	ok := make([]bool, len(rows))
+	inParallel(len(rows), jobs, func(i int) {
+		_, err := verifyRow(ctx, j.folder, j.recordPath(rows[i].Representative), rows[i], j.params.To, check)
+		ok[i] = err == nil
+	})
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	byRep := make(map[string]Row)
+	for i, r := range rows {
+		if ok[i] {
+			byRep[r.Representative] = r
 		}
 	}
-	return rows, nil
+	return byRep, nil
 }
 
-// fits reports whether a row is the census row of class c under params.
+// fits reports whether a row is the census row of class c under params
+// (verifyRow checks its certificate).
 func (r Row) fits(c pattern.Class, params Params) error {
 	var members []string
 	for _, m := range c.Members {
@@ -205,24 +230,8 @@ func (r Row) fits(c pattern.Class, params Params) error {
 		return fmt.Errorf("members %v, want %v", r.Members, members)
 	case len(r.Counts) != params.To+1:
 		return fmt.Errorf("%d counts, want a_0..a_%d", len(r.Counts), params.To)
-	case r.Certificate != certificateDir+"/"+r.Representative+".json":
-		return fmt.Errorf("certificate path %q, want %q", r.Certificate, certificateDir+"/"+r.Representative+".json")
 	}
 	return nil
-}
-
-// readCertificate returns the row's certificate file in dir, checked
-// against the row's digest.
-func readCertificate(ctx context.Context, dir string, row Row) ([]byte, error) {
-	data, err := input.ReadFile(ctx, filepath.Join(dir, row.Certificate), input.Certificate)
-	if err != nil {
-		return nil, err
-	}
-	sum := sha256.Sum256(data)
-	if hex.EncodeToString(sum[:]) != row.CertificateSHA256 {
-		return nil, fmt.Errorf("%s does not have the SHA-256 its row records: the file was changed", filepath.Join(dir, row.Certificate))
-	}
-	return data, nil
 }
 
 // decodeJSON reads a JSON file the census wrote into v, refusing nesting

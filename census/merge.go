@@ -15,25 +15,29 @@ import (
 )
 
 // Merge combines the finished shards in dirs into the whole census in
-// out: the same tables and certificates an unsharded run writes. It
+// out: the same tables and certificates an unsharded run writes. It first
 // refuses (with an *InputError) shards of different parameters, tools or
-// shard counts, a shard given twice or missing, a class missing or
-// present twice, and a certificate whose file differs from its digest.
-func Merge(ctx context.Context, out string, dirs []string) (*Report, error) {
+// shard counts, a shard given twice or missing, and a class missing or
+// present twice; then every shard is verified (Verify: each row's
+// certificate accepted by check for its class, every certified field and
+// count compared, the shard's tables derived again; a *RefusedError names
+// what differs), so the merge restates nothing a shard's file says
+// without its certificate. jobs rows are checked at once.
+func Merge(ctx context.Context, out string, dirs []string, check Checker, jobs int) (*Report, error) {
 	if len(dirs) == 0 {
 		return nil, inputErrorf("no shard folder given; name the folders of every shard")
 	}
 	if _, err := os.Stat(filepath.Join(out, journalDir, paramsFile)); err == nil {
 		return nil, inputErrorf("the output folder %s holds the journal of a census run, whose tables the merge would replace; choose another --out", out)
 	}
+	// The bookkeeping first, on the files as they read: it is quick, and
+	// the certificates are checked only for shards that fit together.
 	var (
 		first  *Report
 		seen   = make(map[int]string) // shard index -> folder
-		rows   []Row
-		owner  = make(map[string]string) // representative -> folder
-		certOf = make(map[string][]byte)
+		stated = make([]*Report, len(dirs))
 	)
-	for _, dir := range dirs {
+	for k, dir := range dirs {
 		rep, err := ReadReport(ctx, dir)
 		if err != nil {
 			return nil, err
@@ -58,55 +62,44 @@ func Merge(ctx context.Context, out string, dirs []string) (*Report, error) {
 			return nil, inputErrorf("shard %s is given twice: %s and %s; name each shard once", rep.Shard, other, dir)
 		}
 		seen[rep.Shard.Index] = dir
-		classes := rep.Shard.Classes(rep.Params.Length)
-		mine := make(map[string]bool)
-		for _, r := range rep.Rows {
-			if other, dup := owner[r.Representative]; dup {
-				return nil, inputErrorf("class %s is in %s and in %s; a class must come from one shard", r.Representative, other, dir)
-			}
-			owner[r.Representative] = dir
-			mine[r.Representative] = true
-			cert, err := readCertificate(ctx, dir, r)
-			if ctx.Err() != nil {
-				return nil, ctx.Err()
-			}
-			if err != nil {
-				return nil, inputErrorf("%s: class %s: %v", dir, r.Representative, err)
-			}
-			certOf[r.Representative] = cert
-			r.Group = 0
-			rows = append(rows, r)
-		}
-		for _, c := range classes {
-			if !mine[c.Representative.String()] {
-				return nil, inputErrorf("%s (shard %s) lacks class %s, which belongs to that shard; run the shard again to complete it", dir, rep.Shard, c.Representative)
-			}
-		}
-		for _, r := range rep.Rows {
-			i := -1
-			for k, c := range classes {
-				if c.Representative.String() == r.Representative {
-					i = k
-				}
-			}
-			if i < 0 {
-				return nil, inputErrorf("%s (shard %s) holds class %s, which belongs to another shard; the folder was mixed by hand", dir, rep.Shard, r.Representative)
-			}
-			if err := r.fits(classes[i], rep.Params); err != nil {
-				return nil, inputErrorf("%s: class %s: %v", dir, r.Representative, err)
-			}
-		}
+		stated[k] = rep
 	}
 	for i := 1; i <= first.Shard.Of; i++ {
 		if _, ok := seen[i]; !ok {
 			return nil, inputErrorf("shard %d/%d is missing; name the folders of all %d shards", i, first.Shard.Of, first.Shard.Of)
 		}
 	}
+	var (
+		rows   []Row
+		certOf = make(map[string][]byte)
+	)
+	for k, dir := range dirs {
+		rep, certs, err := verifyShard(ctx, dir, check, jobs)
+		if err != nil {
+			return nil, err
+		}
+		if rep.Shard == nil || rep.Params != first.Params || rep.Tool != first.Tool || *rep.Shard != *stated[k].Shard {
+			return nil, inputErrorf("%s changed while it was merged; merge again", dir)
+		}
+		for _, r := range rep.Rows {
+			certOf[r.Representative] = certs[r.Representative]
+			r.Group = 0
+			rows = append(rows, r)
+		}
+	}
 	if err := os.MkdirAll(filepath.Join(out, certificateDir), 0o755); err != nil {
 		return nil, inputErrorf("cannot create the output folder %s: %v; choose another --out", out, err)
 	}
+	o, err := openFolder(out)
+	if err != nil {
+		return nil, err
+	}
+	defer o.close()
+	if err := o.within(certificateDir); err != nil {
+		return nil, err
+	}
 	for _, r := range rows {
-		if err := atomicfile.WriteFile(filepath.Join(out, r.Certificate), certOf[r.Representative], 0o644); err != nil {
+		if err := atomicfile.WriteFile(o.path(r.Certificate), certOf[r.Representative], 0o644); err != nil {
 			return nil, err
 		}
 	}
@@ -117,17 +110,44 @@ func Merge(ctx context.Context, out string, dirs []string) (*Report, error) {
 	return rep, nil
 }
 
+// verifyShard verifies the shard in dir and returns it with its
+// certificates' bytes (those verified) by class.
+func verifyShard(ctx context.Context, dir string, check Checker, jobs int) (*Report, map[string][]byte, error) {
+	f, err := openFolder(dir)
+	if err != nil {
+		return nil, nil, err
+	}
+	defer f.close()
+	return verifyFolder(ctx, f, check, jobs)
+}
+
 // ReadReport reads a folder's census.json strictly: the format, every
 // member known, every number well formed. It returns an *InputError for
 // a file that is missing, not a census, not a regular file or over
-// input.Census's size limit, and ctx.Err() when ctx is cancelled.
+// input.Census's size limit, and ctx.Err() when ctx is cancelled. It
+// verifies nothing against the certificates: what it returns is untrusted
+// (see Verify).
 func ReadReport(ctx context.Context, dir string) (*Report, error) {
-	data, err := input.ReadFile(ctx, filepath.Join(dir, JSONFile), input.Census)
+	f, err := openFolder(dir)
+	if err != nil {
+		return nil, err
+	}
+	defer f.close()
+	return readReport(ctx, f)
+}
+
+func readReport(ctx context.Context, f *folder) (*Report, error) {
+	dir := f.dir
+	data, err := f.read(ctx, JSONFile, input.Census)
+	var refused *RefusedError
+	var in *InputError
 	switch {
-	case errors.Is(err, fs.ErrNotExist):
-		return nil, inputErrorf("%s has no %s: the shard is not finished (run it again with the same flags to complete it) or the folder is not a census", dir, JSONFile)
 	case ctx.Err() != nil:
 		return nil, ctx.Err()
+	case errors.Is(err, fs.ErrNotExist):
+		return nil, inputErrorf("%s has no %s: the shard is not finished (run it again with the same flags to complete it) or the folder is not a census", dir, JSONFile)
+	case errors.As(err, &refused), errors.As(err, &in):
+		return nil, err
 	case err != nil:
 		return nil, inputErrorf("%v", err)
 	}

@@ -181,13 +181,7 @@ func (ck *checker) statement() error {
 		return fmt.Errorf("statement.canonical_patterns: %s is not the symmetry representative %s", abbreviate(strings.Join(st.Canonical, ",")), abbreviate(strings.Join(canon, ",")))
 	}
 	if len(ck.opts.Expect) > 0 {
-		var tokens []string
-		for _, e := range ck.opts.Expect {
-			for _, tok := range strings.Split(e, ",") {
-				tokens = append(tokens, strings.TrimSpace(tok))
-			}
-		}
-		expect, err := parseSet(tokens)
+		expect, err := parseSet(PatternTokens(ck.opts.Expect))
 		if err != nil {
 			return fmt.Errorf("the expected set: %v", err)
 		}

@@ -3,9 +3,19 @@
 // the structure class, the order of two growth rates, equal counts of two
 // sets, and probabilities a_n/n!.
 //
+// One rule binds this package as every command: everything it states as
+// certified or proved is derived from certificates the independent
+// checker accepted in this run (or counts the checker's own iteration
+// agrees with), never from a table, a journal, a shard or a gate's
+// output, which are untrusted input like any other file.
+//
 // Guarantees:
 //   - Parse accepts only a manifest whose every field is known, typed and
 //     valid; otherwise its *Error names the file, the line and the field.
+//   - The checker is bound to the sets as the manifest writes them
+//     (Claim.Typed, OtherTyped, handed over unparsed through
+//     prove.Options.Typed), so a misreading of the engine's parser is a
+//     Failed claim, never a verdict about another set.
 //   - Every verdict rests on the checker, through package prove: count,
 //     equal-counts and probability verdicts on counts that the engine and
 //     the checker's own iteration agree on; growth and order verdicts on

@@ -72,6 +72,7 @@ func judgeCounts(ctx context.Context, c Claim, opts prove.Options) (outcome, err
 		}
 		return outcome{Proved, fmt.Sprintf("a_%d..a_%d all equal (engine and checker agree)", c.From, top)}, nil
 	case KindEqualCounts:
+		opts.Typed = c.OtherTyped
 		other, err := prove.Counts(ctx, c.Other, top, opts)
 		if err != nil {
 			return outcome{}, err
@@ -112,6 +113,7 @@ func approx(r *big.Rat) string {
 // are made.
 type certified struct {
 	sets    []pattern.Set
+	typed   [][]string // each set as the manifest writes it
 	decide  func(certs []*certify.Certificate) outcome
 	compute func(ctx context.Context, opts prove.Options) ([]*certify.Certificate, outcome, error)
 }
@@ -121,6 +123,7 @@ func certifiedFor(c Claim) certified {
 	case KindGrowth:
 		return certified{
 			sets:   []pattern.Set{c.Set},
+			typed:  [][]string{c.Typed},
 			decide: func(cs []*certify.Certificate) outcome { return growthOutcome(c, prove.Enclosure(cs[0], c.Of)) },
 			compute: func(ctx context.Context, opts prove.Options) ([]*certify.Certificate, outcome, error) {
 				j, err := prove.Judge(ctx, c.Set, c.Claimed, c.Of, opts)
@@ -137,6 +140,7 @@ func certifiedFor(c Claim) certified {
 	case KindForm:
 		return certified{
 			sets:   []pattern.Set{c.Set},
+			typed:  [][]string{c.Typed},
 			decide: func(cs []*certify.Certificate) outcome { return formOutcome(c, prove.FormOf(cs[0])) },
 			compute: func(ctx context.Context, opts prove.Options) ([]*certify.Certificate, outcome, error) {
 				opts.Digits = 3 // the structure section is the point; any bracket will do
@@ -150,8 +154,10 @@ func certifiedFor(c Claim) certified {
 	}
 	return certified{
 		sets:   []pattern.Set{c.Set, c.Other},
+		typed:  [][]string{c.Typed, c.OtherTyped},
 		decide: func(cs []*certify.Certificate) outcome { return orderOutcome(c, cs[0], cs[1]) },
 		compute: func(ctx context.Context, opts prove.Options) ([]*certify.Certificate, outcome, error) {
+			opts.TypedOther = c.OtherTyped
 			cmp, err := prove.Compare(ctx, c.Set, c.Other, opts)
 			if err != nil {
 				return nil, outcome{}, err

@@ -73,6 +73,9 @@ type Claim struct {
 	Set  pattern.Set // patterns
 	// Other is the second set: less_than (order) or other (equal-counts).
 	Other pattern.Set
+	// Typed and OtherTyped are the two sets' patterns as the manifest
+	// writes them: the checker reads these itself (prove.Options.Typed).
+	Typed, OtherTyped []string
 	// From and Counts: count claims, a_From, a_From+1, ... = Counts.
 	From   int
 	Counts []*big.Int
@@ -356,6 +359,7 @@ func parseClaim(rc rawClaim, defaults Budget) (Claim, *fieldError) {
 	if c.Set, fe = parseSet("patterns", rc.Patterns); fe != nil {
 		return c, fe
 	}
+	c.Typed = rc.Patterns
 	if c.Budget, fe = applyBudget(defaults, rc.rawBudget); fe != nil {
 		return c, fe
 	}
@@ -373,7 +377,9 @@ func parseClaim(rc rawClaim, defaults Budget) (Claim, *fieldError) {
 		fe = c.parseForm(rc)
 	case KindOrder:
 		c.Other, fe = parseSet("less_than", rc.LessThan)
+		c.OtherTyped = rc.LessThan
 	case KindEqualCounts:
+		c.OtherTyped = rc.Other
 		if c.Other, fe = parseSet("other", rc.Other); fe == nil {
 			fe = nonNegative("to", rc.To, &c.To)
 		}

@@ -106,7 +106,7 @@ func judge(runCtx context.Context, c Claim, opts Options) Result {
 		ctx, cancel = context.WithTimeout(runCtx, c.Budget.Timeout)
 		defer cancel()
 	}
-	po := prove.Options{MaxK: c.Budget.MaxK, MaxMemory: c.Budget.MaxMemory, Tool: opts.Tool}
+	po := prove.Options{MaxK: c.Budget.MaxK, MaxMemory: c.Budget.MaxMemory, Tool: opts.Tool, Typed: c.Typed}
 	r := Result{ID: c.ID, Kind: c.Kind, Line: c.Line}
 	var o outcome
 	err := ctx.Err()
@@ -135,7 +135,7 @@ func judgeCertified(ctx context.Context, c Claim, po prove.Options, opts Options
 	cf := certifiedFor(c)
 	note := ""
 	if opts.CacheDir != "" {
-		certs, err := loadChecked(ctx, cf.sets, cachePaths(opts.CacheDir, c, len(cf.sets)), po)
+		certs, err := loadChecked(ctx, cf, cachePaths(opts.CacheDir, c, len(cf.sets)), po)
 		switch {
 		case err == nil:
 			if o := cf.decide(certs); o.verdict != Undecided {
@@ -160,15 +160,16 @@ func judgeCertified(ctx context.Context, c Claim, po prove.Options, opts Options
 }
 
 // loadChecked reads cached certificates and has the checker accept each
-// for its set.
-func loadChecked(ctx context.Context, sets []pattern.Set, paths []string, po prove.Options) ([]*certify.Certificate, error) {
+// for its set as the manifest writes it.
+func loadChecked(ctx context.Context, cf certified, paths []string, po prove.Options) ([]*certify.Certificate, error) {
 	var certs []*certify.Certificate
 	for i, p := range paths {
 		cert, err := prove.Load(ctx, p)
 		if err != nil {
 			return nil, err
 		}
-		if err := prove.Recheck(ctx, cert, sets[i], po); err != nil {
+		po.Typed = cf.typed[i]
+		if err := prove.Recheck(ctx, cert, cf.sets[i], po); err != nil {
 			return nil, fmt.Errorf("%s: %w", filepath.Base(p), err)
 		}
 		certs = append(certs, cert)

@@ -13,8 +13,9 @@ import (
 )
 
 // Counts returns a_0..a_n for set, computed twice, by the fast engine
-// (transfer.Counts) and by the checker's own iteration (certify.Counts),
-// at the same time. It returns the counts only when the two agree;
+// (transfer.Counts) and by the checker's own iteration (certify.Counts, on
+// opts.Typed when set: the patterns as the user typed them), at the same
+// time. It returns the counts only when the two agree;
 // otherwise the error names the first n where they differ. A count whose
 // engine iterates would need more than opts.MaxMemory is refused before
 // the work (ErrBudget).
@@ -38,7 +39,7 @@ func Counts(ctx context.Context, set pattern.Set, n int, opts Options) ([]*big.I
 				ownDone <- counted{}
 			}
 		}()
-		c, err := certify.Counts(ctx, set.Given(), n)
+		c, err := certify.Counts(ctx, opts.given(set), n)
 		ownDone <- counted{c, err}
 	}()
 	engine, err := transfer.Counts(ctx, set, n, nil)

@@ -1,11 +1,13 @@
 package prove
 
 import (
+	"fmt"
 	"math/big"
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
 	"avoidcert/interval"
+	"avoidcert/structure"
 )
 
 // Enclosure returns what a certificate proves about lambda or 1/lambda,
@@ -56,18 +58,55 @@ func DecideOrder(first, second *certify.Certificate) bounds.Verdict {
 }
 
 // Form is the structure class a checked certificate states: its class,
-// with the period (periodic) and the exponent (primitive); class
-// "undecided" when the certificate has no structure section.
+// with the period (periodic), the exponent (primitive) and the first n
+// with a_n = 0 (finite); class "undecided" when the certificate has no
+// structure section.
 type Form struct {
 	Class    certify.StructureClass
 	Period   int
 	Exponent int
+	N1       int
 }
 
-// FormOf reads the structure section of a checked certificate.
+// FormOf reads the structure section of a checked certificate. It is the
+// one place that reads a certificate's structure class.
 func FormOf(c *certify.Certificate) Form {
 	if c.Structure == nil {
 		return Form{Class: certify.ClassUndecided}
 	}
-	return Form{Class: c.Structure.Class, Period: c.Structure.Period, Exponent: c.Structure.Exponent}
+	return Form{Class: c.Structure.Class, Period: c.Structure.Period, Exponent: c.Structure.Exponent, N1: c.Structure.N1}
+}
+
+// FormOfReport is the form the structure pass decided, before any
+// certificate: what 'avoidcert structure' shows.
+func FormOfReport(rep *structure.Report) Form {
+	f := Form{Class: certify.StructureClass(rep.Class)}
+	switch rep.Class {
+	case structure.Primitive:
+		f.Exponent = rep.Exponent
+	case structure.Periodic:
+		f.Period = rep.Period
+	case structure.Finite:
+		f.N1 = rep.N1
+	}
+	return f
+}
+
+// Words states the form in one line of plain text: the class and the
+// asymptotics it proves.
+func (f Form) Words() string {
+	switch f.Class {
+	case certify.ClassPrimitive:
+		return fmt.Sprintf("primitive, exponent %d: a_n/n! = c lambda^n (1 + O(theta^n)) with c > 0, theta < 1", f.Exponent)
+	case certify.ClassPeriodic:
+		return fmt.Sprintf("periodic, period %d: a_n/n! = lambda^n (c_(n mod %d) + o(1)) with constants c_r >= 0 (proved); one constant for every n is not proved; lambda bracketed through T^%d",
+			f.Period, f.Period, f.Period)
+	case certify.ClassReducible:
+		return "reducible: lambda is the largest over the strongly connected blocks"
+	case certify.ClassFinite:
+		return fmt.Sprintf("finite: a_n = 0 for every n >= %d", f.N1)
+	case certify.ClassSubexponential:
+		return "subexponential: lambda = 0 proved, a_n > 0 for every n"
+	}
+	return "undecided within the limits"
 }

@@ -7,10 +7,19 @@
 // returns anything. Every command that states a growth rate, a structure
 // class or an order between growth rates goes through it.
 //
+// One rule binds this package as every command: everything stated as
+// certified or proved is derived from certificates the independent
+// checker accepted in this run, never from a table, a journal, a shard
+// or a gate's output, which are untrusted input like any other file.
+//
 // Guarantees:
 //   - A Result, Judgement or Comparison is only returned for certificates
-//     that certify.Check accepted, bound to the set asked about. A
-//     certificate the checker refuses is an error, never a verdict.
+//     that certify.Check accepted, bound to the set asked about: to
+//     Options.Typed, the pattern arguments as the user wrote them, which
+//     the checker splits and parses itself and which the certificate
+//     states as patterns_given, so a set the engine misread is refused,
+//     not answered for. A certificate the checker refuses is an error,
+//     never a verdict. CheckBytes does the same for a file's bytes.
 //   - Verdicts are read from the checked certificates alone (Decide,
 //     DecideOrder, Form), never from the engine's own conclusion, so a
 //     verdict rests on what the checker proved.

@@ -8,6 +8,7 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
+	"avoidcert/pattern"
 	"avoidcert/transfer"
 )
 
@@ -51,6 +52,16 @@ type Options struct {
 	CheckWork int64
 	// Tool is written into certificates (default "avoidcert").
 	Tool string
+	// Typed are the pattern arguments of the set as the user wrote them
+	// ("1342", "1.3.4.2" or comma lists "123,321"). They are handed to
+	// the checker unparsed (certify.CheckOptions.Expect) and become the
+	// certificate's patterns_given, so a checked answer is about the set
+	// the user asked for even should the engine's parser misread it: the
+	// checker then refuses. Without them the check is bound to the set as
+	// the engine read it (pattern.Set.Strings); commands set them.
+	Typed []string
+	// TypedOther is Typed for Compare's second set.
+	TypedOther []string
 	// Deadline, if not zero, stops the bracket run (and the structure
 	// pass before it) in time to keep its best bracket; building and
 	// checking that bracket's certificate follow it and stop only when ctx
@@ -104,6 +115,24 @@ func (o Options) checkWork() int64 {
 		return DefaultCheckWork
 	}
 	return o.CheckWork
+}
+
+// expect is the set the checker binds a certificate to: the typed
+// arguments, or the engine's reading of set when there are none.
+func (o Options) expect(set pattern.Set) []string {
+	if len(o.Typed) > 0 {
+		return o.Typed
+	}
+	return set.Strings()
+}
+
+// given are the patterns a certificate states as given: the typed tokens,
+// or the engine's reading.
+func (o Options) given(set pattern.Set) []string {
+	if len(o.Typed) > 0 {
+		return certify.PatternTokens(o.Typed)
+	}
+	return set.Given()
 }
 
 func (o Options) tool() string {

@@ -1,6 +1,7 @@
 package prove
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
@@ -159,6 +160,7 @@ func Compare(ctx context.Context, first, second pattern.Set, opts Options) (*Com
 		if cmp.First, err = Certify(ctx, first, o); err != nil {
 			return nil, err
 		}
+		o.Typed = opts.TypedOther
 		if cmp.Second, err = Certify(ctx, second, o); err != nil {
 			return nil, err
 		}
@@ -171,9 +173,29 @@ func Compare(ctx context.Context, first, second pattern.Set, opts Options) (*Com
 }
 
 // Recheck runs the checker on a certificate (one read from a cache, say)
-// bound to set: nil means it is accepted.
+// bound to set (to opts.Typed when set): nil means it is accepted.
 func Recheck(ctx context.Context, c *certify.Certificate, set pattern.Set, opts Options) error {
 	return check(ctx, c, set, opts)
+}
+
+// CheckBytes reads a certificate file's bytes and returns the certificate
+// once the checker has accepted it for the set typed (pattern arguments as
+// written, unparsed: see Options.Typed). Its verdicts may then be read.
+// An error is a file that does not read as a certificate or a refusal;
+// both wrap the checker's reason.
+func CheckBytes(ctx context.Context, data []byte, typed []string, opts Options) (*certify.Certificate, error) {
+	if len(typed) == 0 {
+		return nil, errors.New("prove: CheckBytes needs the set the certificate must be about")
+	}
+	c, err := certify.Read(bytes.NewReader(data))
+	if err != nil {
+		return nil, err
+	}
+	opts.Typed = typed
+	if err := check(ctx, c, pattern.Set{}, opts); err != nil {
+		return nil, err
+	}
+	return c, nil
 }
 
 // check is the one place that calls the checker. It refuses to start
@@ -183,7 +205,7 @@ func check(ctx context.Context, c *certify.Certificate, set pattern.Set, opts Op
 	if errors.Is(ctx.Err(), context.Canceled) {
 		return ctx.Err()
 	}
-	err := certify.Check(ctx, c, certify.CheckOptions{Expect: set.Strings(), MaxWork: opts.checkWork(), MaxMemory: opts.maxMemory(), Progress: opts.CheckProgress})
+	err := certify.Check(ctx, c, certify.CheckOptions{Expect: opts.expect(set), MaxWork: opts.checkWork(), MaxMemory: opts.maxMemory(), Progress: opts.CheckProgress})
 	if errors.Is(err, certify.ErrLimit) {
 		return fmt.Errorf("%w: %w", ErrBudget, err)
 	}
@@ -267,6 +289,9 @@ func (p *plan) finish(ctx context.Context, res *bounds.Result, digits int, opts 
 	if err != nil {
 		return nil, budgetError(ctx, err)
 	}
+	// The patterns as the user typed them, not as the engine read them:
+	// should the two differ, the checker refuses the certificate.
+	c.Statement.Given = opts.given(p.rep.Set)
 	if err := check(ctx, c, p.rep.Set, opts); err != nil {
 		if errors.Is(err, ErrBudget) || ctx.Err() != nil {
 			return nil, fmt.Errorf("prove: checking the certificate built for %s: %w", p.rep.Set, err)

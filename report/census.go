@@ -2,24 +2,29 @@ package report
 
 import (
 	"context"
-	"crypto/sha256"
+	"errors"
 	"fmt"
-	"path/filepath"
+	"runtime"
 	"sort"
 
 	"avoidcert/census"
-	"avoidcert/internal/input"
+	"avoidcert/prove"
 )
 
-// Census is what a report states about a census folder: its census.json,
-// every row's certificate re-checked.
+// Census is what a report states about a census folder: its tables as
+// the rows' own checked certificates and the checker's counts give them.
 type Census struct {
 	Dir    string
 	Report *census.Report
 }
 
-// FromCensus reads dir/census.json and has the checker re-verify every
-// row's certificate (after comparing its SHA-256 with the row's).
+// FromCensus reads dir/census.json and verifies it whole (census.Verify):
+// every row's certificate, read inside the folder and matching its
+// SHA-256, accepted by the checker for the row's class; every certified
+// field of the row compared with that certificate, every count with the
+// checker's own; the order and the groups re-derived. Any difference is
+// a refusal (IsRefused) naming the row and the field; the report is made
+// from the verified tables only.
 func FromCensus(ctx context.Context, dir string) (*Census, error) {
 	rep, err := census.ReadReport(ctx, dir)
 	if err != nil {
@@ -28,21 +33,15 @@ func FromCensus(ctx context.Context, dir string) (*Census, error) {
 	if rep.Shard != nil {
 		return nil, fmt.Errorf("%s is one shard of a census: merge the shards first (avoidcert census merge)", dir)
 	}
-	for _, row := range rep.Rows {
-		path := filepath.Join(dir, filepath.FromSlash(row.Certificate))
-		data, err := input.ReadFile(ctx, path, input.Certificate)
-		if err != nil {
-			if ctx.Err() != nil {
-				return nil, ctx.Err()
-			}
-			return nil, fmt.Errorf("%s: row %s: %v", dir, row.Representative, err)
-		}
-		if got := fmt.Sprintf("%x", sha256.Sum256(data)); got != row.CertificateSHA256 {
-			return nil, refused{fmt.Errorf("%s: the SHA-256 of %s is %s, not the census's %s", dir, path, got, row.CertificateSHA256)}
-		}
-		if _, err := checked(ctx, path, data); err != nil {
-			return nil, err
-		}
+	jobs := runtime.GOMAXPROCS(0)
+	check := census.CheckerOf(prove.Options{MaxMemory: prove.DefaultMaxMemory / int64(jobs)})
+	rep, err = census.Verify(ctx, dir, check, jobs)
+	var refusedErr *census.RefusedError
+	switch {
+	case errors.As(err, &refusedErr):
+		return nil, refused{err}
+	case err != nil:
+		return nil, err
 	}
 	return &Census{Dir: dir, Report: rep}, nil
 }

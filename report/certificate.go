@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"crypto/sha256"
+	"errors"
 	"fmt"
 	"math"
 	"math/big"
@@ -71,19 +72,18 @@ func FromCertificate(ctx context.Context, name string, data []byte) (*Certificat
 }
 
 // checked reads a certificate and has the checker accept it for its own
-// pattern set.
+// pattern set, as the certificate gives it (read by the checker alone).
 func checked(ctx context.Context, name string, data []byte) (*certify.Certificate, error) {
 	c, err := certify.Read(bytes.NewReader(data))
 	if err != nil {
 		return nil, fmt.Errorf("%s: %v", name, err)
 	}
-	set, err := pattern.ParseSet(c.Statement.Given)
-	if err != nil {
-		return nil, fmt.Errorf("%s: patterns: %v", name, err)
-	}
-	if err := prove.Recheck(ctx, c, set, prove.Options{}); err != nil {
-		if ctx.Err() != nil {
+	if err := prove.Recheck(ctx, c, pattern.Set{}, prove.Options{Typed: c.Statement.Given}); err != nil {
+		switch {
+		case ctx.Err() != nil:
 			return nil, ctx.Err()
+		case errors.Is(err, prove.ErrBudget):
+			return nil, fmt.Errorf("%s: %w", name, err) // not refused: over the checker's limits
 		}
 		return nil, refused{fmt.Errorf("%s: the checker refuses the certificate: %v", name, err)}
 	}

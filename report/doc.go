@@ -2,11 +2,24 @@
 // Markdown, a standalone HTML page with inline SVG figures (no network
 // access), and a LaTeX fragment to \input into a preprint.
 //
+// One rule binds this package as every command: everything it states as
+// certified or proved is derived from certificates the independent
+// checker accepted in this run, never from a table, a journal, a shard
+// or a gate's output, which are untrusted input like any other file.
+//
 // Guarantees:
 //   - FromCertificate re-verifies the certificate with the independent
-//     checker (prove.Recheck, bound to the certificate's own pattern set)
-//     before anything is rendered; a certificate the checker refuses is an
-//     error, never a page.
+//     checker (prove.Recheck, bound to the certificate's own pattern set as
+//     the checker reads it) before anything is rendered; a certificate the
+//     checker refuses is an error, never a page.
+//   - FromCensus renders only the tables census.Verify derived: every
+//     row's certificate accepted for the row's class, every certified field
+//     of the row compared with it, the counts with the checker's own, the
+//     order and groups derived again; a difference is a refusal
+//     (IsRefused) naming the row and the field.
+//   - A gate's JSON lines are restated as recorded, not re-checked, and
+//     labelled so; they are never shown as this report's verdicts, and a
+//     line with a verdict or kind the gate never writes is refused.
 //   - Every number stated as proved is read from the checked certificate
 //     and printed rounded outward (interval.DecimalDown / DecimalUp at the
 //     certificate's digits), so a printed bound still holds.

@@ -5,7 +5,10 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"slices"
+	"strings"
 
+	"avoidcert/claims"
 	"avoidcert/internal/input"
 )
 
@@ -26,6 +29,8 @@ type GateClaim struct {
 }
 
 // Gate is a gate's JSON output: its verdicts as the gate recorded them.
+// A report restates them as recorded and not re-checked (the lines hold
+// no claimed values to judge again), never as verdicts of its own.
 type Gate struct {
 	Name   string
 	Claims []GateClaim
@@ -66,6 +71,13 @@ func FromGate(name string, data []byte) (*Gate, error) {
 		if c.ID == "" || c.Verdict == "" {
 			return nil, fmt.Errorf("%s:%d: a claim without id or verdict", name, n)
 		}
+		if !slices.Contains(gateVerdicts, claims.Verdict(c.Verdict)) {
+			return nil, fmt.Errorf("%s:%d: claim %s: %s is not a verdict the gate writes (%s); the file is not the gate's output as written",
+				name, n, quoteID(c.ID), quoteID(c.Verdict), verdictList())
+		}
+		if !slices.Contains(gateKinds, claims.Kind(c.Kind)) {
+			return nil, fmt.Errorf("%s:%d: claim %s: %s is not a claim kind; the file is not the gate's output as written", name, n, quoteID(c.ID), quoteID(c.Kind))
+		}
 		g.Claims = append(g.Claims, c)
 	}
 	if err := sc.Err(); err != nil {
@@ -77,7 +89,29 @@ func FromGate(name string, data []byte) (*Gate, error) {
 	return g, nil
 }
 
-// tally counts the claims by verdict.
+// What a gate's JSON lines can hold.
+var (
+	gateVerdicts = []claims.Verdict{claims.Proved, claims.Refuted, claims.Undecided, claims.Failed}
+	gateKinds    = []claims.Kind{claims.KindCount, claims.KindGrowth, claims.KindForm, claims.KindOrder, claims.KindEqualCounts, claims.KindProbability}
+)
+
+func verdictList() string {
+	var words []string
+	for _, v := range gateVerdicts {
+		words = append(words, string(v))
+	}
+	return strings.Join(words, ", ")
+}
+
+// quoteID quotes a value from a gate line, cut to a few dozen characters.
+func quoteID(s string) string {
+	if len(s) > 40 {
+		s = s[:40] + "..."
+	}
+	return fmt.Sprintf("%q", s)
+}
+
+// tally counts the claims by recorded verdict.
 func (g *Gate) tally() string {
 	counts := map[string]int{}
 	var order []string

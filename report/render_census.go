@@ -7,11 +7,14 @@ import (
 	"strings"
 
 	"avoidcert/census"
+	"avoidcert/claims"
 )
 
 // censusChecked says what the report verified of a census.
-const censusChecked = "Every row's certificate matched the SHA-256 recorded in census.json and was " +
-	"re-verified by the independent checker while this report was made."
+const censusChecked = "Verified while this report was made: every row's certificate, read inside the census " +
+	"folder and matching the SHA-256 recorded in census.json, was accepted by the independent checker for " +
+	"the row's class; each row's ranges of λ and 1/λ and its structure class are that certificate's, its counts " +
+	"the checker's own; the order of the rows and the count groups were derived again from them."
 
 // summary is the census's headline, plain text.
 func (c *Census) summary() string {
@@ -98,22 +101,29 @@ func (c *Census) tex() string {
 }
 
 // gateNote says what the report did not do with a gate's output.
-const gateNote = "Verdicts as the gate recorded them; this report does not judge the claims again. " +
-	"Re-run the gate, or check the certificates listed."
+const gateNote = "Recorded, not re-checked: the gate's own record, restated as it is in the file. This report " +
+	"did not judge these claims or check these certificates (the lines hold no claimed values), so nothing " +
+	"here is a verdict of this report. To verify, run the gate on the manifest again, or check each " +
+	"certificate with the command shown."
+
+// heading is the title of a gate's section, plain text.
+func (g *Gate) heading() string {
+	return fmt.Sprintf("Claims gate (%s), recorded, not re-checked: %s", g.Name, g.tally())
+}
 
 func (g *Gate) certificates(c GateClaim) string {
 	var parts []string
 	for _, ref := range c.Certificates {
-		parts = append(parts, fmt.Sprintf("%s (%s)", ref.Path, ref.Set))
+		parts = append(parts, fmt.Sprintf("avoidcert check %s --expect %s", shellQuote(ref.Path), shellQuote(ref.Set)))
 	}
 	return strings.Join(parts, "; ")
 }
 
 func (g *Gate) markdown() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "## Claims gate (%s): %s\n\n%s\n\n| claim | kind | line | verdict | evidence | certificates |\n|---|---|---:|---|---|---|\n", g.Name, g.tally(), gateNote)
+	fmt.Fprintf(&b, "## %s\n\n%s\n\n| claim | kind | line | recorded verdict | recorded evidence | check the certificates with |\n|---|---|---:|---|---|---|\n", g.heading(), gateNote)
 	for _, c := range g.Claims {
-		fmt.Fprintf(&b, "| %s | %s | %d | %s | %s | %s |\n", c.ID, c.Kind, c.Line, c.Verdict, strings.ReplaceAll(c.Evidence, "|", `\|`), g.certificates(c))
+		fmt.Fprintf(&b, "| %s | %s | %d | %s | %s | %s |\n", c.ID, c.Kind, c.Line, c.Verdict, strings.ReplaceAll(c.Evidence, "|", `\|`), strings.ReplaceAll(g.certificates(c), "|", `\|`))
 	}
 	b.WriteString("\n")
 	return b.String()
@@ -121,11 +131,11 @@ func (g *Gate) markdown() string {
 
 func (g *Gate) html() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "<h2>Claims gate (%s): %s</h2>\n<p>%s</p>\n<table>\n<tr><th>claim</th><th>kind</th><th>line</th><th>verdict</th><th>evidence</th><th>certificates</th></tr>\n",
-		html.EscapeString(g.Name), html.EscapeString(g.tally()), gateNote)
+	fmt.Fprintf(&b, "<h2>%s</h2>\n<p>%s</p>\n<table>\n<tr><th>claim</th><th>kind</th><th>line</th><th>recorded verdict</th><th>recorded evidence</th><th>check the certificates with</th></tr>\n",
+		html.EscapeString(g.heading()), html.EscapeString(gateNote))
 	for _, c := range g.Claims {
 		v := html.EscapeString(c.Verdict)
-		if c.Verdict != "proved" {
+		if c.Verdict != string(claims.Proved) {
 			v = "<strong>" + v + "</strong>"
 		}
 		fmt.Fprintf(&b, "<tr><td>%s</td><td>%s</td><td>%d</td><td>%s</td><td>%s</td><td>%s</td></tr>\n", html.EscapeString(c.ID), html.EscapeString(c.Kind), c.Line, v, html.EscapeString(c.Evidence), html.EscapeString(g.certificates(c)))
@@ -136,7 +146,7 @@ func (g *Gate) html() string {
 
 func (g *Gate) tex() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "\n\\noindent Claims gate \\texttt{%s}: %s. %s\n\\begin{center}\n\\begin{tabular}{lll}\nclaim & kind & verdict\\\\\n\\hline\n", texText(g.Name), texText(g.tally()), texText(gateNote))
+	fmt.Fprintf(&b, "\n\\noindent %s. %s\n\\begin{center}\n\\begin{tabular}{lll}\nclaim & kind & recorded verdict\\\\\n\\hline\n", texText(g.heading()), texText(gateNote))
 	for _, c := range g.Claims {
 		fmt.Fprintf(&b, "%s & %s & %s\\\\\n", texText(c.ID), texText(c.Kind), texText(c.Verdict))
 	}

@@ -192,4 +192,34 @@ func TestCensusAndGateInputs(t *testing.T) {
 	if _, err := FromGate("bad.jsonl", bad); err == nil {
 		t.Error("a gate line with an unknown field accepted")
 	}
+	for _, line := range []string{
+		`{"id":"x","kind":"count","verdict":"PROVED!!"}`,
+		`{"id":"x","kind":"theorem","verdict":"proved"}`,
+	} {
+		if _, err := FromGate("forged.jsonl", []byte(line)); err == nil {
+			t.Errorf("a gate line with a verdict or kind the gate never writes accepted: %s", line)
+		}
+	}
+}
+
+// A census row whose lambda was edited is refused, with the class and the
+// field named, although every certificate is intact.
+func TestCensusRowComparedWithItsCertificate(t *testing.T) {
+	dir := t.TempDir()
+	if err := os.CopyFS(dir, os.DirFS(filepath.Join("testdata", "census-4"))); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(dir, "census.json")
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	forged := bytes.Replace(data, []byte(`"lo": "0.`), []byte(`"lo": "0.5`), 1)
+	if err := os.WriteFile(path, forged, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err = FromCensus(context.Background(), dir)
+	if !IsRefused(err) || !strings.Contains(err.Error(), ": lambda.lo: \"0.5") {
+		t.Errorf("a census with a forged lambda: %v, want a refusal naming lambda.lo", err)
+	}
 }

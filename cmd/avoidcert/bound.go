@@ -81,6 +81,7 @@ type budget struct {
 	timeout   duration
 	progress  bool
 	quiet     bool
+	typed     []string // the pattern arguments as typed
 }
 
 func (b *budget) register(fs *flag.FlagSet) {
@@ -93,7 +94,8 @@ func (b *budget) register(fs *flag.FlagSet) {
 }
 
 // parse registers the budget flags on fs, parses args and returns the
-// pattern set they name, with the budget checked.
+// pattern set they name, with the budget checked; b.typed keeps the
+// pattern arguments as they were typed, for the checker.
 func (b *budget) parse(fs *flag.FlagSet, args []string) (pattern.Set, error) {
 	b.register(fs)
 	pos, err := parseArgs(fs, args)
@@ -104,6 +106,7 @@ func (b *budget) parse(fs *flag.FlagSet, args []string) (pattern.Set, error) {
 	if err != nil {
 		return pattern.Set{}, err
 	}
+	b.typed = pos
 	return set, b.validate(fs.Name())
 }
 
@@ -120,10 +123,11 @@ func (b *budget) validate(cmd string) error {
 }
 
 // options are the prove options of the budget: --max-k, --max-memory (also
-// the runtime's memory limit) and the deadline of --timeout from now.
+// the runtime's memory limit), the deadline of --timeout from now, and the
+// pattern arguments as typed, which bind the checker.
 func (b *budget) options() prove.Options {
 	limitMemory(int64(b.maxMemory))
-	opts := prove.Options{MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Tool: "avoidcert " + version}
+	opts := prove.Options{MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Tool: "avoidcert " + version, Typed: b.typed}
 	if b.timeout > 0 {
 		opts.Deadline = time.Now().Add(time.Duration(b.timeout))
 	}
@@ -300,8 +304,9 @@ func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
 	res, rep := r.Bracket, r.Report
 	lambda, radius, digits, agreed := certified(r.Certificate)
 	fmt.Fprintf(w, "patterns: %s (window length %d)\n", r.Set, r.Set.Window())
-	printWrapped(w, "class: "+classLine(rep), "  ")
-	if rep.Class == structure.Subexponential {
+	form := prove.FormOf(r.Certificate)
+	printWrapped(w, "class: "+form.Words(), "  ")
+	if form.Class == certify.ClassSubexponential {
 		fmt.Fprintln(w, "lambda = 0 (proved by the structure pass: no cyclic avoider of any length)")
 	}
 	fmt.Fprintf(w, "lambda   in %s  (%s)\n", lambda.String(digits), digitWords(lambda, agreed))
@@ -438,12 +443,13 @@ func ends(x bounds.Enclosure, digits int) endsJSON {
 }
 
 func writeBoundJSON(w io.Writer, r *prove.Result, dest *outFile) {
-	res, rep := r.Bracket, r.Report
+	res := r.Bracket
 	lambda, radius, digits, agreed := certified(r.Certificate)
-	out := boundJSON{Patterns: r.Set.Strings(), Class: string(rep.Class),
+	form := prove.FormOf(r.Certificate)
+	out := boundJSON{Patterns: r.Set.Strings(), Class: string(form.Class),
 		Lambda: ends(lambda, digits), Radius: ends(radius, digits), K: r.K(), Digits: min(agreed, 1000),
 		Stop: string(res.Stop), Seconds: res.Elapsed.Seconds()}
-	out.Period, out.Exponent = periodExponent(rep)
+	out.Period, out.Exponent = periodExponent(form)
 	out.AllN = allNJSONOf(r.Certificate.Statement.AllN, digits)
 	est := &estimatesJSON{Note: "estimate, not certified", CPhases: r.Estimates.ByResidue}
 	if x := r.Estimates.Rate; x > 0 {

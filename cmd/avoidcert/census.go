@@ -17,7 +17,7 @@ import (
 	"avoidcert/census"
 	"avoidcert/certify"
 	"avoidcert/pattern"
-	"avoidcert/transfer"
+	"avoidcert/prove"
 )
 
 func init() {
@@ -50,13 +50,24 @@ Flags:
   --quiet          no progress bar (it is shown only when stderr is a terminal)
 
 merge combines the folders of all N shards of one census into DIR (default
-census-K), writing the same bytes as an unsharded run. It refuses shards of
-different parameters, a missing or duplicated shard or class, and changed
-certificates (exit 2).
+census-K), writing the same bytes as an unsharded run. A shard is untrusted
+input: every row's certificate (inside the shard's folder, matching its
+SHA-256) must be accepted by the checker for the row's class, and every
+certified field and count of the row must be what that certificate and the
+checker's own counting give, the shard's order and groups what its rows give;
+otherwise the merge is refused (exit 1, naming the shard, the row and the
+field) and nothing is written. It refuses shards of different parameters and
+a missing or duplicated shard or class (exit 2). Merge flags: --out DIR,
+--jobs J (certificates checked at once), --max-memory B.
 
-Exit codes: 0 done, 2 bad input (or a folder holding another census), 4
-interrupted (Ctrl-C, SIGTERM), out of space or a class failed (the finished
-classes are kept: run again).
+A journal is untrusted too: a continued run re-checks the certificate of
+every class in the journal and does a class again whose record its
+certificate does not support. Paths inside a census folder stay inside it:
+no "..", no absolute path, no symbolic link that leads out.
+
+Exit codes: 0 done, 1 (merge) a shard its certificates do not support, 2 bad
+input (or a folder holding another census), 4 interrupted (Ctrl-C, SIGTERM),
+out of space or a class failed (the finished classes are kept: run again).
 `,
 		run: runCensus,
 	}
@@ -115,6 +126,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 		Tool:    "avoidcert " + version,
 		Certify: censusCertifier(int64(maxMemory) / int64(*jobs)),
 		Count:   censusCounter,
+		Check:   census.CheckerOf(censusOptions(int64(maxMemory) / int64(*jobs))),
 		Progress: func(ev census.Event) {
 			if ev.Class == "" && ev.Resumed > 0 {
 				fmt.Fprintf(e.stderr, "avoidcert: continuing the census in %s: %d of %d classes are in its journal\n", dir, ev.Resumed, ev.Total)
@@ -130,8 +142,10 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	return exitOK
 }
 
+// censusCounter counts with the engine and the checker side by side and
+// returns the counts only when they agree (prove.Counts).
 func censusCounter(ctx context.Context, set pattern.Set, n int) ([]*big.Int, error) {
-	return transfer.Counts(ctx, set, n, nil)
+	return prove.Counts(ctx, set, n, prove.Options{Typed: set.Strings()})
 }
 
 // parseShard reads --shard I/N; "" is the whole census.
@@ -174,12 +188,18 @@ func censusFailure(e *env, dir string, err error) int {
 func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("census merge")
 	out := fs.String("out", "", "")
+	jobs := fs.Int("jobs", runtime.NumCPU(), "")
+	maxMemory := byteSize(8 << 30)
+	fs.Var(&maxMemory, "max-memory", "")
 	dirs, err := parseArgs(fs, args)
 	if err != nil {
 		return failure(e, err)
 	}
-	if len(dirs) == 0 {
+	switch {
+	case len(dirs) == 0:
 		return failure(e, usagef("census merge: name the folders of every shard, e.g. 'avoidcert census merge --out census-5 census-5-shard-*'"))
+	case *jobs < 1:
+		return failure(e, usagef("census merge: --jobs must be at least 1"))
 	}
 	dir := *out
 	if dir == "" {
@@ -189,7 +209,9 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 		}
 		dir = "census-" + strconv.Itoa(rep.Params.Length)
 	}
-	rep, err := census.Merge(ctx, dir, dirs)
+	limitMemory(int64(maxMemory))
+	check := census.CheckerOf(censusOptions(int64(maxMemory) / int64(*jobs)))
+	rep, err := census.Merge(ctx, dir, dirs, check, *jobs)
 	if err != nil {
 		return censusMergeFailure(e, err)
 	}
@@ -197,12 +219,18 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	return exitOK
 }
 
-// censusMergeFailure reports a merge that did not finish: refused shards
-// are exit 2.
+// censusMergeFailure reports a merge that did not finish: shards that do
+// not fit together or cannot be read are exit 2, a shard its certificates
+// do not support 1.
 func censusMergeFailure(e *env, err error) int {
 	var in *census.InputError
-	if errors.As(err, &in) {
+	var refused *census.RefusedError
+	switch {
+	case errors.As(err, &in):
 		return failure(e, usagef("census merge: %v", err))
+	case errors.As(err, &refused):
+		fmt.Fprintf(e.stderr, "avoidcert: census merge: refused: %v; nothing was written\n", err)
+		return exitFailed
 	}
 	return failure(e, err)
 }

@@ -6,7 +6,6 @@ import (
 
 	"avoidcert/census"
 	"avoidcert/certify"
-	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/prove"
 )
@@ -16,7 +15,9 @@ import (
 // anything is returned). maxMemory is the budget of one class.
 func censusCertifier(maxMemory int64) census.Certifier {
 	return func(ctx context.Context, set pattern.Set, digits int) (census.Certified, error) {
-		r, err := prove.Certify(ctx, set, prove.Options{Digits: digits, MaxMemory: maxMemory, Tool: "avoidcert " + version})
+		opts := censusOptions(maxMemory)
+		opts.Digits, opts.Typed = digits, set.Strings()
+		r, err := prove.Certify(ctx, set, opts)
 		if err != nil {
 			return census.Certified{}, err
 		}
@@ -27,22 +28,12 @@ func censusCertifier(maxMemory int64) census.Certifier {
 		if err != nil {
 			return census.Certified{}, err
 		}
-		st := r.Certificate.Statement
-		return census.Certified{
-			Lambda:      outward(st.Lambda),
-			Radius:      outward(st.Radius),
-			Class:       string(r.Report.Class),
-			Form:        classLine(r.Report),
-			Certificate: data,
-		}, nil
+		return census.Certified{Certificate: data, Checked: r.Certificate}, nil
 	}
 }
 
-// outward prints a certificate's range rounded outward at its digits.
-func outward(r certify.Range) census.Range {
-	out := census.Range{Lo: interval.DecimalDown(r.Lo, r.Digits)}
-	if r.Hi != nil {
-		out.Hi = interval.DecimalUp(r.Hi, r.Digits)
-	}
-	return out
+// censusOptions are the budgets of one class of a census (certifying it,
+// or checking its certificate again).
+func censusOptions(maxMemory int64) prove.Options {
+	return prove.Options{MaxMemory: maxMemory, Tool: "avoidcert " + version}
 }

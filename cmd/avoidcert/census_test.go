@@ -32,7 +32,7 @@ var (
 
 // referenceCensus runs the shared census once, uninterrupted, and returns
 // its folder.
-func referenceCensus(t *testing.T) string {
+func referenceCensus(t testing.TB) string {
 	t.Helper()
 	referenceOnce.Do(func() {
 		dir, err := os.MkdirTemp("", "census-reference-")
@@ -291,6 +291,32 @@ func TestCensusRefusalsExitTwo(t *testing.T) {
 		stderr.Reset()
 		if code := run(context.Background(), e, args); code != exitUsage || stdout.Len() > 0 {
 			t.Errorf("%v: exit %d, stdout %q; want exit 2 and nothing on stdout (stderr: %s)", args, code, stdout.String(), stderr.String())
+		}
+	}
+}
+
+// The real census verifies: every row of the reference census is
+// supported by its checked certificate and the checker's counts.
+func TestCensusVerifies(t *testing.T) {
+	dir := referenceCensus(t)
+	rep, err := census.Verify(context.Background(), dir, census.CheckerOf(censusOptions(1<<30)), 2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rep.Rows) != 8 {
+		t.Errorf("%d rows, want the 8 classes of length 4", len(rep.Rows))
+	}
+}
+
+// BenchmarkVerifyCensus4 times what report and census merge add for a
+// census: every certificate checked again, every count recounted by the
+// checker, the tables derived again (the reference census of length 4).
+func BenchmarkVerifyCensus4(b *testing.B) {
+	dir := referenceCensus(b)
+	check := census.CheckerOf(censusOptions(1 << 30))
+	for b.Loop() {
+		if _, err := census.Verify(context.Background(), dir, check, 1); err != nil {
+			b.Fatal(err)
 		}
 	}
 }

@@ -5,14 +5,13 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"math"
 	"os"
 	"strings"
 
 	"avoidcert/certify"
-	"avoidcert/internal/brief"
 	"avoidcert/internal/bytesize"
 	"avoidcert/internal/input"
-	"avoidcert/pattern"
 )
 
 func init() {
@@ -40,7 +39,8 @@ Flags:
                       "all_n":{"n0","a_n0","lo","hi"}}
   --max-work N        refuse certificates whose recomputation is estimated
                       above N coefficient operations (default 1e12; the
-                      memory limit is what binds in practice)
+                      memory limit is what binds in practice); values from
+                      9.2e18 up ("inf" too) mean 9.2e18, no limit in practice
   --max-memory B      refuse certificates whose recomputation is estimated
                       to need more memory (default 8G)
   --progress          a line on stderr per percent of the work (for logs)
@@ -87,16 +87,16 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	}
 	var opts certify.CheckOptions
 	if len(expect) > 0 {
+		// The expected set is read by the checker's parser alone.
 		given := append(expect, pos[1:]...)
-		if _, err := pattern.ParseSet(given); err != nil {
+		if _, err := certify.ParsePatterns(given); err != nil {
 			return failure(e, usagef("check: --expect: %v", err))
 		}
 		opts.Expect = given
 	}
-	if *maxWork < 1 {
-		return failure(e, usagef("check: --max-work must be at least 1"))
+	if opts.MaxWork, err = workLimit(*maxWork); err != nil {
+		return failure(e, err)
 	}
-	opts.MaxWork = int64(*maxWork)
 	opts.MaxMemory = int64(maxMem)
 	data, err := readCertificateInput(ctx, pos[0])
 	if err != nil {
@@ -134,6 +134,19 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 		return checkUndecided(e, *asJSON, cert, fmt.Sprintf("%v; raise %s (now %s) to check it", err, flag, now))
 	}
 	return checkVerdict(e, *asJSON, cert, err)
+}
+
+// workLimit converts --max-work to the checker's count of operations. A
+// value above the largest count (about 9.2e18, "inf" included) is clamped
+// to it, which is no limit in practice; a conversion would wrap around.
+func workLimit(x float64) (int64, error) {
+	switch {
+	case !(x >= 1): // NaN too
+		return 0, usagef("check: --max-work must be a number of at least 1, such as 1e12")
+	case x >= math.MaxInt64:
+		return math.MaxInt64, nil
+	}
+	return int64(x), nil
 }
 
 // readCertificateInput reads a certificate file ("-": standard input),
@@ -178,7 +191,9 @@ type checkJSON struct {
 	AllN     *allNJSON `json:"all_n"`
 }
 
-// checkVerdict prints valid (with what was verified) or invalid.
+// checkVerdict prints valid (with what was verified) or invalid. Every
+// statement printed as verified is the checker's own (certify.Summarize
+// of the accepted certificate).
 func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int {
 	if err != nil {
 		if asJSON {
@@ -192,86 +207,37 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 		}
 		return exitFailed
 	}
-	st := cert.Statement
-	lambda := endsJSON{Lo: decimalOf(st.Lambda.LoDecimal), Hi: decimalOf(st.Lambda.HiDecimal)}
-	radius := endsJSON{Lo: decimalOf(st.Radius.LoDecimal), Hi: decimalOf(st.Radius.HiDecimal)}
-	var ns []int
-	for _, b := range cert.Evidence.Brackets {
-		ns = append(ns, b.N)
-	}
-	all := allNJSONOf(st.AllN, st.Lambda.Digits)
-	out := checkJSON{Verdict: "valid", Patterns: st.Patterns, Lambda: &lambda, Radius: &radius, N: ns, AllN: all}
-	if cs := cert.Structure; cs != nil {
-		class := string(cs.Class)
-		out.Class = &class
-		if cs.Period > 0 {
-			out.Period = &cs.Period
+	v := certify.Summarize(cert)
+	if !asJSON {
+		fmt.Fprintln(e.stdout, "valid")
+		for _, line := range v.Lines() {
+			fmt.Fprintln(e.stdout, "verified: "+line)
 		}
-		if cs.Class == certify.ClassPrimitive {
-			one := 1 // as structure --json and bound --json say
-			out.Period = &one
-		}
-		if cs.Exponent > 0 {
-			out.Exponent = &cs.Exponent
-		}
-	}
-	if asJSON {
-		writeJSON(e.stdout, out)
 		return exitOK
 	}
-	w := e.stdout
-	fmt.Fprintln(w, "valid")
-	fmt.Fprintf(w, "verified: the set %s (window length %d)\n", strings.Join(st.Patterns, ","), cert.Evidence.CellLength+1)
-	fmt.Fprintf(w, "verified: lambda   in [%s, %s]\n", orInf(lambda.Lo), orInf(lambda.Hi))
-	fmt.Fprintf(w, "verified: 1/lambda in [%s, %s]\n", orInf(radius.Lo), orInf(radius.Hi))
-	if out.Class != nil {
-		line := "verified: class " + *out.Class
-		switch {
-		case out.Exponent != nil:
-			line += fmt.Sprintf(", exponent %d", *out.Exponent)
-		case out.Period != nil && *out.Period > 1:
-			line += fmt.Sprintf(", period %d", *out.Period)
-		}
-		fmt.Fprintln(w, line)
-	} else {
-		fmt.Fprintln(w, "verified: no structure section (format version 1): the class is not certified")
+	out := checkJSON{Verdict: "valid", Patterns: v.Patterns, N: v.N,
+		Lambda: &endsJSON{Lo: nonEmpty(v.Lambda[0]), Hi: nonEmpty(v.Lambda[1])},
+		Radius: &endsJSON{Lo: nonEmpty(v.Radius[0]), Hi: nonEmpty(v.Radius[1])}}
+	if v.Class != "" {
+		out.Class = &v.Class
 	}
-	for _, b := range cert.Evidence.Brackets {
-		fmt.Fprintf(w, "verified: %s\n", bracketWords(b, cert.Evidence.States))
+	if v.Period > 0 {
+		out.Period = &v.Period
 	}
-	if all != nil {
-		var lower, upper string
-		if all.Lo != nil {
-			lower = fmt.Sprintf("A*%s^(n-%d) <= ", *all.Lo, all.N0)
-		}
-		if all.Hi != nil {
-			upper = fmt.Sprintf(" <= A*%s^(n-%d)", *all.Hi, all.N0)
-		}
-		fmt.Fprintf(w, "verified: for every n >= %d: %sa_n/n!%s, A = a_%d/%d!, a_%d = %s\n",
-			all.N0, lower, upper, all.N0, all.N0, all.N0, brief.Digits(all.AN0))
+	if v.Exponent > 0 {
+		out.Exponent = &v.Exponent
 	}
+	if a := v.AllN; a != nil {
+		out.AllN = &allNJSON{N0: a.N0, AN0: a.AN0, Lo: nonEmpty(a.Lo), Hi: nonEmpty(a.Hi)}
+	}
+	writeJSON(e.stdout, out)
 	return exitOK
 }
 
-func decimalOf(s string) *string {
+// nonEmpty is s, or nil (JSON null) for "".
+func nonEmpty(s string) *string {
 	if s == "" {
 		return nil
 	}
 	return &s
-}
-
-func orInf(s *string) string {
-	if s == nil {
-		return "inf"
-	}
-	return *s
-}
-
-// bracketWords describes one bracket of a certificate for a reader.
-func bracketWords(b certify.Bracket, states int) string {
-	system := "the whole system"
-	if len(b.States) < states {
-		system = fmt.Sprintf("%d of the %d prefix states (start %s)", len(b.States), states, b.Start)
-	}
-	return fmt.Sprintf("bracket of G_%d against G_%d, step %d, on %s", b.N, b.N+b.Step, b.Step, system)
 }

@@ -100,7 +100,7 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 			Verdict   string   `json:"verdict"`
 			Reason    string   `json:"reason"`
 			Seconds   float64  `json:"seconds"`
-		}{set.Strings(), string(j.Report.Class), string(quantity),
+		}{set.Strings(), string(prove.FormOf(j.Certificate).Class), string(quantity),
 			ends(bounds.Enclosure{Lo: claimed.Lo, Hi: claimed.Hi}, digits), ends(j.Certified, digits),
 			j.K(), verdict, strings.TrimSpace(reason), res.Elapsed.Seconds()})
 		return code

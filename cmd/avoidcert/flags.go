@@ -42,12 +42,18 @@ func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 	}
 }
 
+// parseSet is the engine's reading of pattern arguments. It is a variable
+// so that a test can give it a fault and show that the checker, which
+// reads the typed arguments with its own parser (prove.Options.Typed),
+// then refuses rather than answering for the misread set.
+var parseSet = pattern.ParseSet
+
 // parsePatterns reads the pattern set from positional arguments.
 func parsePatterns(cmd string, args []string) (pattern.Set, error) {
 	if len(args) == 0 {
 		return pattern.Set{}, usagef("%s: no pattern given; name at least one, e.g. 'avoidcert %s 132'", cmd, cmd)
 	}
-	s, err := pattern.ParseSet(args)
+	s, err := parseSet(args)
 	if err != nil {
 		return pattern.Set{}, usagef("%s: %v", cmd, err)
 	}

@@ -114,7 +114,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 			cctx, cancel = context.WithTimeout(ctx, time.Duration(timeout))
 			defer cancel()
 		}
-		c, err := prob.Certify(cctx, set, *n, *relWidth, prove.Options{})
+		c, err := prob.Certify(cctx, set, *n, *relWidth, prove.Options{Typed: pos})
 		if err != nil {
 			return failure(e, err)
 		}

@@ -3,11 +3,13 @@ package main
 import (
 	"bytes"
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"os"
 
 	"avoidcert/internal/input"
+	"avoidcert/prove"
 	"avoidcert/report"
 )
 
@@ -18,15 +20,25 @@ func init() {
 
 Each INPUT is a certificate (format version 3), the output of
 'avoidcert gate --json' (one JSON object per line), or a census folder
-(census.json and its certificates). For a census: the classes by lambda with
-their certified ranges, count groups and order, every certificate's SHA-256
-compared and the certificate re-checked, and a figure of lambda by class with
-the ranges as bars and the count groups marked. For a gate: its verdicts as
-recorded, with their evidence and certificates. For a certificate: the pattern
-set, the certified range of lambda and 1/lambda, the explicit bound for every
-n >= n0, the asymptotic form, the certificate's SHA-256 and the command that
-re-checks it. Each certificate is re-verified by the independent checker
-first; one it refuses stops the report (exit 1).
+(census.json and its certificates). Everything stated as certified or proved
+is read from certificates the independent checker accepted while the report
+is made, never from the input files' own numbers.
+
+For a census: every row is verified against its own certificate (read inside
+the folder, matching its SHA-256, accepted by the checker for the row's
+class): its lambda and 1/lambda ranges, structure class and form must be the
+certificate's, its counts the checker's own, and the order and count groups
+are derived again; then the classes by lambda, the groups and the order, and
+a figure of lambda by class with the ranges as bars. A row that differs, a
+certificate of another class, or a path that leaves the folder stops the
+report (exit 1, naming the row and the field). For a gate: its verdicts
+restated as recorded, not re-checked (the lines hold no claimed values to
+judge again), with the commands that check its certificates; a line with a
+verdict or kind the gate never writes is refused (exit 2). For a
+certificate: the pattern set, the certified range of lambda and 1/lambda,
+the explicit bound for every n >= n0, the asymptotic form, the certificate's
+SHA-256 and the command that re-checks it; one the checker refuses stops
+the report (exit 1).
 
   md    Markdown, with the figures' data as tables
   html  a standalone page (inline SVG figures, nothing fetched from the
@@ -43,10 +55,12 @@ Flags:
   --out FILE   write there (atomically; a folder, device or FIFO is
                refused) instead of standard output
 
-Exit codes: 0 success, 1 a certificate the checker refuses, 2 bad input (a
-file that cannot be read or is no certificate; only regular files within the
-limits of the README's "Input limits" are read), 4 interrupted (Ctrl-C or
-SIGTERM) or out of space.
+Exit codes: 0 success, 1 a certificate the checker refuses or a census row
+it does not support, 2 bad input (a file that cannot be read, is no
+certificate, census or gate output; only regular files within the limits of
+the README's "Input limits" are read), 3 a certificate over the checker's
+memory or work limit (undecided), 4 interrupted (Ctrl-C or SIGTERM) or out of
+space.
 `,
 		run: runReport,
 	}
@@ -81,6 +95,8 @@ func runReport(ctx context.Context, e *env, args []string) int {
 		case report.IsRefused(err):
 			fmt.Fprintf(e.stderr, "avoidcert: report: %v\n", err)
 			return exitFailed
+		case errors.Is(err, prove.ErrBudget):
+			return failure(e, fmt.Errorf("report: %w", err))
 		default:
 			return failure(e, usagef("report: %v", err))
 		}

@@ -2,6 +2,8 @@ package main
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"io"
 	"os"
@@ -14,6 +16,8 @@ import (
 	"time"
 
 	"github.com/rogpeppe/go-internal/testscript"
+
+	"avoidcert/pattern"
 )
 
 // TestMain lets the test binary act as the real avoidcert command inside
@@ -22,13 +26,38 @@ import (
 // (tests start it as a child process to kill it).
 func TestMain(m *testing.M) {
 	if os.Getenv("AVOIDCERT_TEST_AS_COMMAND") == "1" {
+		injectFault()
 		os.Exit(runProcess())
 	}
 	testscript.Main(m, map[string]func(){
 		"avoidcert": func() {
+			injectFault()
 			os.Exit(runProcess())
 		},
 	})
+}
+
+// injectFault gives the command, in tests only, the fault that
+// AVOIDCERT_TEST_FAULT names: "drop-last-token" makes the engine's parser
+// drop the last pattern of every comma list, so that the scripts can show
+// the checker refusing to answer for the set the engine misread.
+func injectFault() {
+	switch os.Getenv("AVOIDCERT_TEST_FAULT") {
+	case "":
+	case "drop-last-token":
+		parseSet = func(args []string) (pattern.Set, error) {
+			var misread []string
+			for _, a := range args {
+				if i := strings.LastIndex(a, ","); i >= 0 {
+					a = a[:i]
+				}
+				misread = append(misread, a)
+			}
+			return pattern.ParseSet(misread)
+		}
+	default:
+		panic("unknown AVOIDCERT_TEST_FAULT " + os.Getenv("AVOIDCERT_TEST_FAULT"))
+	}
 }
 
 // TestScripts runs testdata/script/*.txtar. Each script states the command
@@ -45,6 +74,7 @@ func TestScripts(t *testing.T) {
 			"mkfifo":    mkfifoCmd,
 			"tempfile":  tempfileCmd,
 			"repeat":    repeatCmd,
+			"sha256":    sha256Cmd,
 		},
 	})
 }
@@ -64,6 +94,20 @@ func replaceCmd(ts *testscript.TestScript, neg bool, args []string) {
 		ts.Fatalf("replace: %q not found in %s", args[1], args[0])
 	}
 	ts.Check(os.WriteFile(path, bytes.Replace(data, old, []byte(args[2]), 1), 0o644))
+}
+
+// sha256Cmd is the script command "sha256 FILE VAR": it sets the
+// environment variable VAR to the SHA-256 of FILE in hex, so that a
+// script can forge a census row that names another file by its true
+// digest.
+func sha256Cmd(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) != 2 {
+		ts.Fatalf("usage: sha256 FILE VAR")
+	}
+	data, err := os.ReadFile(ts.MkAbs(args[0]))
+	ts.Check(err)
+	sum := sha256.Sum256(data)
+	ts.Setenv(args[1], hex.EncodeToString(sum[:]))
 }
 
 // exitsCmd is "exits CODE PROG ARGS...": it runs the command like exec

@@ -6,7 +6,9 @@ import (
 	"io"
 	"strings"
 
+	"avoidcert/certify"
 	"avoidcert/pattern"
+	"avoidcert/prove"
 	"avoidcert/structure"
 )
 
@@ -73,24 +75,8 @@ func runStructure(ctx context.Context, e *env, args []string) int {
 	return exitOK
 }
 
-// classLine is the one-line verdict that structure and bound both print.
-func classLine(rep *structure.Report) string {
-	switch rep.Class {
-	case structure.Primitive:
-		return fmt.Sprintf("primitive, exponent %d: a_n/n! = c lambda^n (1 + O(theta^n)) with c > 0, theta < 1", rep.Exponent)
-	case structure.Periodic:
-		return fmt.Sprintf("periodic, period %d: a_n/n! = lambda^n (c_(n mod %d) + o(1)) with constants c_r >= 0 (proved); one constant for every n is not proved; lambda bracketed through T^%d",
-			rep.Period, rep.Period, rep.Period)
-	case structure.Reducible:
-		return "reducible: lambda is the largest over the strongly connected blocks"
-	case structure.Finite:
-		return fmt.Sprintf("finite: a_n = 0 for every n >= %d", rep.N1)
-	case structure.Subexponential:
-		return "subexponential: lambda = 0 proved, a_n > 0 for every n"
-	default:
-		return "undecided within the limits"
-	}
-}
+// classLine is the one-line verdict of the structure pass.
+func classLine(rep *structure.Report) string { return prove.FormOfReport(rep).Words() }
 
 func writeStructureJSON(e *env, rep *structure.Report, withWitnesses bool) {
 	type witness struct {
@@ -116,7 +102,7 @@ func writeStructureJSON(e *env, rep *structure.Report, withWitnesses bool) {
 		Cells: rep.Cells, Windows: rep.Windows, Components: len(rep.Digraph.Components),
 		Exact: rep.Exact, Explanation: rep.Explanation,
 	}
-	out.Period, out.Exponent = periodExponent(rep)
+	out.Period, out.Exponent = periodExponent(prove.FormOfReport(rep))
 	if rep.Class == structure.Finite {
 		out.N1 = &rep.N1
 	}
@@ -134,14 +120,14 @@ func writeStructureJSON(e *env, rep *structure.Report, withWitnesses bool) {
 }
 
 // periodExponent returns the period (1 for primitive sets) and the
-// exponent of a report, nil where they do not apply.
-func periodExponent(rep *structure.Report) (period, exponent *int) {
-	switch rep.Class {
-	case structure.Primitive:
+// exponent of a form, nil where they do not apply.
+func periodExponent(f prove.Form) (period, exponent *int) {
+	switch f.Class {
+	case certify.ClassPrimitive:
 		one := 1
-		return &one, &rep.Exponent
-	case structure.Periodic:
-		return &rep.Period, nil
+		return &one, &f.Exponent
+	case certify.ClassPeriodic:
+		return &f.Period, nil
 	}
 	return nil, nil
 }

@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/big"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"avoidcert/bounds"
@@ -227,6 +228,15 @@ func TestParsingAgrees(t *testing.T) {
 		}
 		if got, want := canonical, set.Canonical().Strings(); !equal(got, want) {
 			t.Fatalf("%v: canonical %v, pattern gives %v", given, got, want)
+		}
+		// The same tokens typed as one comma list, as the commands hand
+		// them to the checker.
+		typed := []string{strings.Join(given, ",")}
+		if again, err := pattern.ParseSet(typed); err != nil || !equal(again.Strings(), set.Strings()) {
+			t.Fatalf("%v: pattern reads the comma list as %v, %v", typed, again.Strings(), err)
+		}
+		if got, err := certify.ParsePatterns(typed); err != nil || !equal(got, set.Strings()) {
+			t.Fatalf("%v: the checker reads the comma list as %v, %v; pattern gives %v", typed, got, err, set.Strings())
 		}
 	}
 }

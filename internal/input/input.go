@@ -7,6 +7,7 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"path/filepath"
 
 	"avoidcert/certify"
 	"avoidcert/internal/brief"
@@ -15,14 +16,14 @@ import (
 
 // Kind is a kind of input and the most bytes read of one.
 type Kind struct {
-	Name  string // in messages: "certificate", "claims manifest", ...
+	Name  string // in messages: "certificate file", "claims manifest", ...
 	Limit int64  // bytes
 }
 
 // The kinds of input and their limits (README, "Input limits").
 var (
 	// Certificate is a certificate file: the checker's own limit.
-	Certificate = Kind{"certificate", certify.MaxFileSize}
+	Certificate = Kind{"certificate file", certify.MaxFileSize}
 	// Manifest is a claims manifest (TOML).
 	Manifest = Kind{"claims manifest", 2 << 20}
 	// Census is a census folder's census.json: a census of length 8
@@ -32,11 +33,11 @@ var (
 	// or the run's parameters.
 	JournalEntry = Kind{"census journal entry", 1 << 20}
 	// GateLines is the output of 'avoidcert gate --json'.
-	GateLines = Kind{"gate output", 64 << 20}
+	GateLines = Kind{"gate output file", 64 << 20}
 	// ReportInput is a file given to 'avoidcert report': a certificate or a
 	// gate's JSON lines, told apart after reading (a certificate among them
 	// is still held to Certificate's limit by its reader).
-	ReportInput = Kind{"certificate or gate output", GateLines.Limit}
+	ReportInput = Kind{"certificate or gate output file", GateLines.Limit}
 )
 
 // Error is a refused input: the file, and the problem with what to do.
@@ -61,19 +62,33 @@ const chunk = 1 << 20
 // other file is refused at once with an *Error; a cancelled context ends
 // the read with ctx.Err().
 func ReadFile(ctx context.Context, path string, k Kind) ([]byte, error) {
+	return read(ctx, path, os.Stat, openNoWait, k)
+}
+
+// ReadIn is ReadFile for name inside root: a name that leads out of the
+// root (by "..", an absolute path or a symbolic link) is refused by the
+// root itself. Messages name the file as root's name joined with name.
+func ReadIn(ctx context.Context, root *os.Root, name string, k Kind) ([]byte, error) {
+	open := func(string) (*os.File, error) { return root.OpenFile(name, os.O_RDONLY|nonBlocking, 0) }
+	stat := func(string) (fs.FileInfo, error) { return root.Stat(name) }
+	return read(ctx, filepath.Join(root.Name(), name), stat, open, k)
+}
+
+// read is ReadFile with its way to look at and to open the file.
+func read(ctx context.Context, path string, stat func(string) (fs.FileInfo, error), open func(string) (*os.File, error), k Kind) ([]byte, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
 	// Look before opening: opening a FIFO for reading waits for a writer,
 	// and opening a device can have effects of its own.
-	info, err := os.Stat(path)
+	info, err := stat(path)
 	if err != nil {
 		return nil, statError(path, k, err)
 	}
 	if err := fits(path, k, info); err != nil {
 		return nil, err
 	}
-	f, err := openNoWait(path)
+	f, err := open(path)
 	if err != nil {
 		return nil, statError(path, k, err)
 	}
@@ -163,9 +178,9 @@ func readBounded(ctx context.Context, r io.Reader, limit int64, size int) ([]byt
 func fits(path string, k Kind, info fs.FileInfo) error {
 	switch {
 	case info.IsDir():
-		return refuse(path, nil, "is a folder; name a %s file", k.Name)
+		return refuse(path, nil, "is a folder; name a %s", k.Name)
 	case !info.Mode().IsRegular():
-		return refuse(path, nil, "is a %s, not a regular file, and is never read; name a %s file", TypeName(info.Mode()), k.Name)
+		return refuse(path, nil, "is a %s, not a regular file, and is never read; name a %s", TypeName(info.Mode()), k.Name)
 	case info.Size() > k.Limit:
 		return tooLarge(path, k)
 	}
@@ -178,7 +193,7 @@ func tooLarge(path string, k Kind) *Error {
 
 func statError(path string, k Kind, err error) *Error {
 	if errors.Is(err, fs.ErrNotExist) {
-		return refuse(path, fs.ErrNotExist, "does not exist; name a %s file", k.Name)
+		return refuse(path, fs.ErrNotExist, "does not exist; name a %s", k.Name)
 	}
 	return refuse(path, err, "cannot be read (%s); check the path and its permissions", reason(err))
 }

@@ -50,7 +50,7 @@ func TestReadFileRefuses(t *testing.T) {
 		{fifo, "is a FIFO (named pipe), not a regular file"},
 		{"/dev/zero", "is a character device, not a regular file"},
 		{zeroLink, "is a character device, not a regular file"},
-		{dir, "is a folder; name a test file file"},
+		{dir, "is a folder; name a test file"},
 		{filepath.Join(dir, "missing"), "does not exist"},
 	} {
 		start := time.Now()
@@ -66,6 +66,41 @@ func TestReadFileRefuses(t *testing.T) {
 	_, err := ReadFile(context.Background(), filepath.Join(dir, "missing"), small)
 	if !errors.Is(err, fs.ErrNotExist) {
 		t.Errorf("a missing file's error %v does not match fs.ErrNotExist", err)
+	}
+}
+
+// ReadIn reads inside a root with the same refusals, and a name that
+// leads out of the root is refused by the root.
+func TestReadIn(t *testing.T) {
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "f"), []byte("inside"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := syscall.Mkfifo(filepath.Join(dir, "pipe"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink("/dev/zero", filepath.Join(dir, "zero")); err != nil {
+		t.Fatal(err)
+	}
+	root, err := os.OpenRoot(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer root.Close()
+	got, err := ReadIn(context.Background(), root, "f", small)
+	if err != nil || string(got) != "inside" {
+		t.Fatalf("ReadIn = %q, %v", got, err)
+	}
+	for name, want := range map[string]string{
+		"pipe":    "pipe\" is a FIFO",
+		"zero":    "cannot be read", // a link out of the root
+		"../x":    "cannot be read",
+		"missing": "does not exist",
+	} {
+		_, err := ReadIn(context.Background(), root, name, small)
+		if err == nil || !strings.Contains(err.Error(), want) {
+			t.Errorf("ReadIn(%s): %v, want %q", name, err, want)
+		}
 	}
 }
 

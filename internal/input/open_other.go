@@ -4,6 +4,9 @@ package input
 
 import "os"
 
-// openNoWait opens path for reading; where there is no O_NONBLOCK the look
-// before the open is the only guard.
+// nonBlocking is no flag here: where there is no O_NONBLOCK the look before
+// the open is the only guard.
+const nonBlocking = 0
+
+// openNoWait opens path for reading.
 func openNoWait(path string) (*os.File, error) { return os.Open(path) }
