@@ -9,6 +9,7 @@ import (
 	"time"
 
 	"avoidcert/certify"
+	"avoidcert/internal/par"
 	"avoidcert/pattern"
 )
 
@@ -149,7 +150,7 @@ func Run(ctx context.Context, opts Options) (*Report, error) {
 	if opts.Shard.Whole() {
 		opts.Shard = Shard{}
 	}
-	j, err := openJournal(opts.Dir, opts.Params, opts.Shard)
+	j, err := openJournal(ctx, opts.Dir, opts.Params, opts.Shard)
 	if err != nil {
 		return nil, err
 	}
@@ -198,6 +199,7 @@ func runClasses(ctx context.Context, opts Options, j *journal, todo []pattern.Cl
 		mu       sync.Mutex
 		firstErr error
 		wg       sync.WaitGroup
+		panicked par.PanicBox
 	)
 	fail := func(err error) {
 		mu.Lock()
@@ -211,6 +213,11 @@ func runClasses(ctx context.Context, opts Options, j *journal, todo []pattern.Cl
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			defer func() {
+				if panicked.Caught(recover()) {
+					cancel() // the others stop; Raise reports it below
+				}
+			}()
 			for c := range work {
 				row, err := certifyClass(ctx, opts, j, c)
 				if err != nil {
@@ -238,6 +245,7 @@ feed:
 	}
 	close(work)
 	wg.Wait()
+	panicked.Raise()
 	if firstErr != nil {
 		return firstErr
 	}

@@ -144,7 +144,7 @@ func TestRunWritesTablesAndCertificates(t *testing.T) {
 			t.Error(err)
 		}
 	}
-	back, err := ReadReport(dir)
+	back, err := ReadReport(context.Background(), dir)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -228,7 +228,7 @@ func TestRunRefusesAFolderOfAnotherCensus(t *testing.T) {
 
 func TestRunRefusesASecondRunOnTheFolder(t *testing.T) {
 	dir := t.TempDir()
-	j, err := openJournal(dir, Params{Length: 3, To: 9, Digits: 5}, Shard{})
+	j, err := openJournal(context.Background(), dir, Params{Length: 3, To: 9, Digits: 5}, Shard{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -281,7 +281,7 @@ func TestMergeRefusals(t *testing.T) {
 	}
 	unfinished := t.TempDir()
 	dropped := shards(t, 4, 3)[0]
-	rep, err := ReadReport(dropped)
+	rep, err := ReadReport(context.Background(), dropped)
 	if err != nil {
 		t.Fatal(err)
 	}

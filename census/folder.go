@@ -1,11 +1,14 @@
 package census
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io/fs"
 	"os"
 	"path/filepath"
+
+	"avoidcert/internal/input"
 )
 
 // folder is a census folder opened so that every path read through it
@@ -68,16 +71,24 @@ func (f *folder) linksOut(local string) bool {
 	return err != nil || !filepath.IsLocal(rel)
 }
 
-// read returns the file rel of the folder. A path that leaves the folder
-// is a *RefusedError naming it; a missing file wraps fs.ErrNotExist.
-func (f *folder) read(rel string) ([]byte, error) {
+// read returns the file rel of the folder, a regular file of at most k's
+// size limit (internal/input). A path that leaves the folder is a
+// *RefusedError naming it; a missing file wraps fs.ErrNotExist; a FIFO, a
+// device or a file over the limit is an *InputError (never waited on, never
+// read whole); a cancelled ctx returns ctx.Err().
+func (f *folder) read(ctx context.Context, rel string, k input.Kind) ([]byte, error) {
 	if why := f.escape(rel); why != "" {
 		return nil, refusedf("%s names %s; a census refers only to files inside its folder", f.dir, why)
 	}
-	data, err := f.root.ReadFile(filepath.FromSlash(rel))
+	data, err := input.ReadIn(ctx, f.root, filepath.FromSlash(rel), k)
+	var refused *input.Error
 	switch {
+	case ctx.Err() != nil:
+		return nil, ctx.Err()
 	case errors.Is(err, fs.ErrNotExist):
 		return nil, fmt.Errorf("%s is missing: %w", f.path(rel), fs.ErrNotExist)
+	case errors.As(err, &refused):
+		return nil, inputErrorf("%v", err)
 	case err != nil:
 		return nil, fmt.Errorf("cannot read %s inside the census folder (%v)", f.path(rel), err)
 	}

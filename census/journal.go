@@ -14,6 +14,8 @@ import (
 	"slices"
 
 	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/filelock"
+	"avoidcert/internal/input"
 	"avoidcert/pattern"
 )
 
@@ -55,7 +57,7 @@ type journal struct {
 	unlock func()
 }
 
-func openJournal(dir string, params Params, shard Shard) (*journal, error) {
+func openJournal(ctx context.Context, dir string, params Params, shard Shard) (*journal, error) {
 	for _, d := range []string{dir, filepath.Join(dir, journalDir), filepath.Join(dir, certificateDir)} {
 		if err := os.MkdirAll(d, 0o755); err != nil {
 			return nil, inputErrorf("cannot create the census folder %s: %v; choose another --out", d, err)
@@ -71,10 +73,14 @@ func openJournal(dir string, params Params, shard Shard) (*journal, error) {
 			return nil, err
 		}
 	}
-	unlock, err := lockFolder(filepath.Join(dir, journalDir, lockFile))
-	if err != nil {
+	unlock, err := filelock.Lock(filepath.Join(dir, journalDir, lockFile))
+	switch {
+	case errors.Is(err, filelock.ErrHeld):
 		f.close()
-		return nil, inputErrorf("%s is in use by another census run (%v); wait for it or choose another --out", dir, err)
+		return nil, inputErrorf("%s is in use by another census run; wait for it or choose another --out", dir)
+	case err != nil:
+		f.close()
+		return nil, inputErrorf("cannot lock %s: %v; choose another --out", dir, err)
 	}
 	j := &journal{dir: dir, folder: f, params: params, unlock: func() { unlock(); f.close() }}
 	ok := false
@@ -99,8 +105,10 @@ func openJournal(dir string, params Params, shard Shard) (*journal, error) {
 		return nil, err
 	}
 	path := filepath.Join(dir, journalDir, paramsFile)
-	have, err := f.read(journalDir + "/" + paramsFile)
+	have, err := f.read(ctx, journalDir+"/"+paramsFile, input.JournalEntry)
 	switch {
+	case ctx.Err() != nil:
+		return nil, ctx.Err()
 	case errors.Is(err, fs.ErrNotExist):
 		if err := atomicfile.WriteFile(path, wantBytes, 0o644); err != nil {
 			return nil, err
@@ -150,14 +158,14 @@ func (j *journal) record(row Row, certificate []byte, seconds float64) (Row, err
 	row.Certificate = certificateDir + "/" + row.Representative + ".json"
 	row.CertificateSHA256 = hex.EncodeToString(sum[:])
 	if err := atomicfile.WriteFile(j.folder.path(row.Certificate), certificate, 0o644); err != nil {
-		return Row{}, fmt.Errorf("writing the certificate: %v", err)
+		return Row{}, fmt.Errorf("writing the certificate: %w", err)
 	}
 	data, err := marshal(record{Row: row, Seconds: seconds})
 	if err != nil {
 		return Row{}, err
 	}
 	if err := atomicfile.WriteFile(j.recordPath(row.Representative), data, 0o644); err != nil {
-		return Row{}, fmt.Errorf("writing the journal: %v", err)
+		return Row{}, fmt.Errorf("writing the journal: %w", err)
 	}
 	return row, nil
 }
@@ -171,15 +179,18 @@ func (j *journal) finished(ctx context.Context, classes []pattern.Class, check C
 	var rows []Row
 	for _, c := range classes {
 		rep := c.Representative.String()
-		data, err := j.folder.read(journalDir + "/" + rep + ".json")
+		data, err := j.folder.read(ctx, journalDir+"/"+rep+".json", input.JournalEntry)
 		if errors.Is(err, fs.ErrNotExist) {
 			continue
+		}
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
 		}
 		if err != nil {
 			return nil, inputErrorf("journal record %s: %v; remove it to redo the class", j.recordPath(rep), err)
 		}
 		var rec record
-		if err := json.Unmarshal(data, &rec); err != nil {
+		if err := decodeJSON(data, &rec); err != nil {
 			return nil, inputErrorf("journal record %s is not readable (%v): it was changed by hand; remove it to redo the class", j.recordPath(rep), err)
 		}
 		row := rec.Row
@@ -221,6 +232,15 @@ func (r Row) fits(c pattern.Class, params Params) error {
 		return fmt.Errorf("%d counts, want a_0..a_%d", len(r.Counts), params.To)
 	}
 	return nil
+}
+
+// decodeJSON reads a JSON file the census wrote into v, refusing nesting
+// deeper than any such file has before the decoder sees it.
+func decodeJSON(data []byte, v any) error {
+	if err := input.CheckJSON(data); err != nil {
+		return err
+	}
+	return json.Unmarshal(data, v)
 }
 
 // marshal is the one JSON layout of every file the census writes:

@@ -11,6 +11,7 @@ import (
 	"path/filepath"
 
 	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/input"
 )
 
 // Merge combines the finished shards in dirs into the whole census in
@@ -37,7 +38,7 @@ func Merge(ctx context.Context, out string, dirs []string, check Checker, jobs i
 		stated = make([]*Report, len(dirs))
 	)
 	for k, dir := range dirs {
-		rep, err := ReadReport(dir)
+		rep, err := ReadReport(ctx, dir)
 		if err != nil {
 			return nil, err
 		}
@@ -122,28 +123,36 @@ func verifyShard(ctx context.Context, dir string, check Checker, jobs int) (*Rep
 
 // ReadReport reads a folder's census.json strictly: the format, every
 // member known, every number well formed. It returns an *InputError for
-// a file that is missing or not a census. It verifies nothing against
-// the certificates: what it returns is untrusted (see Verify).
-func ReadReport(dir string) (*Report, error) {
+// a file that is missing, not a census, not a regular file or over
+// input.Census's size limit, and ctx.Err() when ctx is cancelled. It
+// verifies nothing against the certificates: what it returns is untrusted
+// (see Verify).
+func ReadReport(ctx context.Context, dir string) (*Report, error) {
 	f, err := openFolder(dir)
 	if err != nil {
 		return nil, err
 	}
 	defer f.close()
-	return readReport(f)
+	return readReport(ctx, f)
 }
 
-func readReport(f *folder) (*Report, error) {
+func readReport(ctx context.Context, f *folder) (*Report, error) {
 	dir := f.dir
-	data, err := f.read(JSONFile)
+	data, err := f.read(ctx, JSONFile, input.Census)
 	var refused *RefusedError
+	var in *InputError
 	switch {
+	case ctx.Err() != nil:
+		return nil, ctx.Err()
 	case errors.Is(err, fs.ErrNotExist):
 		return nil, inputErrorf("%s has no %s: the shard is not finished (run it again with the same flags to complete it) or the folder is not a census", dir, JSONFile)
-	case errors.As(err, &refused):
+	case errors.As(err, &refused), errors.As(err, &in):
 		return nil, err
 	case err != nil:
 		return nil, inputErrorf("%v", err)
+	}
+	if err := input.CheckJSON(data); err != nil {
+		return nil, inputErrorf("%s is not a census file: %v", filepath.Join(dir, JSONFile), err)
 	}
 	var rep Report
 	dec := json.NewDecoder(bytes.NewReader(data))

@@ -30,7 +30,7 @@ func writeOutputs(dir string, rep *Report) error {
 		data []byte
 	}{{CSVFile, tableCSV(rep)}, {MarkdownFile, tableMarkdown(rep)}, {JSONFile, js}} {
 		if err := atomicfile.WriteFile(filepath.Join(dir, f.name), f.data, 0o644); err != nil {
-			return fmt.Errorf("writing %s: %v", f.name, err)
+			return fmt.Errorf("writing %s: %w", f.name, err)
 		}
 	}
 	return nil

@@ -12,6 +12,8 @@ import (
 	"sync"
 
 	"avoidcert/certify"
+	"avoidcert/internal/input"
+	"avoidcert/internal/par"
 	"avoidcert/pattern"
 	"avoidcert/prove"
 )
@@ -85,8 +87,14 @@ func verifyRow(ctx context.Context, f *folder, where string, row Row, to int, ch
 	if want := certificateDir + "/" + row.Representative + ".json"; row.Certificate != want {
 		return refuse("certificate", "%s is not the class's certificate %s", quoteShort(row.Certificate), want)
 	}
-	data, err := f.read(row.Certificate)
-	if err != nil {
+	data, err := f.read(ctx, row.Certificate, input.Certificate)
+	var in *InputError
+	switch {
+	case ctx.Err() != nil:
+		return nil, ctx.Err()
+	case errors.As(err, &in):
+		return nil, err // a FIFO, a device, a file over the limit: bad input, not a forgery
+	case err != nil:
 		return refuse("certificate", "%v", err)
 	}
 	if sum := sha256.Sum256(data); hex.EncodeToString(sum[:]) != row.CertificateSHA256 {
@@ -158,14 +166,22 @@ func verifyRows(ctx context.Context, f *folder, where string, rows []Row, to, jo
 }
 
 // inParallel calls do(i) for i = 0..n-1 on up to jobs goroutines and
-// returns when every call has.
+// returns when every call has. A panic in a call is raised again here
+// (par.PanicBox), once the others are done.
 func inParallel(n, jobs int, do func(i int)) {
 	next := make(chan int)
 	var wg sync.WaitGroup
+	var panicked par.PanicBox
 	for range max(jobs, 1) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			defer func() {
+				if panicked.Caught(recover()) {
+					for range next { // let the feeder finish
+					}
+				}
+			}()
 			for i := range next {
 				do(i)
 			}
@@ -176,6 +192,7 @@ func inParallel(n, jobs int, do func(i int)) {
 	}
 	close(next)
 	wg.Wait()
+	panicked.Raise()
 }
 
 // Verify reads the census (or shard) in dir and returns it once every row
@@ -198,7 +215,7 @@ func Verify(ctx context.Context, dir string, check Checker, jobs int) (*Report, 
 // verifyFolder verifies the census in f and returns the tables its
 // verified rows give, with the certificates' bytes by class.
 func verifyFolder(ctx context.Context, f *folder, check Checker, jobs int) (*Report, map[string][]byte, error) {
-	rep, err := readReport(f)
+	rep, err := readReport(ctx, f)
 	if err != nil {
 		return nil, nil, err
 	}

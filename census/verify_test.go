@@ -18,7 +18,7 @@ import (
 // its report, as a hand (or a forger) would.
 func tamper(t *testing.T, dir string, change func(rep *Report)) {
 	t.Helper()
-	rep, err := ReadReport(dir)
+	rep, err := ReadReport(context.Background(), dir)
 	if err != nil {
 		t.Fatal(err)
 	}

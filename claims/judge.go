@@ -9,6 +9,7 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
+	"avoidcert/internal/brief"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/prove"
@@ -63,11 +64,11 @@ func judgeCounts(ctx context.Context, c Claim, opts prove.Options) (outcome, err
 		for i, claimed := range c.Counts {
 			n := c.From + i
 			if counts[n].Cmp(claimed) != 0 {
-				return outcome{Refuted, fmt.Sprintf("a_%d = %s, not %s (engine and checker agree)", n, counts[n], claimed)}, nil
+				return outcome{Refuted, fmt.Sprintf("a_%d = %s, not %s (engine and checker agree)", n, brief.Digits(counts[n].String()), brief.Digits(claimed.String()))}, nil
 			}
 		}
 		if len(c.Counts) == 1 {
-			return outcome{Proved, fmt.Sprintf("a_%d = %s (engine and checker agree)", c.From, counts[c.From])}, nil
+			return outcome{Proved, fmt.Sprintf("a_%d = %s (engine and checker agree)", c.From, brief.Digits(counts[c.From].String()))}, nil
 		}
 		return outcome{Proved, fmt.Sprintf("a_%d..a_%d all equal (engine and checker agree)", c.From, top)}, nil
 	case KindEqualCounts:
@@ -78,13 +79,18 @@ func judgeCounts(ctx context.Context, c Claim, opts prove.Options) (outcome, err
 		}
 		for n := range counts {
 			if counts[n].Cmp(other[n]) != 0 {
-				return outcome{Refuted, fmt.Sprintf("a_%d differ: %s for %s, %s for %s", n, counts[n], c.Set, other[n], c.Other)}, nil
+				return outcome{Refuted, fmt.Sprintf("a_%d differ: %s for %s, %s for %s", n, brief.Digits(counts[n].String()), c.Set, brief.Digits(other[n].String()), c.Other)}, nil
 			}
 		}
 		return outcome{Proved, fmt.Sprintf("a_n equal for every n <= %d (engine and checker agree); evidence, not a proof, of c-Wilf equivalence", top)}, nil
 	}
 	p := new(big.Rat).SetFrac(counts[c.N], new(big.Int).MulRange(1, int64(c.N)))
-	shown := fmt.Sprintf("a_%d/%d! = %s ~ %s", c.N, c.N, p.RatString(), approx(p))
+	num, den, _ := strings.Cut(p.RatString(), "/")
+	fraction := brief.Digits(num)
+	if den != "" {
+		fraction += "/" + brief.Digits(den)
+	}
+	shown := fmt.Sprintf("a_%d/%d! = %s ~ %s", c.N, c.N, fraction, approx(p))
 	ok := false
 	if c.Exact != nil {
 		ok = p.Cmp(c.Exact) == 0
@@ -94,7 +100,7 @@ func judgeCounts(ctx context.Context, c Claim, opts prove.Options) (outcome, err
 	if ok {
 		return outcome{Proved, shown + " (engine and checker agree)"}, nil
 	}
-	return outcome{Refuted, shown + ", not " + c.Stated}, nil
+	return outcome{Refuted, shown + ", not " + brief.Digits(c.Stated)}, nil
 }
 
 // approx writes r to 10 significant digits, rounded to nearest (a display).
@@ -175,7 +181,7 @@ func growthOutcome(c Claim, q bounds.Enclosure) outcome {
 	case Proved:
 		return outcome{v, shown + ", inside the claim"}
 	case Refuted:
-		return outcome{v, shown + ", outside the claim " + c.Stated}
+		return outcome{v, shown + ", outside the claim " + brief.Digits(c.Stated)}
 	}
 	return outcome{v, shown + " overlaps the claim's ends"}
 }

@@ -1,6 +1,7 @@
 package claims
 
 import (
+	"errors"
 	"fmt"
 	"math/big"
 	"regexp"
@@ -12,7 +13,9 @@ import (
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
+	"avoidcert/internal/brief"
 	"avoidcert/internal/bytesize"
+	"avoidcert/internal/input"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 )
@@ -42,6 +45,10 @@ type Budget struct {
 	MaxN      int           // largest n of a count
 	MaxMemory int64         // bytes, for the engine and the checker each
 }
+
+// MaxClaims is the most claims a manifest may state (README, "Input
+// limits"); the manifest's size and nesting are bounded by internal/input.
+const MaxClaims = 10000
 
 // DefaultBudget is a claim's budget when the manifest sets none.
 var DefaultBudget = Budget{MaxK: certify.MaxN, MaxN: 100, MaxMemory: 4 << 30}
@@ -106,10 +113,10 @@ func (e *Error) Error() string {
 	}
 	b.WriteString(": ")
 	if e.Claim != "" {
-		fmt.Fprintf(&b, "claim %q: ", e.Claim)
+		fmt.Fprintf(&b, "claim %s: ", brief.Quote(e.Claim))
 	}
 	if e.Field != "" {
-		fmt.Fprintf(&b, "field %q: ", e.Field)
+		fmt.Fprintf(&b, "field %s: ", brief.Quote(e.Field))
 	}
 	b.WriteString(e.Msg)
 	return b.String()
@@ -187,19 +194,34 @@ var fields = map[Kind][]string{
 var idPattern = regexp.MustCompile(`^[A-Za-z0-9._-]+$`)
 
 // Parse reads a manifest; file names it in errors. Every fault is an
-// *Error naming the file, the line and the field.
+// *Error naming the file, the line and the field. Before the TOML library
+// sees the text, its size (input.Manifest) and nesting (input.CheckTOML)
+// are checked; after it, the number of claims (MaxClaims).
 func Parse(file string, data []byte) (*Manifest, error) {
+	if int64(len(data)) > input.Manifest.Limit {
+		return nil, &Error{File: file, Msg: fmt.Sprintf("%d bytes, over the limit of %s for a claims manifest; split it into several", len(data), bytesize.Format(input.Manifest.Limit))}
+	}
+	if err := input.CheckTOML(data); err != nil {
+		var ne *input.NestingError
+		if errors.As(err, &ne) {
+			return nil, &Error{File: file, Line: ne.Line, Msg: ne.Msg}
+		}
+		return nil, &Error{File: file, Msg: err.Error()}
+	}
 	var raw rawManifest
 	md, err := toml.Decode(string(data), &raw)
 	if err != nil {
-		e := &Error{File: file, Msg: strings.TrimPrefix(err.Error(), "toml: ")}
+		e := &Error{File: file, Msg: cut(strings.TrimPrefix(err.Error(), "toml: "))}
 		if pe, ok := err.(toml.ParseError); ok {
-			e.Line, e.Msg = pe.Position.Line, pe.Message
+			e.Line, e.Msg = pe.Position.Line, cut(pe.Message)
 			if pe.LastKey != "" {
 				e.Field = pe.LastKey
 			}
 		}
 		return nil, e
+	}
+	if len(raw.Claim) > MaxClaims {
+		return nil, &Error{File: file, Field: "claim", Msg: fmt.Sprintf("%d claims, over the limit of %d; split the manifest into several", len(raw.Claim), MaxClaims)}
 	}
 	loc := locate(data)
 	if und := md.Undecoded(); len(und) > 0 {
@@ -250,6 +272,17 @@ func Parse(file string, data []byte) (*Manifest, error) {
 	return m, nil
 }
 
+// cut keeps the first line of a parser's message, shortened to a few
+// dozen characters more than brief.Most: the library quotes keys and
+// values whole.
+func cut(msg string) string {
+	msg, _, _ = strings.Cut(msg, "\n")
+	if len(msg) > 2*brief.Most {
+		return brief.Quote(msg)
+	}
+	return msg
+}
+
 // fieldError is a fault in one field, located by Parse.
 type fieldError struct{ field, msg string }
 
@@ -260,7 +293,7 @@ func faultf(field, format string, args ...any) *fieldError {
 func parseTimeout(s string) (time.Duration, error) {
 	d, err := time.ParseDuration(s)
 	if err != nil || d <= 0 {
-		return 0, fmt.Errorf("%q is not a positive duration; write e.g. \"90s\" or \"10m\"", s)
+		return 0, fmt.Errorf("%s is not a positive duration; write e.g. \"90s\" or \"10m\"", brief.Quote(s))
 	}
 	return d, nil
 }
@@ -310,14 +343,14 @@ func parseClaim(rc rawClaim, defaults Budget) (Claim, *fieldError) {
 	}
 	c.ID = *rc.ID
 	if !idPattern.MatchString(c.ID) {
-		return c, faultf("id", "%q: use letters, digits, '.', '_' and '-' only (the id names the certificate files)", c.ID)
+		return c, faultf("id", "%s: use letters, digits, '.', '_' and '-' only (the id names the certificate files)", brief.Quote(c.ID))
 	}
 	if rc.Kind == nil {
 		return c, faultf("kind", "missing: say what is claimed, one of %s", kindList())
 	}
 	c.Kind = Kind(*rc.Kind)
 	if !slices.Contains(kinds, c.Kind) {
-		return c, faultf("kind", "unknown kind %q; use one of %s", *rc.Kind, kindList())
+		return c, faultf("kind", "unknown kind %s; use one of %s", brief.Quote(*rc.Kind), kindList())
 	}
 	if rc.Note != nil {
 		c.Note = *rc.Note
@@ -397,7 +430,7 @@ func nonNegative(field string, v *int, dst *int) *fieldError {
 func parseCount(field string, t text) (*big.Int, *fieldError) {
 	v, ok := new(big.Int).SetString(strings.TrimSpace(t.s), 10)
 	if !ok || v.Sign() < 0 {
-		return nil, faultf(field, "%q is not a non-negative integer", t.s)
+		return nil, faultf(field, "%s is not a non-negative integer", brief.Quote(t.s))
 	}
 	return v, nil
 }
@@ -449,7 +482,7 @@ func (c *Claim) decimalClaim(rc rawClaim) *fieldError {
 		case "truncated":
 			truncated = true
 		default:
-			return faultf("reading", "%q: say \"rounded\" (the default) or \"truncated\"", *rc.Reading)
+			return faultf("reading", "%s: say \"rounded\" (the default) or \"truncated\"", brief.Quote(*rc.Reading))
 		}
 	}
 	lo, hi, err := interval.ClaimRange(rc.Value.s, truncated)
@@ -468,7 +501,7 @@ func (c *Claim) parseGrowth(rc rawClaim) *fieldError {
 	if rc.Of != nil {
 		q, err := bounds.ParseQuantity(*rc.Of)
 		if err != nil {
-			return faultf("of", "%q: say \"lambda\" (the default) or \"radius\"", *rc.Of)
+			return faultf("of", "%s: say \"lambda\" (the default) or \"radius\"", brief.Quote(*rc.Of))
 		}
 		c.Of = q
 	}
@@ -507,7 +540,7 @@ func (c *Claim) parseForm(rc rawClaim) *fieldError {
 		return faultf("form", "missing: one of %s", strings.Join(Forms, ", "))
 	}
 	if !slices.Contains(Forms, *rc.Form) {
-		return faultf("form", "unknown form %q; use one of %s", *rc.Form, strings.Join(Forms, ", "))
+		return faultf("form", "unknown form %s; use one of %s", brief.Quote(*rc.Form), strings.Join(Forms, ", "))
 	}
 	c.Form = *rc.Form
 	if rc.Period != nil {
@@ -535,7 +568,7 @@ func (c *Claim) parseProbability(rc rawClaim) *fieldError {
 		}
 		r, ok := new(big.Rat).SetString(strings.TrimSpace(rc.Exact.s))
 		if !ok || r.Sign() < 0 || !strings.Contains(rc.Exact.s, "/") && strings.ContainsAny(rc.Exact.s, ".eE") {
-			return faultf("exact", "%q is not a fraction p/q", rc.Exact.s)
+			return faultf("exact", "%s is not a fraction p/q", brief.Quote(rc.Exact.s))
 		}
 		c.Exact, c.Stated = r, rc.Exact.s
 		return nil

@@ -144,13 +144,25 @@ func TestParseErrors(t *testing.T) {
 	}
 }
 
+// FuzzParse: the manifest parser never panics, accepts no manifest
+// without claims, and every refusal is one short line (values are quoted
+// by their start, never whole) naming the file.
 func FuzzParse(f *testing.F) {
 	f.Add([]byte(everyKind))
 	f.Add([]byte("[[claim]]\nid = \"a\"\nkind = \"count\"\n"))
+	f.Add([]byte("x = {a={b={c={d={e=1}}}}}\n"))
+	f.Add([]byte("a.b.c.d.e = 1\n[[claim]]\n"))
+	f.Add([]byte("[[claim]]\nid = \"g\"\nkind = \"growth\"\npatterns = [\"123\"]\nvalue = \"0.12345678901234567890\"\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		m, err := Parse("fuzz.toml", data)
 		if err == nil && len(m.Claims) == 0 {
 			t.Error("a manifest without claims was accepted")
+		}
+		if err != nil {
+			msg := err.Error()
+			if strings.Contains(msg, "\n") || len(msg) > 600 || !strings.HasPrefix(msg, "fuzz.toml") {
+				t.Errorf("refusal is not one short line naming the file: %q", msg)
+			}
 		}
 	})
 }

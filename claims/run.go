@@ -164,7 +164,7 @@ func judgeCertified(ctx context.Context, c Claim, po prove.Options, opts Options
 func loadChecked(ctx context.Context, cf certified, paths []string, po prove.Options) ([]*certify.Certificate, error) {
 	var certs []*certify.Certificate
 	for i, p := range paths {
-		cert, err := prove.Load(p)
+		cert, err := prove.Load(ctx, p)
 		if err != nil {
 			return nil, err
 		}
@@ -195,19 +195,52 @@ func keep(c Claim, sets []pattern.Set, certs []*certify.Certificate, opts Option
 			ref.Path = cached[i]
 			if fresh {
 				if err := prove.Save(cached[i], cert); err != nil {
-					return nil, fmt.Errorf("cannot write the cache: %v", err)
+					return nil, writeError("the cache entry", cached[i], err)
 				}
 			}
 		}
 		if opts.CertDir != "" {
 			ref.Path = filepath.Join(opts.CertDir, certName(c.ID, i, len(certs)))
 			if err := prove.Save(ref.Path, cert); err != nil {
-				return nil, fmt.Errorf("cannot keep the certificate: %v", err)
+				return nil, writeError("the kept certificate", ref.Path, err)
 			}
 		}
 		refs = append(refs, ref)
 	}
 	return refs, nil
+}
+
+// Files lists every file a run of the manifest may read or replace: each
+// certificate claim's cache entries (when opts.CacheDir is set) and kept
+// certificates (when opts.CertDir is set). A caller checks them before the
+// run, so that a FIFO or a device at one of these paths is refused at once.
+func (m *Manifest) Files(opts Options) []string {
+	var paths []string
+	for _, c := range m.Claims {
+		if c.Kind == KindCount || c.Kind == KindEqualCounts || c.Kind == KindProbability {
+			continue // no certificate
+		}
+		n := len(certifiedFor(c).sets)
+		if opts.CacheDir != "" {
+			paths = append(paths, cachePaths(opts.CacheDir, c, n)...)
+		}
+		if opts.CertDir != "" {
+			for i := range n {
+				paths = append(paths, filepath.Join(opts.CertDir, certName(c.ID, i, n)))
+			}
+		}
+	}
+	return paths
+}
+
+// writeError says which file could not be written and the system's reason
+// ("no space left on device"), without the temp file's name.
+func writeError(what, path string, err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		err = pe.Err
+	}
+	return fmt.Errorf("cannot write %s %s: %w", what, path, err)
 }
 
 // certName is "ID.json", or "ID.1.json" and "ID.2.json" for the two

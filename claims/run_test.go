@@ -294,7 +294,7 @@ func TestCache(t *testing.T) {
 		}
 	}
 	tamperStatement := func() {
-		c, err := prove.Load(path)
+		c, err := prove.Load(context.Background(), path)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -305,7 +305,7 @@ func TestCache(t *testing.T) {
 		if err := prove.Save(path, c); err != nil {
 			t.Fatal(err)
 		}
-		if _, err := prove.Load(path); err != nil {
+		if _, err := prove.Load(context.Background(), path); err != nil {
 			t.Fatalf("the re-digested certificate should read: %v", err)
 		}
 	}

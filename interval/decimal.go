@@ -5,6 +5,8 @@ import (
 	"math"
 	"math/big"
 	"strings"
+
+	"avoidcert/internal/brief"
 )
 
 // maxExponent bounds the decimal exponent ParseDecimal accepts, so that a
@@ -14,6 +16,15 @@ import (
 // DecimalDown and DecimalUp print for an accepted value parses back (both
 // bounds are powers of ten, so outward rounding never crosses them).
 const maxExponent = 10000
+
+// MaxDigits bounds the digits written in a decimal that ParseDecimal and
+// ClaimRange accept. A claimed end near the growth rate enters the
+// certificate that decides the claim as an exact fraction, and a
+// certificate's numbers have at most 4096 characters (certify), which a
+// fraction of a decimal of about 2,040 digits exceeds; 1000 digits keep
+// every such fraction well inside, and beyond the 995 digits a bracket
+// can be asked for.
+const MaxDigits = 1000
 
 // DecimalDown returns the largest decimal with at most digits significant
 // digits that is <= r. It panics if digits < 1.
@@ -202,7 +213,8 @@ type decimalLiteral struct {
 
 // ParseDecimal returns the exact value of a decimal literal: an optional sign,
 // digits with at most one decimal point (".5" and "5." are accepted), and an
-// optional exponent introduced by e or E ("1.2e-3", "7E+2"). The exponent must
+// optional exponent introduced by e or E ("1.2e-3", "7E+2"), with at most
+// MaxDigits digits before the exponent. The exponent must
 // lie in [-10000, 10000], and a non-zero value in [1e-10000, 1e10000] in
 // magnitude ("100e9999" is refused). Spaces, hexadecimal, "inf" and "nan" are refused;
 // every refusal names the fault.
@@ -216,7 +228,7 @@ func ParseDecimal(s string) (*big.Rat, error) {
 
 func parseDecimal(s string) (decimalLiteral, error) {
 	fail := func(format string, args ...any) (decimalLiteral, error) {
-		return decimalLiteral{}, fmt.Errorf("interval: cannot read %q as a decimal number: %s", s, fmt.Sprintf(format, args...))
+		return decimalLiteral{}, fmt.Errorf("interval: cannot read %s as a decimal number: %s", brief.Quote(s), fmt.Sprintf(format, args...))
 	}
 	if s == "" {
 		return fail("empty text; write a number such as 0.83 or 1.2e-3")
@@ -251,6 +263,9 @@ func parseDecimal(s string) (decimalLiteral, error) {
 	}
 	if mantissa.Len() == 0 {
 		return fail("no digits before the exponent or end")
+	}
+	if mantissa.Len() > MaxDigits {
+		return fail("%d digits, over the limit of %d digits of a decimal", mantissa.Len(), MaxDigits)
 	}
 	exp := 0
 	if i < len(s) {

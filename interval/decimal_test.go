@@ -173,6 +173,7 @@ func TestParseDecimal(t *testing.T) {
 		{"1e1x", "invalid character 'x' in the exponent"},
 		{"1e99999", "exponent out of range"},
 		{"100E9999", "value is out of range"}, // found by FuzzParseDecimal
+		{"0." + strings.Repeat("9", MaxDigits), "over the limit of 1000 digits"},
 		{"-0.01e-9999", "value is out of range"},
 		{"inf", "invalid character"},
 		{"NaN", "invalid character"},

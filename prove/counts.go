@@ -7,6 +7,7 @@ import (
 
 	"avoidcert/certify"
 	"avoidcert/internal/bytesize"
+	"avoidcert/internal/par"
 	"avoidcert/pattern"
 	"avoidcert/transfer"
 )
@@ -31,12 +32,19 @@ func Counts(ctx context.Context, set pattern.Set, n int, opts Options) ([]*big.I
 		err    error
 	}
 	ownDone := make(chan counted, 1)
+	var panicked par.PanicBox
 	go func() {
+		defer func() {
+			if panicked.Caught(recover()) {
+				ownDone <- counted{}
+			}
+		}()
 		c, err := certify.Counts(ctx, opts.given(set), n)
 		ownDone <- counted{c, err}
 	}()
 	engine, err := transfer.Counts(ctx, set, n, nil)
 	own := <-ownDone
+	panicked.Raise()
 	switch {
 	case err != nil:
 		return nil, err

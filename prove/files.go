@@ -1,24 +1,27 @@
 package prove
 
 import (
+	"bytes"
+	"context"
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
-	"os"
 
 	"avoidcert/certify"
 	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/input"
 )
 
-// Load reads a certificate file. It does not check it: pass the result to
+// Load reads a certificate file: a regular file within the certificate
+// size limit (internal/input; anything else is refused at once, a missing
+// file matching fs.ErrNotExist). It does not check it: pass the result to
 // Recheck before reading a verdict from it.
-func Load(path string) (*certify.Certificate, error) {
-	f, err := os.Open(path)
+func Load(ctx context.Context, path string) (*certify.Certificate, error) {
+	data, err := input.ReadFile(ctx, path, input.Certificate)
 	if err != nil {
 		return nil, err
 	}
-	defer f.Close()
-	c, err := certify.Read(f)
+	c, err := certify.Read(bytes.NewReader(data))
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}

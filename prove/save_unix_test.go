@@ -15,7 +15,7 @@ import (
 
 // Save writes through the one atomic writer: a certificate lands as a
 // regular file that Load reads back, and a FIFO in its place is refused
-// and left alone.
+// and left alone; Load refuses it too, without blocking.
 func TestSaveRefusesSpecialFiles(t *testing.T) {
 	set, err := pattern.ParseSet([]string{"123"})
 	if err != nil {
@@ -30,7 +30,7 @@ func TestSaveRefusesSpecialFiles(t *testing.T) {
 	if err := prove.Save(path, r.Certificate); err != nil {
 		t.Fatal(err)
 	}
-	if _, err := prove.Load(path); err != nil {
+	if _, err := prove.Load(context.Background(), path); err != nil {
 		t.Fatal(err)
 	}
 	fifo := filepath.Join(dir, "pipe.json")
@@ -42,5 +42,9 @@ func TestSaveRefusesSpecialFiles(t *testing.T) {
 	}
 	if info, err := os.Lstat(fifo); err != nil || info.Mode()&os.ModeNamedPipe == 0 {
 		t.Fatalf("the FIFO is gone or changed: %v %v", info, err)
+	}
+	// Load refuses the FIFO at once instead of waiting for a writer.
+	if _, err := prove.Load(context.Background(), fifo); err == nil {
+		t.Fatal("Load read a FIFO")
 	}
 }

@@ -26,7 +26,7 @@ type Census struct {
 // a refusal (IsRefused) naming the row and the field; the report is made
 // from the verified tables only.
 func FromCensus(ctx context.Context, dir string) (*Census, error) {
-	rep, err := census.ReadReport(dir)
+	rep, err := census.ReadReport(ctx, dir)
 	if err != nil {
 		return nil, err
 	}

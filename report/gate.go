@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"avoidcert/claims"
+	"avoidcert/internal/input"
 )
 
 // GateClaim is one line of 'avoidcert gate --json'.
@@ -51,6 +52,9 @@ func IsGateJSON(data []byte) bool {
 // FromGate reads the JSON lines of 'avoidcert gate --json', strictly.
 func FromGate(name string, data []byte) (*Gate, error) {
 	g := &Gate{Name: name}
+	if err := input.CheckJSON(data); err != nil {
+		return nil, fmt.Errorf("%s: not the output of 'avoidcert gate --json': %v", name, err)
+	}
 	sc := bufio.NewScanner(bytes.NewReader(data))
 	sc.Buffer(nil, 1<<24)
 	for n := 1; sc.Scan(); n++ {

@@ -38,7 +38,8 @@ func Counts(ctx context.Context, s pattern.Set, N int, progress Progress) ([]*bi
 }
 
 // CountsFootprint estimates the peak bytes of Counts(ctx, s, N): the
-// largest step's Footprint plus the spare storage the recycling keeps.
+// largest step's Footprint plus the spare storage the recycling keeps. It
+// takes time independent of N (Footprint), so any N is refused at once.
 func CountsFootprint(s pattern.Set, N int) int64 {
 	e := New(Whole(NewStates(s)))
 	var peak int64

@@ -109,7 +109,7 @@ func New(sys System) *Engine {
 		n := sys.StartN()
 		var k int64
 		for _, p := range sys.Members {
-			k += int64(NewIndexer(st.Length(p), n).Count(n - st.Length(p)))
+			k += int64(compositions(st.Length(p), n-st.Length(p)))
 		}
 		e.scale = k
 	}
@@ -153,7 +153,8 @@ func New(sys System) *Engine {
 // System returns the engine's system.
 func (e *Engine) System() System { return e.sys }
 
-// layout returns the blocks of an iterate at length n (no storage).
+// layout returns the blocks of an iterate at length n (no storage), in
+// time independent of n; counts and the total saturate at sizeCap.
 func (e *Engine) layout(n int) ([]block, int, int) {
 	limbs := limbsFor(n, e.scale)
 	blocks := make([]block, e.st.Len())
@@ -163,9 +164,9 @@ func (e *Engine) layout(n int) ([]block, int, int) {
 		if L > n {
 			continue
 		}
-		c := NewIndexer(L, n-L).Count(n - L)
+		c := compositions(L, n-L)
 		blocks[p] = block{l: L, deg: n - L, limbs: limbs, count: c}
-		total += c * limbs
+		total = satAdd(total, satMul(c, limbs))
 	}
 	for p := range blocks {
 		if blocks[p].count == 0 {
@@ -199,7 +200,8 @@ func (e *Engine) newIterate(n int, recycle *Iterate) *Iterate {
 	return &Iterate{N: n, Limbs: limbs, states: e.st, blocks: blocks, words: w}
 }
 
-// IterateBytes returns the bytes of the coefficients of G_n.
+// IterateBytes returns the bytes of the coefficients of G_n (saturated
+// at 8*sizeCap, far beyond any memory).
 func (e *Engine) IterateBytes(n int) int64 {
 	_, _, total := e.layout(n)
 	return 8 * int64(total)
@@ -208,36 +210,38 @@ func (e *Engine) IterateBytes(n int) int64 {
 // Footprint estimates the peak bytes of Next from G_n: G_n, the running
 // sums the step reads, G_(n+1), and the larger of the arrays of
 // differences of pushed moves (one per goroutine and group) and the
-// largest pair of intermediate arrays of a chained move.
+// largest pair of intermediate arrays of a chained move. It takes time
+// independent of n and saturates at 8*sizeCap bytes (beyond any memory),
+// so that it can refuse any n at once.
 func (e *Engine) Footprint(n int) int64 {
-	in, limbs, _ := e.layout(n)
-	out, outLimbs, _ := e.layout(n + 1)
+	in, limbs, inWords := e.layout(n)
+	out, outLimbs, outWords := e.layout(n + 1)
 	pushed, chained, used := e.plan(in, out)
-	var words int64
+	words := satAdd(inWords, outWords)
 	for i, nd := range e.needs {
 		if used[i] {
-			words += int64(in[nd.p].count * limbs)
+			words = satAdd(words, satMul(in[nd.p].count, limbs))
 		}
 	}
-	procs := int64(runtime.GOMAXPROCS(0))
-	var chain, push int64
+	procs := runtime.GOMAXPROCS(0)
+	var chain, push int
 	for _, grp := range pushed {
-		push = max(push, procs*int64(out[grp.to].count*outLimbs))
+		push = max(push, satMul(procs, satMul(out[grp.to].count, outLimbs)))
 	}
 	for _, t := range chained {
 		L := e.st.Length(t.mv.From)
-		prev := int64(0)
+		prev := 0
 		for k := 0; k < len(t.ops)-1; k++ {
-			size := int64(scratchCount(len(t.ops[k+1].s0), n-L+1+k)) * int64(outLimbs)
-			chain = max(chain, prev+size)
+			size := satMul(scratchCount(len(t.ops[k+1].s0), n-L+1+k), outLimbs)
+			chain = max(chain, satAdd(prev, size))
 			prev = size
 		}
 	}
-	return e.IterateBytes(n) + e.IterateBytes(n+1) + 8*(words+max(chain, push))
+	return 8 * int64(satAdd(words, max(chain, push)))
 }
 
 // scratchCount returns the number of compositions of deg into parts parts.
-func scratchCount(parts, deg int) int { return NewIndexer(parts-1, deg).Count(deg) }
+func scratchCount(parts, deg int) int { return compositions(parts-1, deg) }
 
 // Start returns the system's first iterate: G_0 for the whole system,
 // G_(n_s) for a restricted one.
@@ -403,7 +407,7 @@ var pushFactor int64 = 4
 // into pushed groups (in a fixed order) and chained moves, and marks the
 // running sums of the input that single moves and chained moves read.
 func (e *Engine) plan(in, out []block) ([]pushGroup, []term, []bool) {
-	procs := int64(runtime.GOMAXPROCS(0))
+	procs := runtime.GOMAXPROCS(0)
 	var groups []pushGroup
 	var chained []term
 	used := make([]bool, len(e.needs))
@@ -419,7 +423,7 @@ func (e *Engine) plan(in, out []block) ([]pushGroup, []term, []bool) {
 		if src == 0 || dst == 0 {
 			continue
 		}
-		if int64(dst)*procs*pushFactor > int64(src) {
+		if satMul(satMul(dst, procs), int(pushFactor)) > src {
 			chained = append(chained, t)
 			used[t.need] = true
 			continue

@@ -5,7 +5,6 @@ import (
 	"crypto/sha256"
 	"encoding/binary"
 	"math/big"
-	"math/bits"
 
 	"avoidcert/internal/par"
 	"avoidcert/internal/words"
@@ -138,18 +137,4 @@ func (g *Iterate) Digest() [32]byte {
 	var out [32]byte
 	h.Sum(out[:0])
 	return out
-}
-
-// limbsFor returns the words per coefficient of arrays in the step from
-// G_(n-1) to G_n, for a system whose start has total weight at most
-// scale * n_s! at n_s: enough for scale * n!. Each coefficient at n_s
-// reaches at most n!/n_s! sequences of length n (a state with gaps a at
-// length k has exactly k+1 moves and splits), so scale * n! bounds the sum
-// of G_n, hence every coefficient, every running sum of G_n along a line,
-// and every intermediate array of that step (each sums distinct terms of
-// G_n's successors).
-func limbsFor(n int, scale int64) int {
-	f := new(big.Int).MulRange(1, int64(max(n, 1)))
-	f.Mul(f, big.NewInt(max(scale, 1)))
-	return f.BitLen()/bits.UintSize + 1
 }

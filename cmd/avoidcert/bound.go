@@ -54,19 +54,20 @@ Flags:
   --quiet             no live progress bar (shown on a terminal by default)
 
 The certificate file: a regular file is replaced atomically (temp file
-.NAME.avoidcert-tmp-DIGITS beside it, then a rename); a symbolic link is
+.NAME.avoidcert-tmp-PID-DIGITS beside it, then a rename); a symbolic link is
 written through to its target, which must be a regular file or missing in an
 existing folder; a folder, device, FIFO or socket is refused before any work.
-A temp file left by a killed run is removed by the next write of that NAME.
+A temp file left by a killed run is removed by a later write of that NAME
+once its process is gone (README: the temp-file rule).
 --out - writes the certificate to standard output; the report then goes to
 standard error.
 
 Exit codes: 0 target met (or lambda decided exactly), 3 a budget stopped the
 run first (the best certified bracket is printed and certified; when it stops
 before a first bracket nothing is written), 2 bad input, 4 interrupted
-(Ctrl-C: nothing is written; use --timeout to stop early and keep a
-certificate) or a certificate the checker refused (with its reason; nothing
-is written).
+(Ctrl-C or SIGTERM: nothing is written; use --timeout to stop early and keep
+a certificate), out of space, or a certificate the checker refused (with its
+reason; nothing is written).
 `,
 		run: runBound,
 	}
@@ -249,7 +250,7 @@ func runBound(ctx context.Context, e *env, args []string) int {
 		return failure(e, err)
 	}
 	if err := dest.write(e.stdout, data); err != nil {
-		return failure(e, usagef("bound: cannot write the certificate to %s: %v; choose another --out", quote(path), err))
+		return failure(e, fmt.Errorf("bound: cannot write the certificate to %s: %w", quote(path), err))
 	}
 	if *asJSON {
 		writeBoundJSON(report, r, dest)

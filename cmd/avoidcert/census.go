@@ -66,8 +66,8 @@ certificate does not support. Paths inside a census folder stay inside it:
 no "..", no absolute path, no symbolic link that leads out.
 
 Exit codes: 0 done, 1 (merge) a shard its certificates do not support, 2 bad
-input (or a folder holding another census), 4 interrupted or a class failed
-(the finished classes are kept: run again).
+input (or a folder holding another census), 4 interrupted (Ctrl-C, SIGTERM),
+out of space or a class failed (the finished classes are kept: run again).
 `,
 		run: runCensus,
 	}
@@ -170,6 +170,9 @@ func parseShard(s string, classes int) (census.Shard, error) {
 func censusFailure(e *env, dir string, err error) int {
 	var in *census.InputError
 	switch {
+	case outOfSpace(err):
+		fmt.Fprintf(e.stderr, "avoidcert: census: out of space writing %s: the disk or the quota is full; finished classes are kept in %s: free space and run the same command again\n",
+			writtenWhere(err), filepath.Join(dir, "journal"))
 	case errors.As(err, &in):
 		return failure(e, usagef("census: %v", err))
 	case errors.Is(err, context.Canceled):
@@ -200,9 +203,9 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	}
 	dir := *out
 	if dir == "" {
-		rep, err := census.ReadReport(dirs[0])
+		rep, err := census.ReadReport(ctx, dirs[0])
 		if err != nil {
-			return failure(e, usagef("census merge: %v", err))
+			return censusMergeFailure(e, err)
 		}
 		dir = "census-" + strconv.Itoa(rep.Params.Length)
 	}
@@ -210,19 +213,26 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	check := census.CheckerOf(censusOptions(int64(maxMemory) / int64(*jobs)))
 	rep, err := census.Merge(ctx, dir, dirs, check, *jobs)
 	if err != nil {
-		var in *census.InputError
-		var refused *census.RefusedError
-		switch {
-		case errors.As(err, &in):
-			return failure(e, usagef("census merge: %v", err))
-		case errors.As(err, &refused):
-			fmt.Fprintf(e.stderr, "avoidcert: census merge: refused: %v; nothing was written\n", err)
-			return exitFailed
-		}
-		return failure(e, err)
+		return censusMergeFailure(e, err)
 	}
 	writeCensusSummary(e, dir, rep)
 	return exitOK
+}
+
+// censusMergeFailure reports a merge that did not finish: shards that do
+// not fit together or cannot be read are exit 2, a shard its certificates
+// do not support 1.
+func censusMergeFailure(e *env, err error) int {
+	var in *census.InputError
+	var refused *census.RefusedError
+	switch {
+	case errors.As(err, &in):
+		return failure(e, usagef("census merge: %v", err))
+	case errors.As(err, &refused):
+		fmt.Fprintf(e.stderr, "avoidcert: census merge: refused: %v; nothing was written\n", err)
+		return exitFailed
+	}
+	return failure(e, err)
 }
 
 func writeCensusSummary(e *env, dir string, rep *census.Report) {

@@ -59,7 +59,7 @@ func referenceCensus(t testing.TB) string {
 // entries; it is placed by the census alone. Each certified range meets
 // the published one.
 func TestCensusLength4OrderMatchesPublishedConstants(t *testing.T) {
-	rep, err := census.ReadReport(referenceCensus(t))
+	rep, err := census.ReadReport(context.Background(), referenceCensus(t))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -102,7 +102,7 @@ func TestCensusLength4OrderMatchesPublishedConstants(t *testing.T) {
 // smallest among the patterns of length 4; both places are certified
 // (strict relations at the ends of the order).
 func TestCensusLength4MostAndLeastAvoided(t *testing.T) {
-	rep, err := census.ReadReport(referenceCensus(t))
+	rep, err := census.ReadReport(context.Background(), referenceCensus(t))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -119,7 +119,7 @@ func TestCensusLength4MostAndLeastAvoided(t *testing.T) {
 // A117156 %C lists 1432 among the patterns with 1342's counts; the other
 // entries differ from each other by their terms).
 func TestCensusLength4OnlyGroup(t *testing.T) {
-	rep, err := census.ReadReport(referenceCensus(t))
+	rep, err := census.ReadReport(context.Background(), referenceCensus(t))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -138,7 +138,7 @@ func TestCensusLength4OnlyGroup(t *testing.T) {
 // class's representative, and its file has the recorded digest.
 func TestCensusCertificatesPassTheChecker(t *testing.T) {
 	dir := referenceCensus(t)
-	rep, err := census.ReadReport(dir)
+	rep, err := census.ReadReport(context.Background(), dir)
 	if err != nil {
 		t.Fatal(err)
 	}

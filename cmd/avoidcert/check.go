@@ -5,14 +5,13 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"io"
-	"io/fs"
 	"math"
 	"os"
 	"strings"
 
 	"avoidcert/certify"
 	"avoidcert/internal/bytesize"
+	"avoidcert/internal/input"
 )
 
 func init() {
@@ -50,7 +49,7 @@ Flags:
 
 Exit codes: 0 valid, 1 invalid, 2 the file cannot be read, or bad usage,
 3 over --max-work or --max-memory (undecided: raise the flag named),
-4 interrupted (Ctrl-C).
+4 interrupted (Ctrl-C or SIGTERM).
 `,
 		run: runCheck,
 	}
@@ -100,7 +99,7 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 		return failure(e, err)
 	}
 	opts.MaxMemory = int64(maxMem)
-	data, err := readInput(pos[0])
+	data, err := readCertificateInput(ctx, pos[0])
 	if err != nil {
 		return failure(e, err)
 	}
@@ -151,36 +150,21 @@ func workLimit(x float64) (int64, error) {
 	return int64(x), nil
 }
 
-// readInput reads a certificate file ("-": standard input). A file that
-// cannot be read is an input error (exit 2), not an invalid certificate.
-func readInput(path string) ([]byte, error) {
+// readCertificateInput reads a certificate file ("-": standard input),
+// bounded and regular files only (internal/input). A file that cannot be
+// read is an input error (exit 2), not an invalid certificate.
+func readCertificateInput(ctx context.Context, path string) ([]byte, error) {
+	var data []byte
+	var err error
 	if path == "-" {
-		data, err := io.ReadAll(io.LimitReader(os.Stdin, certify.MaxFileSize+1))
-		if err != nil {
-			return nil, usagef("check: cannot read standard input: %v", err)
-		}
-		return data, nil
+		data, err = input.ReadStream(ctx, os.Stdin, "standard input", input.Certificate)
+	} else {
+		data, err = input.ReadFile(ctx, path, input.Certificate)
 	}
-	info, err := os.Stat(path)
-	switch {
-	case errors.Is(err, fs.ErrNotExist):
-		return nil, usagef("check: %s does not exist; name a certificate file", quote(path))
-	case err != nil:
-		return nil, usagef("check: cannot read %s: %v", quote(path), err)
-	case info.IsDir():
-		return nil, usagef("check: %s is a folder; name a certificate file", quote(path))
+	if err != nil && ctx.Err() == nil {
+		return nil, usagef("check: %v", err)
 	}
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, usagef("check: cannot read %s: %v", quote(path), err)
-	}
-	defer f.Close()
-	// Read refuses anything over MaxFileSize; one byte more shows it.
-	data, err := io.ReadAll(io.LimitReader(f, certify.MaxFileSize+1))
-	if err != nil {
-		return nil, usagef("check: cannot read %s: %v", quote(path), err)
-	}
-	return data, nil
+	return data, err
 }
 
 // checkUndecided reports a certificate over the limits: exit 3.

@@ -41,7 +41,7 @@ Flags:
 
 Exit codes: 0 proved, 1 refuted, 3 undecided within the budget (--timeout
 stops the bracket in time to certify the best one), 2 bad input, 4 interrupted
-(Ctrl-C) or a certificate the checker refused.
+(Ctrl-C or SIGTERM) or a certificate the checker refused.
 `,
 		run: runClaim,
 	}

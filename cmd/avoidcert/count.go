@@ -34,7 +34,7 @@ Flags:
   --verbose         say which patterns were dropped as duplicates or redundant
 
 Exit codes: 0 success, 2 bad input, 3 over --max-memory (nothing counted),
-4 interrupted (Ctrl-C).
+4 interrupted (Ctrl-C or SIGTERM) or output that could not be written.
 `,
 		run: runCount,
 	}

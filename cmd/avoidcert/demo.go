@@ -49,7 +49,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	}
 	var m *claims.Manifest
 	if *manifest != "" {
-		m, err = readManifest("demo", *manifest)
+		m, err = readManifest(ctx, "demo", *manifest)
 	} else {
 		m, err = claims.Parse(demo.ManuscriptName, demo.Manuscript)
 	}
@@ -58,13 +58,14 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	}
 	dir, err := os.MkdirTemp(*out, "avoidcert-demo-")
 	if err != nil {
-		return failure(e, usagef("demo: cannot make a folder for the results: %v; choose another --out", err))
+		return failure(e, usagef("demo: cannot make a folder for the results: %w; choose another --out", err))
 	}
 	g := &gateRun{manifest: m, junit: filepath.Join(dir, "junit.xml"),
 		opts: claims.Options{CertDir: filepath.Join(dir, "certificates"), Tool: "avoidcert " + version}}
 	if err := g.prepare("demo"); err != nil {
 		return failure(e, err)
 	}
+	defer g.done()
 	title := m.Title
 	if title == "" {
 		title = m.File
@@ -79,7 +80,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 		err = atomicfile.WriteFile(filepath.Join(dir, "verdicts.jsonl"), lines.Bytes(), 0o644)
 	}
 	if err != nil {
-		return failure(e, fmt.Errorf("demo: cannot write the verdicts: %v", err))
+		return failure(e, fmt.Errorf("demo: cannot write the verdicts: %w", err))
 	}
 	claims.WriteTable(e.stdout, results)
 	fmt.Fprintf(e.stdout, "\n%s.\n", claims.Summarize(results))

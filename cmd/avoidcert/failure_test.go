@@ -43,3 +43,40 @@ func TestFailureExitCodes(t *testing.T) {
 		}
 	}
 }
+
+// A panic is an internal error: exit 4 with a line asking for a report,
+// never the usage code 2 (which is what the Go runtime gives a crash).
+func TestGuardedPanic(t *testing.T) {
+	var stderr bytes.Buffer
+	code := guarded(&stderr, func() int { panic("index out of range [3] with length 3") })
+	first, _, _ := strings.Cut(stderr.String(), "\n")
+	if code != exitAborted || first != `avoidcert: internal error, please report it with the lines below: "index out of range [3] with length 3"` {
+		t.Fatalf("exit %d, %q", code, first)
+	}
+	if code := guarded(&stderr, func() int { return exitUndecided }); code != exitUndecided {
+		t.Fatalf("guarded changed an exit code: %d", code)
+	}
+}
+
+// cancellable returns at once when the context is cancelled, and passes
+// a panic of the work on to the caller (where guarded reports it).
+func TestCancellable(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	block := make(chan struct{})
+	defer close(block)
+	cancel()
+	if _, err := cancellable(ctx, func() (int, error) { <-block; return 1, nil }); !errors.Is(err, context.Canceled) {
+		t.Fatalf("cancelled work: %v, want context.Canceled", err)
+	}
+	if v, err := cancellable(context.Background(), func() (int, error) { return 7, nil }); v != 7 || err != nil {
+		t.Fatalf("finished work: %d, %v", v, err)
+	}
+	var stderr bytes.Buffer
+	code := guarded(&stderr, func() int {
+		cancellable(context.Background(), func() (int, error) { panic("in the work") })
+		return 0
+	})
+	if code != exitAborted || !strings.Contains(stderr.String(), "internal error") {
+		t.Fatalf("a panic in the work: exit %d, %q", code, stderr.String())
+	}
+}

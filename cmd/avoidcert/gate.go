@@ -2,13 +2,17 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"time"
 
 	"avoidcert/claims"
 	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/filelock"
+	"avoidcert/internal/input"
 )
 
 func init() {
@@ -30,17 +34,19 @@ Flags:
   --junit FILE         also write JUnit XML (one test case per claim;
                        refuted = failure, undecided = skipped with the reason)
   --certificates DIR   keep every certificate there, named after the claim id
-                       (the folder is created)
+                       (the folder is created, and locked for the run: a
+                       second gate on it is refused)
   --cache DIR          certificates kept between runs and re-checked by the
                        checker instead of recomputed (default: .avoidcert-cache
-                       beside FILE; "off" for none)
+                       beside FILE; "off" for none; locked for the run)
   --timeout T          the whole run's budget, e.g. 10m (overrides [run] timeout)
   --max-memory B       cap every claim's memory, e.g. 4G (overrides [run] max_memory)
   --progress           one line on stderr as each claim is judged
 
 Exit codes: 0 every claim proved, 1 some claim refuted, 3 none refuted but
 some undecided within the budget, 2 a malformed manifest or bad flags (the
-message names the file, line and field), 4 interrupted or an internal error.
+message names the file, line and field; also a folder in use by another
+gate), 4 interrupted (Ctrl-C, SIGTERM), out of space or an internal error.
 `,
 		run: runGate,
 	}
@@ -52,7 +58,12 @@ type gateRun struct {
 	opts     claims.Options
 	junit    string // "" for none
 	progress bool
+	release  []func() // the folder locks prepare took
 }
+
+// lockName is the lock file a gate holds in its --certificates and
+// --cache folders for the whole run.
+const lockName = ".avoidcert-lock"
 
 func runGate(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("gate")
@@ -74,7 +85,7 @@ func runGate(ctx context.Context, e *env, args []string) int {
 	if *timeout < 0 {
 		return failure(e, usagef("gate: --timeout must not be negative"))
 	}
-	m, err := readManifest("gate", pos[0])
+	m, err := readManifest(ctx, "gate", pos[0])
 	if err != nil {
 		return failure(e, err)
 	}
@@ -89,6 +100,7 @@ func runGate(ctx context.Context, e *env, args []string) int {
 	if err := g.prepare("gate"); err != nil {
 		return failure(e, err)
 	}
+	defer g.done()
 	results, code := g.run(ctx, e)
 	if code != exitOK {
 		return code
@@ -105,27 +117,63 @@ func runGate(ctx context.Context, e *env, args []string) int {
 }
 
 // readManifest reads and parses a manifest; every fault is a usage error.
-func readManifest(cmd, path string) (*claims.Manifest, error) {
-	data, err := os.ReadFile(path)
+func readManifest(ctx context.Context, cmd, path string) (*claims.Manifest, error) {
+	data, err := input.ReadFile(ctx, path, input.Manifest)
 	if err != nil {
-		return nil, usagef("%s: cannot read the manifest: %v", cmd, err)
+		if ctx.Err() != nil {
+			return nil, err
+		}
+		return nil, usagef("%s: %v", cmd, err)
 	}
-	m, err := claims.Parse(path, data)
+	// The TOML library takes seconds on the largest manifests and cannot
+	// be stopped: Ctrl-C leaves it behind.
+	m, err := cancellable(ctx, func() (*claims.Manifest, error) { return claims.Parse(path, data) })
 	if err != nil {
+		if ctx.Err() != nil {
+			return nil, err
+		}
 		return nil, usagef("%s: %v", cmd, err)
 	}
 	return m, nil
 }
 
-// prepare creates the cache and certificate folders and refuses an
-// unusable --junit before the work.
-func (g *gateRun) prepare(cmd string) error {
-	for _, dir := range []string{g.opts.CacheDir, g.opts.CertDir} {
-		if dir == "" {
+// prepare creates the cache and certificate folders, locks them against
+// a concurrent run (whose certificates would replace this run's under the
+// SHA-256 values it records), removes the temp files of killed runs there,
+// and refuses before the work an unusable --junit and any file the run
+// would read or replace that is not a regular file. Call done afterwards.
+func (g *gateRun) prepare(cmd string) (err error) {
+	defer func() {
+		if err != nil {
+			g.done()
+		}
+	}()
+	var locked []string
+	for _, d := range []struct{ dir, flag string }{{g.opts.CacheDir, "--cache"}, {g.opts.CertDir, "--certificates"}} {
+		if d.dir == "" || slices.ContainsFunc(locked, func(l string) bool { return sameFolder(l, d.dir) }) {
 			continue
 		}
-		if err := os.MkdirAll(dir, 0o755); err != nil {
-			return usagef("%s: cannot create the folder %s: %v", cmd, dir, err)
+		if err := os.MkdirAll(d.dir, 0o755); err != nil {
+			return usagef("%s: cannot create the folder %s: %w", cmd, quote(d.dir), err)
+		}
+		release, err := filelock.Lock(filepath.Join(d.dir, lockName))
+		if errors.Is(err, filelock.ErrHeld) {
+			return usagef("%s: the folder %s is in use by another gate run (it holds %s); wait for that run to finish or choose another %s",
+				cmd, quote(d.dir), lockName, d.flag)
+		}
+		if err != nil {
+			return usagef("%s: cannot lock the folder %s (%v); choose another %s", cmd, quote(d.dir), err, d.flag)
+		}
+		g.release = append(g.release, release)
+		locked = append(locked, d.dir)
+		// with the lock held, no other gate writes here: what is left are
+		// killed runs' temp files (removed by the rule of the README)
+		atomicfile.RemoveStale(d.dir)
+	}
+	for _, path := range g.manifest.Files(g.opts) {
+		if info, err := os.Lstat(path); err == nil && !info.Mode().IsRegular() {
+			return usagef("%s: %s is a %s, not a regular file; the gate never reads or replaces one: remove it or choose another folder",
+				cmd, quote(path), input.TypeName(info.Mode()))
 		}
 	}
 	if g.junit != "" {
@@ -137,6 +185,21 @@ func (g *gateRun) prepare(cmd string) error {
 		}
 	}
 	return nil
+}
+
+// done releases the folder locks.
+func (g *gateRun) done() {
+	for _, release := range g.release {
+		release()
+	}
+	g.release = nil
+}
+
+// sameFolder reports whether two paths name one folder.
+func sameFolder(a, b string) bool {
+	x, errA := os.Stat(a)
+	y, errB := os.Stat(b)
+	return errA == nil && errB == nil && os.SameFile(x, y)
 }
 
 // run judges the claims and writes the JUnit file. A code other than
@@ -167,7 +230,7 @@ func (g *gateRun) run(ctx context.Context, e *env) ([]claims.Result, int) {
 			err = atomicfile.WriteFile(g.junit, data, 0o644)
 		}
 		if err != nil {
-			return nil, failure(e, fmt.Errorf("cannot write the JUnit file: %v", err))
+			return nil, failure(e, fmt.Errorf("cannot write the JUnit file: %w", err))
 		}
 	}
 	return results, exitOK

@@ -8,12 +8,17 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"os/signal"
+	"path/filepath"
 	"runtime/debug"
 	"sort"
+	"syscall"
 
 	"avoidcert/bounds"
+	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/brief"
 	"avoidcert/prove"
 	"avoidcert/structure"
 )
@@ -24,7 +29,7 @@ const (
 	exitFailed    = 1 // a claim was refuted or a check failed
 	exitUsage     = 2 // usage or input error; nothing was written to stdout
 	exitUndecided = 3 // undecided within the budget
-	exitAborted   = 4 // interrupted, or an internal error
+	exitAborted   = 4 // interrupted, out of space, or an internal error
 )
 
 // command is one subcommand: its one-line summary, its usage text and the
@@ -50,12 +55,121 @@ func main() {
 	os.Exit(runProcess())
 }
 
-// runProcess runs the command line of this process, with Ctrl-C (SIGINT)
-// cancelling the context: every command then stops and exits 4.
+// runProcess runs the command line of this process. Ctrl-C (SIGINT) and
+// SIGTERM (what 'timeout', CI cancellation and Slurm send) cancel the
+// context: every command then stops and exits 4 with a message. A panic
+// is an internal error, exit 4, never the usage code 2 (which is also
+// what the Go runtime gives a crash it cannot recover).
 func runProcess() int {
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
-	return run(ctx, &env{stdout: os.Stdout, stderr: os.Stderr, progress: progressWanted(os.Stderr)}, os.Args[1:])
+	stdout := &checkedWriter{w: os.Stdout}
+	code := guarded(os.Stderr, func() int {
+		return run(ctx, &env{stdout: stdout, stderr: os.Stderr, progress: progressWanted(os.Stderr)}, os.Args[1:])
+	})
+	if stdout.err != nil && code != exitAborted {
+		return writeFailure(os.Stderr, "standard output", stdout.err, "the output is incomplete")
+	}
+	return code
+}
+
+// guarded runs a command and turns a panic into an internal error: one
+// line, then the stack for the report; exit 4.
+func guarded(stderr io.Writer, command func() int) (code int) {
+	defer func() {
+		if r := recover(); r != nil {
+			stack := debug.Stack()
+			if w, ok := r.(interface{ PanicStack() []byte }); ok {
+				stack = w.PanicStack() // a worker goroutine's panic, raised again here
+			}
+			fmt.Fprintf(stderr, "avoidcert: internal error, please report it with the lines below: %s\n%s", brief.Quote(fmt.Sprint(r)), stack)
+			code = exitAborted
+		}
+	}()
+	return command()
+}
+
+// cancellable runs work on its own goroutine and returns its result, or
+// ctx.Err() as soon as ctx is cancelled (the work is then abandoned: the
+// process is about to end). A panic in the work is raised again here, where
+// guarded reports it.
+func cancellable[T any](ctx context.Context, work func() (T, error)) (T, error) {
+	type outcome struct {
+		v     T
+		err   error
+		panic any
+	}
+	done := make(chan outcome, 1)
+	go func() {
+		defer func() {
+			if r := recover(); r != nil {
+				done <- outcome{panic: r}
+			}
+		}()
+		v, err := work()
+		done <- outcome{v: v, err: err}
+	}()
+	select {
+	case <-ctx.Done():
+		var zero T
+		return zero, ctx.Err()
+	case o := <-done:
+		if o.panic != nil {
+			panic(o.panic)
+		}
+		return o.v, o.err
+	}
+}
+
+// checkedWriter keeps the first error of its writes: output that could not
+// be written (standard output on a full disk) must not end in success.
+type checkedWriter struct {
+	w   io.Writer
+	err error
+}
+
+func (c *checkedWriter) Write(p []byte) (int, error) {
+	if c.err != nil {
+		return 0, c.err
+	}
+	n, err := c.w.Write(p)
+	c.err = err
+	return n, err
+}
+
+// writeFailure reports output that could not be written after the work,
+// and what became of it: exit 4, the same code for a full disk or quota in
+// every command.
+func writeFailure(w io.Writer, what string, err error, left string) int {
+	if outOfSpace(err) {
+		fmt.Fprintf(w, "avoidcert: out of space writing %s: the disk or the quota is full; %s: free space and run again\n", what, left)
+	} else {
+		fmt.Fprintf(w, "avoidcert: cannot write %s (%s); %s\n", what, osReason(err), left)
+	}
+	return exitAborted
+}
+
+// writtenWhere names where a failed write went: the folder of a temp file
+// (the target's folder), or the file itself.
+func writtenWhere(err error) string {
+	var pe *fs.PathError
+	if !errors.As(err, &pe) {
+		return "the output"
+	}
+	if atomicfile.IsTemp(filepath.Base(pe.Path)) {
+		return "in " + quote(filepath.Dir(pe.Path))
+	}
+	return quote(pe.Path)
+}
+
+// osReason is the system's few words for a failure, without the path and
+// operation Go puts around them.
+func osReason(err error) string {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err.Error()
+	}
+	return err.Error()
 }
 
 func run(ctx context.Context, e *env, args []string) int {
@@ -137,7 +251,8 @@ Commands:
   version    print the version
 
 Exit codes: 0 success, 1 a claim or check failed, 2 usage or input error,
-3 undecided within the budget, 4 interrupted or internal error.
+3 undecided within the budget, 4 interrupted (Ctrl-C, SIGTERM), out of space
+or internal error.
 `)
 }
 
@@ -150,6 +265,8 @@ func failure(e *env, err error) int {
 	var be *bounds.BudgetError
 	var sbe *structure.BudgetError
 	switch {
+	case outOfSpace(err):
+		return writeFailure(e.stderr, writtenWhere(err), err, "nothing was replaced")
 	case errors.As(err, &ue):
 		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)
 		return exitUsage
@@ -180,13 +297,16 @@ func failure(e *env, err error) int {
 	}
 }
 
-// usageError marks bad flags, arguments or input files.
-type usageError struct{ msg string }
+// usageError marks bad flags, arguments or input files. It wraps what
+// usagef's %w wraps (a full disk is then still recognised as such).
+type usageError struct{ err error }
 
-func (u usageError) Error() string { return u.msg }
+func (u usageError) Error() string { return u.err.Error() }
+
+func (u usageError) Unwrap() error { return u.err }
 
 func usagef(format string, args ...any) error {
-	return usageError{msg: fmt.Sprintf(format, args...)}
+	return usageError{err: fmt.Errorf(format, args...)}
 }
 
 // limitMemory tells the garbage collector the memory budget, so that it
@@ -196,7 +316,7 @@ func limitMemory(bytes int64) {
 	debug.SetMemoryLimit(bytes)
 }
 
-// interrupted reports a Ctrl-C: exit 4, nothing written.
+// interrupted reports a Ctrl-C or SIGTERM: exit 4, nothing written.
 func interrupted(e *env) int {
 	fmt.Fprintln(e.stderr, "avoidcert: interrupted; nothing was written")
 	return exitAborted

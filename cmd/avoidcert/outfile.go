@@ -8,9 +8,10 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
-	"time"
 
 	"avoidcert/internal/atomicfile"
+	"avoidcert/internal/brief"
+	"avoidcert/internal/input"
 )
 
 // outFile is where a command writes a file it produces: a path, standard
@@ -25,19 +26,16 @@ import (
 //   - a folder, a device, a FIFO, a socket, or a link to one of them is
 //     refused, as is a missing folder.
 //
-// Temp files are named ".NAME.avoidcert-tmp-DIGITS" beside the target. A run
-// killed while writing leaves one behind; the next write to the same NAME
-// removes those that are older than its own process.
+// Temp files are named ".NAME.avoidcert-tmp-PID-DIGITS" beside the target.
+// A run killed while writing leaves one behind; the next write to the same
+// NAME removes it by the rule of atomicfile.RemoveStale (its writer gone
+// and a minute old, or a day old), never a live writer's.
 type outFile struct {
 	path   string // as the user gave it; "-" for standard output
 	target string // the file to replace: path with symbolic links followed
 	stdout bool
 	skip   bool
 }
-
-// started is when this process began, to tell a killed run's temp file
-// from one a concurrent run is writing.
-var started = time.Now()
 
 // openOut checks path as a destination before any work is done. The
 // error is a usageError that names the problem and what to do.
@@ -93,26 +91,12 @@ func (o *outFile) resolve() error {
 		case info.IsDir():
 			return errors.New("it is a folder; name a file inside it")
 		case !info.Mode().IsRegular():
-			return fmt.Errorf("it is a %s, not a regular file, and is never replaced", kindOf(info.Mode()))
+			return fmt.Errorf("it is a %s, not a regular file, and is never replaced", input.TypeName(info.Mode()))
 		default:
 			o.target = p
 			return nil
 		}
 	}
-}
-
-func kindOf(m fs.FileMode) string {
-	switch {
-	case m&fs.ModeNamedPipe != 0:
-		return "FIFO (named pipe)"
-	case m&fs.ModeSocket != 0:
-		return "socket"
-	case m&fs.ModeCharDevice != 0:
-		return "character device"
-	case m&fs.ModeDevice != 0:
-		return "device"
-	}
-	return "special file"
 }
 
 // describe says where the file went, for the command's report.
@@ -144,7 +128,7 @@ func (o *outFile) write(stdout io.Writer, data []byte) (err error) {
 		return err
 	}
 	dir, base := filepath.Split(o.target)
-	atomicfile.RemoveStaleOf(cmp.Or(dir, "."), base, started) // best effort: a killed run's leftovers
+	atomicfile.RemoveStaleOf(cmp.Or(dir, "."), base) // best effort: a killed run's leftovers
 	mode := fs.FileMode(0o644)
 	if info, err := os.Stat(o.target); err == nil {
 		mode = info.Mode().Perm()
@@ -153,10 +137,4 @@ func (o *outFile) write(stdout io.Writer, data []byte) (err error) {
 }
 
 // quote quotes s for a message, cut to a few dozen characters.
-func quote(s string) string {
-	const most = 60
-	if len(s) > most {
-		return fmt.Sprintf("%q... (%d bytes)", s[:most], len(s))
-	}
-	return fmt.Sprintf("%q", s)
-}
+func quote(s string) string { return brief.Quote(s) }

@@ -52,7 +52,7 @@ Flags:
 
 Exit codes: 0 success, 2 bad input, 3 the relative width is still above
 --rel-width (the interval printed is proved all the same) or --occurrences
-over its budget, 4 interrupted (Ctrl-C).
+over its budget, 4 interrupted (Ctrl-C or SIGTERM).
 `,
 		run: runProb,
 	}

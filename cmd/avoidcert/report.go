@@ -8,6 +8,7 @@ import (
 	"io"
 	"os"
 
+	"avoidcert/internal/input"
 	"avoidcert/prove"
 	"avoidcert/report"
 )
@@ -56,8 +57,10 @@ Flags:
 
 Exit codes: 0 success, 1 a certificate the checker refuses or a census row
 it does not support, 2 bad input (a file that cannot be read, is no
-certificate, census or gate output), 3 a certificate over the checker's
-memory or work limit (undecided), 4 interrupted.
+certificate, census or gate output; only regular files within the limits of
+the README's "Input limits" are read), 3 a certificate over the checker's
+memory or work limit (undecided), 4 interrupted (Ctrl-C or SIGTERM) or out of
+space.
 `,
 		run: runReport,
 	}
@@ -119,7 +122,7 @@ func addInput(ctx context.Context, doc *report.Document, path string) error {
 		doc.Censuses = append(doc.Censuses, c)
 		return nil
 	}
-	data, err := os.ReadFile(path)
+	data, err := input.ReadFile(ctx, path, input.ReportInput)
 	if err != nil {
 		return err
 	}

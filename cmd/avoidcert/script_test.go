@@ -5,10 +5,13 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
+	"io"
 	"os"
 	"os/exec"
+	"path/filepath"
 	"strconv"
 	"strings"
+	"syscall"
 	"testing"
 	"time"
 
@@ -65,9 +68,12 @@ func TestScripts(t *testing.T) {
 		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){
 			"replace":   replaceCmd,
 			"exits":     exitsCmd,
-			"interrupt": interruptCmd,
+			"interrupt": signalCmd(os.Interrupt),
+			"terminate": signalCmd(syscall.SIGTERM),
 			"age":       ageCmd,
 			"mkfifo":    mkfifoCmd,
+			"tempfile":  tempfileCmd,
+			"repeat":    repeatCmd,
 			"sha256":    sha256Cmd,
 		},
 	})
@@ -117,37 +123,84 @@ func exitsCmd(ts *testscript.TestScript, neg bool, args []string) {
 	}
 }
 
-// interruptCmd is "interrupt CODE AFTER PROG ARGS...": it starts the
-// command, sends it SIGINT (Ctrl-C) after the duration AFTER, and fails
-// unless it then exits with exactly CODE within a minute.
-func interruptCmd(ts *testscript.TestScript, neg bool, args []string) {
-	if neg || len(args) < 3 {
-		ts.Fatalf("usage: interrupt CODE AFTER PROG ARGS...")
+// stopWithin is how long a command may take to stop after SIGINT or
+// SIGTERM in the scripts: the promise is a second, the margin is for a
+// loaded machine; a command that finishes its work first fails it.
+const stopWithin = 10 * time.Second
+
+// signalCmd makes "interrupt CODE AFTER PROG ARGS..." (SIGINT, Ctrl-C) and
+// "terminate CODE AFTER PROG ARGS..." (SIGTERM, what timeout, CI
+// cancellation and Slurm send): start the command, send the signal after
+// the duration AFTER, and fail unless it then exits with exactly CODE
+// within stopWithin. The command must still be running when the signal
+// comes (else the script tests nothing).
+func signalCmd(sig os.Signal) func(ts *testscript.TestScript, neg bool, args []string) {
+	return func(ts *testscript.TestScript, neg bool, args []string) {
+		if neg || len(args) < 3 {
+			ts.Fatalf("usage: interrupt|terminate CODE AFTER PROG ARGS...")
+		}
+		want, err := strconv.Atoi(args[0])
+		ts.Check(err)
+		after, err := time.ParseDuration(args[1])
+		ts.Check(err)
+		cmd := exec.Command(args[2], args[3:]...)
+		cmd.Dir = ts.MkAbs(".")
+		var stdout, stderr strings.Builder
+		cmd.Stdout, cmd.Stderr = &stdout, &stderr
+		ts.Check(cmd.Start())
+		done := make(chan error, 1)
+		go func() { done <- cmd.Wait() }()
+		select {
+		case err = <-done:
+			ts.Fatalf("finished (%v) before the signal after %v; give it more work\n%s", err, after, stderr.String())
+		case <-time.After(after):
+		}
+		ts.Check(cmd.Process.Signal(sig))
+		select {
+		case err = <-done:
+		case <-time.After(stopWithin):
+			cmd.Process.Kill()
+			ts.Fatalf("still running %v after %v", stopWithin, sig)
+		}
+		ts.Stdout().Write([]byte(stdout.String()))
+		ts.Stderr().Write([]byte(stderr.String()))
+		if got := exitCode(ts, err); got != want {
+			ts.Fatalf("exit code %d after %v, want %d\n%s", got, sig, want, stderr.String())
+		}
 	}
-	want, err := strconv.Atoi(args[0])
+}
+
+// tempfileCmd is "tempfile NAME OWNER AGE ID": it leaves the temp file of a
+// write of NAME as a writer would, last modified AGE ago: OWNER "live" names
+// a running process (this test's), "gone" one that has exited, "none" is a
+// name without a process id (earlier versions). The file is
+// ".NAME.avoidcert-tmp-PID-ID" (".NAME.avoidcert-tmp-ID" for none), beside
+// NAME.
+func tempfileCmd(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) != 4 {
+		ts.Fatalf("usage: tempfile NAME live|gone|none AGE ID")
+	}
+	var owner string
+	switch args[1] {
+	case "live":
+		owner = strconv.Itoa(os.Getpid()) + "-"
+	case "gone":
+		child := exec.Command(os.Args[0], "version")
+		child.Env = append(os.Environ(), "AVOIDCERT_TEST_AS_COMMAND=1")
+		child.Stdout = io.Discard
+		ts.Check(child.Run())
+		owner = strconv.Itoa(child.Process.Pid) + "-"
+	case "none":
+	default:
+		ts.Fatalf("tempfile: owner %q is not live, gone or none", args[1])
+	}
+	age, err := time.ParseDuration(args[2])
 	ts.Check(err)
-	after, err := time.ParseDuration(args[1])
-	ts.Check(err)
-	cmd := exec.Command(args[2], args[3:]...)
-	cmd.Dir = ts.MkAbs(".")
-	var stdout, stderr strings.Builder
-	cmd.Stdout, cmd.Stderr = &stdout, &stderr
-	ts.Check(cmd.Start())
-	time.Sleep(after)
-	ts.Check(cmd.Process.Signal(os.Interrupt))
-	done := make(chan error, 1)
-	go func() { done <- cmd.Wait() }()
-	select {
-	case err = <-done:
-	case <-time.After(time.Minute):
-		cmd.Process.Kill()
-		ts.Fatalf("still running a minute after SIGINT")
-	}
-	ts.Stdout().Write([]byte(stdout.String()))
-	ts.Stderr().Write([]byte(stderr.String()))
-	if got := exitCode(ts, err); got != want {
-		ts.Fatalf("exit code %d after SIGINT, want %d\n%s", got, want, stderr.String())
-	}
+	dir, base := filepath.Split(args[0])
+	path := ts.MkAbs(filepath.Join(dir, "."+base+".avoidcert-tmp-"+owner+args[3]))
+	ts.Check(os.WriteFile(path, []byte("partial"), 0o644))
+	when := time.Now().Add(-age)
+	ts.Check(os.Chtimes(path, when, when))
 }
 
 func exitCode(ts *testscript.TestScript, err error) int {
@@ -160,6 +213,22 @@ func exitCode(ts *testscript.TestScript, err error) int {
 	}
 	ts.Fatalf("%v", err)
 	return -1
+}
+
+// repeatCmd is "repeat FILE TEXT N [TEXT N]...": it writes FILE as each
+// TEXT repeated N times, in order; "\n" in a TEXT is a newline. The scripts
+// make huge and deeply nested inputs with it.
+func repeatCmd(ts *testscript.TestScript, neg bool, args []string) {
+	if neg || len(args) < 3 || len(args)%2 != 1 {
+		ts.Fatalf("usage: repeat FILE TEXT N [TEXT N]...")
+	}
+	var b bytes.Buffer
+	for i := 1; i < len(args); i += 2 {
+		n, err := strconv.Atoi(args[i+1])
+		ts.Check(err)
+		b.WriteString(strings.Repeat(strings.ReplaceAll(args[i], `\n`, "\n"), n))
+	}
+	ts.Check(os.WriteFile(ts.MkAbs(args[0]), b.Bytes(), 0o644))
 }
 
 // ageCmd is "age FILE D": it sets FILE's modification time D back (a

@@ -43,9 +43,17 @@ func About(n int64) string {
 }
 
 // Format writes n bytes with a binary unit: "8.0 GiB", "136.9 MiB",
-// "2.0 KiB", "512 bytes".
+// "2.0 KiB", "512 bytes", "3.5 TiB". From an exbibyte on it writes "1 EiB
+// or more": estimates saturate there (an estimate of 10^30 bytes is not
+// worth its digits, and need not be representable).
 func Format(n int64) string {
 	switch {
+	case n >= 1<<60:
+		return "1 EiB or more"
+	case n >= 1<<50:
+		return fmt.Sprintf("%.1f PiB", float64(n)/(1<<50))
+	case n >= 1<<40:
+		return fmt.Sprintf("%.1f TiB", float64(n)/(1<<40))
 	case n >= 1<<30:
 		return fmt.Sprintf("%.1f GiB", float64(n)/(1<<30))
 	case n >= 1<<20:

@@ -12,6 +12,10 @@ func TestFormat(t *testing.T) {
 		{100 << 20, "100.0 MiB"},
 		{8 << 30, "8.0 GiB"},
 		{3 << 29, "1.5 GiB"},
+		{5 << 40, "5.0 TiB"},
+		{3 << 49, "1.5 PiB"},
+		{1 << 60, "1 EiB or more"},
+		{1<<63 - 1, "1 EiB or more"},
 	} {
 		if got := Format(c.n); got != c.want {
 			t.Errorf("Format(%d) = %q, want %q", c.n, got, c.want)

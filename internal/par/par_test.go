@@ -35,3 +35,40 @@ func TestRunStopsWhenCancelled(t *testing.T) {
 		t.Fatalf("err %v, %d tasks ran after cancel", err, ran)
 	}
 }
+
+// A panic in a worker reaches the caller of Run as a panic of its own
+// goroutine, with the worker's value, instead of ending the process.
+func TestRunRaisesWorkerPanic(t *testing.T) {
+	defer func() {
+		r := recover()
+		wp, ok := r.(*WorkerPanic)
+		if !ok || wp.Value != "task 7" || len(wp.PanicStack()) == 0 {
+			t.Fatalf("recovered %v, want the worker's panic", r)
+		}
+	}()
+	Run(context.Background(), 100, func() func(int) {
+		return func(i int) {
+			if i == 7 {
+				panic("task 7")
+			}
+		}
+	})
+	t.Fatal("Run returned after a worker panicked")
+}
+
+func TestPanicBox(t *testing.T) {
+	var box PanicBox
+	done := make(chan struct{})
+	go func() {
+		defer close(done)
+		defer func() { box.Caught(recover()) }()
+		panic("in a goroutine")
+	}()
+	<-done
+	defer func() {
+		if wp, ok := recover().(*WorkerPanic); !ok || wp.Value != "in a goroutine" {
+			t.Fatalf("Raise did not raise the captured panic")
+		}
+	}()
+	box.Raise()
+}
