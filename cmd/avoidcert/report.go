@@ -16,12 +16,17 @@ func init() {
 		usage: `Usage: avoidcert report [--format md|html|tex] [--out FILE] INPUT...
 
 Each INPUT is a certificate (format version 3), the output of
-'avoidcert gate --json' (one JSON object per line), or a census folder
-(census.json and its certificates). For a census: the classes by lambda with
+'avoidcert gate --json' (one JSON object per line), the output of
+'avoidcert series --json', or a census folder (census.json and its
+certificates). For a census: the classes by lambda with
 their certified ranges, count groups and order, every certificate's SHA-256
 compared and the certificate re-checked, and a figure of lambda by class with
 the ranges as bars and the count groups marked. For a gate: its verdicts as
-recorded, with their evidence and certificates. For a certificate: the pattern
+recorded, with their evidence and certificates. For a series run: the
+observed count of each pattern against its exact mean, tails as recorded,
+the exact means and variances recomputed (a run whose recorded ones differ
+is refused), avoidance probabilities derived again, and in HTML a figure of
+observed against expected with the exact 95% ranges. For a certificate: the pattern
 set, the certified range of lambda and 1/lambda, the explicit bound for every
 n >= n0, the asymptotic form, the certificate's SHA-256 and the command that
 re-checks it. Each certificate is re-verified by the independent checker
@@ -92,8 +97,8 @@ func runReport(ctx context.Context, e *env, args []string) int {
 	return exitOK
 }
 
-// addInput reads one input: a census folder, a gate's JSON lines or a
-// certificate.
+// addInput reads one input: a census folder, the JSON of a series run, a
+// gate's JSON lines or a certificate.
 func addInput(ctx context.Context, doc *report.Document, path string) error {
 	if st, err := os.Stat(path); err == nil && st.IsDir() {
 		c, err := report.FromCensus(ctx, path)
@@ -106,6 +111,14 @@ func addInput(ctx context.Context, doc *report.Document, path string) error {
 	data, err := os.ReadFile(path)
 	if err != nil {
 		return err
+	}
+	if report.IsSeriesJSON(data) {
+		s, err := report.FromSeries(ctx, path, data)
+		if err != nil {
+			return err
+		}
+		doc.Series = append(doc.Series, s)
+		return nil
 	}
 	if report.IsGateJSON(data) {
 		g, err := report.FromGate(path, data)
