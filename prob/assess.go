@@ -41,7 +41,8 @@ type Assessment struct {
 	Central      [2]int
 	CentralKnown bool
 	// Need is the cost of the exact tails (the law to the observed count);
-	// when Exact is false it was over the budget left.
+	// when Exact is false it was over the budget left (+Inf: over the
+	// whole budget).
 	Need Cost
 }
 
@@ -89,8 +90,8 @@ func Assess(ctx context.Context, obs []Observation, lengths []int, b Budget) ([]
 		// no count exceeds a window per value and member: cap J there
 		most := values * len(g.rep.Patterns())
 		g.tails, g.forRange = min(g.tails, most), min(g.forRange, most)
-		g.cost = InterleavedCost(g.rep, lengths, g.tails)
-		g.costR = InterleavedCost(g.rep, lengths, g.forRange)
+		g.cost = InterleavedCost(g.rep, lengths, g.tails, b.Work)
+		g.costR = InterleavedCost(g.rep, lengths, g.forRange, b.Work)
 		for _, i := range g.members {
 			out[i].Need = g.cost
 		}

@@ -79,11 +79,11 @@ func convolve(a, b Law) Law {
 }
 
 // InterleavedCost estimates InterleavedLaw without running it: one layered
-// iteration per distinct length.
-func InterleavedCost(set pattern.Set, lengths []int, J int) Cost {
+// iteration per distinct length. A cost over limit word additions is +Inf.
+func InterleavedCost(set pattern.Set, lengths []int, J int, limit float64) Cost {
 	var c Cost
 	for _, n := range distinct(lengths) {
-		x := OccurrenceCost(set, n, J)
+		_, x := cheapestImage(set, n, J+1, limit)
 		c.Work += x.Work
 		c.Memory = max(c.Memory, x.Memory)
 	}

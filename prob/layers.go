@@ -288,11 +288,15 @@ type Cost struct {
 	Memory float64
 }
 
-// OccurrenceCost estimates Occurrences(set, N, J) without running it.
+// OccurrenceCost estimates Occurrences(set, N, J) without running it. A
+// cost far past any budget (10^20 word additions) is +Inf.
 func OccurrenceCost(set pattern.Set, N, J int) Cost {
-	_, c := cheapestImage(set, N, J+1)
+	_, c := cheapestImage(set, N, J+1, noLimit)
 	return c
 }
+
+// noLimit is the work past which estimates stop: far beyond any budget.
+const noLimit = 1e20
 
 // cheapestImage returns the automaton of the image of set under reversal,
 // complement or both that costs least at N: the four have the same
@@ -300,21 +304,25 @@ func OccurrenceCost(set pattern.Set, N, J int) Cost {
 // complemented draws matches the reversed or complemented member), but not
 // always the same kept values (1342 keeps 3, its reverse-complement 3124
 // fewer).
-func cheapestImage(set pattern.Set, N, layers int) (*automaton, Cost) {
+// Costs over limit come out +Inf.
+func cheapestImage(set pattern.Set, N, layers int, limit float64) (*automaton, Cost) {
 	var best *automaton
 	var bestCost Cost
 	for _, img := range set.Symmetric() {
 		a := newAutomaton(img)
-		if c := a.cost(N, layers); best == nil || c.Work < bestCost.Work {
+		if c := a.cost(N, layers, limit); best == nil || c.Work < bestCost.Work {
 			best, bestCost = a, c
 		}
 	}
 	return best, bestCost
 }
 
-func (a *automaton) cost(N, layers int) Cost {
-	var c Cost
-	for n := 0; n < N; n++ {
+// cost estimates the iteration to N with the given layers; past limit it
+// stops and returns +Inf (N may be 10^9: the last step alone is weighed
+// first, and it is the largest).
+func (a *automaton) cost(N, layers int, limit float64) Cost {
+	over := Cost{Work: math.Inf(1), Memory: math.Inf(1)}
+	step := func(n int) (work, memory float64) {
 		w := wordsEstimate(n + 1)
 		ops, held := 0.0, 0.0
 		for q, st := range a.states {
@@ -325,11 +333,18 @@ func (a *automaton) cost(N, layers int) Cost {
 				ops += 2 * a.states[m.from].coefficients(n)
 			}
 		}
-		c.Work += ops * float64(layers) * w
-		c.Memory = max(c.Memory, held*float64(layers)*w*8)
-		if c.Work > 1e20 {
-			// far past any budget: stop estimating (N may be 10^9)
-			return Cost{Work: math.Inf(1), Memory: math.Inf(1)}
+		return ops * float64(layers) * w, held * float64(layers) * w * 8
+	}
+	if last, _ := step(N - 1); N > 0 && last > limit {
+		return over
+	}
+	var c Cost
+	for n := 0; n < N; n++ {
+		work, memory := step(n)
+		c.Work += work
+		c.Memory = max(c.Memory, memory)
+		if c.Work > limit {
+			return over
 		}
 	}
 	return c
@@ -345,7 +360,7 @@ func Occurrences(ctx context.Context, set pattern.Set, N, J int) ([]*big.Int, er
 	if N < 0 || J < 0 {
 		return nil, fmt.Errorf("prob: occurrences need N >= 0 and J >= 0, not N = %d, J = %d", N, J)
 	}
-	a, _ := cheapestImage(set, N, J+1)
+	a, _ := cheapestImage(set, N, J+1, noLimit)
 	return a.run(ctx, N, J)
 }
 

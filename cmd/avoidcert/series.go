@@ -352,7 +352,7 @@ func seriesAssess(ctx context.Context, e *env, out *seriesOutput, f *seriesFlags
 	}
 	code := exitOK
 	approx := 0
-	var need float64
+	var need prob.Cost
 	for i := range out.Items {
 		it, a := &out.Items[i], as[i]
 		it.Mean, it.Variance = a.Moments.Mean.RatString(), a.Moments.Variance.RatString()
@@ -366,12 +366,13 @@ func seriesAssess(ctx context.Context, e *env, out *seriesOutput, f *seriesFlags
 			}
 		} else {
 			approx++
-			need = max(need, a.Need.Work)
+			if a.Need.Work > need.Work {
+				need = a.Need
+			}
 			it.Tails = seriesTails{Method: "normal approximation",
 				AtMost:  seriesP{Approx: strconv.FormatFloat(a.ApproxAtMost, 'g', f.digits, 64)},
 				AtLeast: seriesP{Approx: strconv.FormatFloat(a.ApproxAtLeast, 'g', f.digits, 64)},
-				Note: fmt.Sprintf("the exact law needs about %.2g word additions and %s (estimated), over the budget left of --max-work and --max-memory: an approximation, not a bound",
-					a.Need.Work, bytesize.Format(int64(a.Need.Memory)))}
+				Note:    "the exact law is over the budget left of --max-work and --max-memory (" + needText(a.Need, f.maxWork) + "): an approximation, not a bound"}
 		}
 		if it.Observed == 0 && f.length == 0 {
 			c, err := seriesAvoidance(ctx, it, items[i], lengths, f)
@@ -386,11 +387,19 @@ func seriesAssess(ctx context.Context, e *env, out *seriesOutput, f *seriesFlags
 		if approx == 1 {
 			laws = "1 exact law is"
 		}
-		fmt.Fprintf(e.stderr, "avoidcert: series: undecided: %s over the budget (the largest needs about %.2g word additions); raise --max-work or --max-memory, or leave out --exact for a normal approximation\n", laws, need)
+		fmt.Fprintf(e.stderr, "avoidcert: series: undecided: %s over the budget (the largest: %s); raise --max-work or --max-memory, or leave out --exact for a normal approximation\n", laws, needText(need, f.maxWork))
 		return exitUndecided, errSilent
 	}
 	out.Notes = seriesNotes(out, f, approx)
 	return code, nil
+}
+
+// needText says what an exact law over the budget would need.
+func needText(c prob.Cost, budget float64) string {
+	if math.IsInf(c.Work, 1) {
+		return fmt.Sprintf("more than the %.2g word additions of --max-work", budget)
+	}
+	return fmt.Sprintf("estimated %.2g word additions and %s", c.Work, bytesize.Format(int64(c.Memory)))
 }
 
 // errSilent ends a command whose message is already written.
