@@ -19,73 +19,12 @@ import (
 	"avoidcert/pattern"
 	"avoidcert/prob"
 	"avoidcert/prove"
+	"avoidcert/series"
 )
-
-// SeriesRun is the JSON of 'avoidcert series --json' (docs/series.md).
-type SeriesRun struct {
-	Format  string `json:"format"`
-	Version int    `json:"version"`
-	Input   struct {
-		File              string `json:"file"`
-		Column            string `json:"column"`
-		Header            string `json:"header"`
-		Values            int    `json:"values"`
-		SkippedMissing    int64  `json:"skipped_missing"`
-		SkippedNotNumbers int64  `json:"skipped_not_numbers"`
-		FirstSkippedLine  int    `json:"first_skipped_line"`
-	} `json:"input"`
-	Delay  int `json:"delay"`
-	Length int `json:"length"`
-	Ties   struct {
-		Policy      string `json:"policy"`
-		Seed        string `json:"seed"`
-		TiedWindows int64  `json:"tied_windows"`
-		First       *struct {
-			Lines [2]int `json:"lines"`
-			Value string `json:"value"`
-		} `json:"first"`
-	} `json:"ties"`
-	Items []SeriesItem `json:"items"`
-	Notes []string     `json:"notes"`
-}
-
-// SeriesItem is one pattern (or set) of a series run.
-type SeriesItem struct {
-	Pattern     string   `json:"pattern"`
-	Members     []string `json:"members"`
-	Windows     int64    `json:"windows"`
-	Observed    int64    `json:"observed"`
-	Mean        string   `json:"mean"`
-	Variance    string   `json:"variance"`
-	MeanDecimal string   `json:"mean_decimal"`
-	SD          string   `json:"sd"`
-	Tails       struct {
-		Method    string      `json:"method"`
-		AtMost    seriesValue `json:"at_most"`
-		AtLeast   seriesValue `json:"at_least"`
-		Central95 *struct {
-			Lo int `json:"lo"`
-			Hi int `json:"hi"`
-		} `json:"central_95"`
-		Note string `json:"note"`
-	} `json:"tails"`
-	Avoidance *struct {
-		Method string `json:"method"`
-		Lo     string `json:"lo"`
-		Hi     string `json:"hi"`
-		Note   string `json:"note"`
-	} `json:"avoidance"`
-}
-
-type seriesValue struct {
-	Lo     string `json:"lo"`
-	Hi     string `json:"hi"`
-	Approx string `json:"approx"`
-}
 
 // shown is a tail probability for a table: an exact one as its outward
 // interval, an approximation marked ~.
-func (v seriesValue) shown() string {
+func shownProbability(v series.Probability) string {
 	if v.Approx != "" {
 		return "~" + v.Approx
 	}
@@ -100,7 +39,7 @@ func (v seriesValue) shown() string {
 // the patterns seen 0 times derived again in this run.
 type Series struct {
 	Name string
-	Run  SeriesRun
+	Run  series.Run
 	// Avoidance[i] is item i's avoidance probability derived here (exact,
 	// or from a certificate the checker accepted while the report was
 	// made), "" for items seen at least once.
@@ -112,7 +51,7 @@ func IsSeriesJSON(data []byte) bool {
 	var probe struct {
 		Format string `json:"format"`
 	}
-	return json.Unmarshal(bytes.TrimSpace(data), &probe) == nil && probe.Format == "avoidcert-series"
+	return json.Unmarshal(bytes.TrimSpace(data), &probe) == nil && probe.Format == series.RunFormat
 }
 
 // seriesDigits are the significant digits of the avoidance probabilities a
@@ -135,12 +74,12 @@ func FromSeries(ctx context.Context, name string, data []byte) (*Series, error) 
 	}
 	r := &s.Run
 	switch {
-	case r.Version != 1:
-		return nil, fmt.Errorf("%s: series format version %d; this report reads version 1", name, r.Version)
+	case r.Version != series.RunVersion:
+		return nil, fmt.Errorf("%s: series format version %d; this report reads version %d", name, r.Version, series.RunVersion)
 	case r.Delay < 1 || r.Input.Values < 0 || len(r.Items) == 0:
 		return nil, fmt.Errorf("%s: a series run without values, delay or patterns", name)
 	}
-	lengths := prob.Interleave(r.Input.Values, r.Delay)
+	lengths := prob.Interleave(int(r.Input.Values), r.Delay)
 	for _, it := range r.Items {
 		set, err := pattern.ParseSet(it.Members)
 		if err != nil {
@@ -194,7 +133,7 @@ func (s *Series) rows() [][]string {
 			rng = fmt.Sprintf("%d..%d", c.Lo, c.Hi)
 		}
 		out = append(out, []string{it.Pattern, fmt.Sprint(it.Windows), fmt.Sprint(it.Observed), shortDecimal(it.MeanDecimal), it.SD,
-			it.Tails.AtMost.shown(), it.Tails.AtLeast.shown(), it.Tails.Method, rng})
+			shownProbability(it.Tails.AtMost), shownProbability(it.Tails.AtLeast), it.Tails.Method, rng})
 	}
 	return out
 }

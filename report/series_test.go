@@ -1,15 +1,11 @@
 package report
 
 import (
-	"bytes"
 	"context"
-	"io"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
-
-	"github.com/google/go-cmp/cmp"
 )
 
 // The series runs in testdata were made by 'avoidcert series --json' on a
@@ -41,29 +37,7 @@ func TestSeriesGolden(t *testing.T) {
 	if got := doc.Series[0].Avoidance[0]; !strings.HasPrefix(got, "[0.107936, 0.107937], exact") {
 		t.Errorf("avoidance derived as %q", got)
 	}
-	for _, tc := range []struct {
-		name   string
-		render func(io.Writer, *Document) error
-	}{{"series.md", Markdown}, {"series.html", HTML}, {"series.tex", TeX}} {
-		var b bytes.Buffer
-		if err := tc.render(&b, doc); err != nil {
-			t.Fatal(err)
-		}
-		path := filepath.Join("testdata", tc.name+".golden")
-		if *update {
-			if err := os.WriteFile(path, b.Bytes(), 0o644); err != nil {
-				t.Fatal(err)
-			}
-			continue
-		}
-		want, err := os.ReadFile(path)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if diff := cmp.Diff(string(want), b.String()); diff != "" {
-			t.Errorf("%s differs from the golden file (go test ./report -update to accept) (-want +got):\n%s", tc.name, diff)
-		}
-	}
+	checkGolden(t, doc, "series")
 }
 
 // A run whose recorded mean or variance is not that of its patterns is

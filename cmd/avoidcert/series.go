@@ -161,8 +161,8 @@ func runSeries(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return seriesReadFailure(e, ctx, err)
 	}
-	out := seriesOutput{Format: "avoidcert-series", Version: 1, Delay: f.delay, Length: f.length,
-		Input: seriesInput{File: file, Column: f.column, Header: rd.Header, Values: tally.Values,
+	out := series.Run{Format: series.RunFormat, Version: series.RunVersion, Delay: f.delay, Length: f.length,
+		Input: series.Input{File: file, Column: f.column, Header: rd.Header, Values: tally.Values,
 			SkippedMissing: rd.Skipped.Missing, SkippedNotNumbers: rd.Skipped.NotNumbers, FirstSkippedLine: rd.Skipped.FirstLine}}
 	if err := seriesTies(&out, tally, opts, f.ties); err != nil {
 		return failure(e, err)
@@ -279,8 +279,8 @@ func seriesReadFailure(e *env, ctx context.Context, err error) int {
 }
 
 // seriesTies records the ties and refuses them under --ties refuse.
-func seriesTies(out *seriesOutput, t *series.Tally, o series.Options, policy string) error {
-	out.Ties = seriesTieReport{Policy: policy}
+func seriesTies(out *series.Run, t *series.Tally, o series.Options, policy string) error {
+	out.Ties = series.TieNotes{Policy: policy}
 	if o.Ties == series.TiesRandom {
 		out.Ties.Seed = strconv.FormatUint(o.Seed, 10)
 	}
@@ -288,7 +288,7 @@ func seriesTies(out *seriesOutput, t *series.Tally, o series.Options, policy str
 		out.Ties.TiedWindows += t.Tied[k]
 	}
 	if t.FirstTie != nil {
-		out.Ties.First = &seriesTie{Lines: t.FirstTie.Lines, Value: strconv.FormatFloat(t.FirstTie.Value, 'g', -1, 64)}
+		out.Ties.First = &series.TiedLines{Lines: t.FirstTie.Lines, Value: strconv.FormatFloat(t.FirstTie.Value, 'g', -1, 64)}
 	}
 	if o.Ties == series.TiesRefuse && t.FirstTie != nil {
 		return usagef("series: %s: %d tied windows (equal values in one window, which i.i.d. continuous draws never have); the first: lines %d and %d both hold %s; break ties with --ties order or --ties random --seed S, or remove them",
@@ -330,11 +330,11 @@ func sortedLengths(m map[int]int64) []int {
 }
 
 // seriesAssess fills the items: counts, moments, tails, avoidance.
-func seriesAssess(ctx context.Context, e *env, out *seriesOutput, f *seriesFlags, items []pattern.Set, t *series.Tally) (int, error) {
+func seriesAssess(ctx context.Context, e *env, out *series.Run, f *seriesFlags, items []pattern.Set, t *series.Tally) (int, error) {
 	lengths := prob.Interleave(int(t.Values), f.delay)
 	obs := make([]prob.Observation, len(items))
 	for i, s := range items {
-		it := seriesItem{Pattern: s.String(), Members: s.Strings()}
+		it := series.Item{Pattern: s.String(), Members: s.Strings()}
 		seen := map[int]bool{}
 		for _, m := range s.Patterns() {
 			it.Observed += t.Patterns[len(m)][pattern.Rank(m)]
@@ -358,20 +358,20 @@ func seriesAssess(ctx context.Context, e *env, out *seriesOutput, f *seriesFlags
 		it.Mean, it.Variance = a.Moments.Mean.RatString(), a.Moments.Variance.RatString()
 		it.MeanDecimal, it.SD = roundedDecimal(a.Moments.Mean), sdOf(a.Moments.Variance)
 		if a.Exact {
-			it.Tails = seriesTails{Method: "exact",
-				AtMost:  seriesP{Lo: interval.DecimalDown(a.AtMost, f.digits), Hi: interval.DecimalUp(a.AtMost, f.digits)},
-				AtLeast: seriesP{Lo: interval.DecimalDown(a.AtLeast, f.digits), Hi: interval.DecimalUp(a.AtLeast, f.digits)}}
+			it.Tails = series.Tails{Method: "exact",
+				AtMost:  series.Probability{Lo: interval.DecimalDown(a.AtMost, f.digits), Hi: interval.DecimalUp(a.AtMost, f.digits)},
+				AtLeast: series.Probability{Lo: interval.DecimalDown(a.AtLeast, f.digits), Hi: interval.DecimalUp(a.AtLeast, f.digits)}}
 			if a.CentralKnown {
-				it.Tails.Central95 = &seriesRange{Lo: a.Central[0], Hi: a.Central[1]}
+				it.Tails.Central95 = &series.Range{Lo: a.Central[0], Hi: a.Central[1]}
 			}
 		} else {
 			approx++
 			if a.Need.Work > need.Work {
 				need = a.Need
 			}
-			it.Tails = seriesTails{Method: "normal approximation",
-				AtMost:  seriesP{Approx: strconv.FormatFloat(a.ApproxAtMost, 'g', f.digits, 64)},
-				AtLeast: seriesP{Approx: strconv.FormatFloat(a.ApproxAtLeast, 'g', f.digits, 64)},
+			it.Tails = series.Tails{Method: "normal approximation",
+				AtMost:  series.Probability{Approx: strconv.FormatFloat(a.ApproxAtMost, 'g', f.digits, 64)},
+				AtLeast: series.Probability{Approx: strconv.FormatFloat(a.ApproxAtLeast, 'g', f.digits, 64)},
 				Note:    "the exact law is over the budget left of --max-work and --max-memory (" + needText(a.Need, f.maxWork) + "): an approximation, not a bound"}
 		}
 		if it.Observed == 0 && f.length == 0 {
@@ -406,7 +406,7 @@ func needText(c prob.Cost, budget float64) string {
 var errSilent = errors.New("reported")
 
 // seriesAvoidance fills the avoidance probability of an item seen 0 times.
-func seriesAvoidance(ctx context.Context, it *seriesItem, set pattern.Set, lengths []int, f *seriesFlags) (int, error) {
+func seriesAvoidance(ctx context.Context, it *series.Item, set pattern.Set, lengths []int, f *seriesFlags) (int, error) {
 	cctx := ctx
 	if f.timeout > 0 {
 		var cancel context.CancelFunc
@@ -417,7 +417,7 @@ func seriesAvoidance(ctx context.Context, it *seriesItem, set pattern.Set, lengt
 	if err != nil {
 		return 0, err
 	}
-	a := &seriesAvoid{}
+	a := &series.Avoidance{}
 	it.Avoidance = a
 	if av.Exact != nil {
 		a.Method = "exact"
@@ -442,7 +442,7 @@ func seriesAvoidance(ctx context.Context, it *seriesItem, set pattern.Set, lengt
 }
 
 // seriesNotes are the caveats printed with every result.
-func seriesNotes(out *seriesOutput, f *seriesFlags, approx int) []string {
+func seriesNotes(out *series.Run, f *seriesFlags, approx int) []string {
 	notes := []string{"hypothesis: the values are i.i.d. draws from one continuous distribution; a small probability is evidence against it for a pattern chosen before looking at the data, not a verdict on the data's source (README, \"What the probabilities mean\")"}
 	if f.delay > 1 {
 		notes = append(notes, fmt.Sprintf("delay %d: the %d interleaved subsequences are independent under the hypothesis; the exact law is the convolution of theirs", f.delay, f.delay))
@@ -470,80 +470,8 @@ func sdOf(v *big.Rat) string {
 	return strconv.FormatFloat(math.Sqrt(x), 'g', 6, 64)
 }
 
-type seriesInput struct {
-	File              string `json:"file"`
-	Column            string `json:"column,omitempty"`
-	Header            string `json:"header,omitempty"`
-	Values            int64  `json:"values"`
-	SkippedMissing    int64  `json:"skipped_missing"`
-	SkippedNotNumbers int64  `json:"skipped_not_numbers"`
-	FirstSkippedLine  int    `json:"first_skipped_line,omitempty"`
-}
-
-type seriesTie struct {
-	Lines [2]int `json:"lines"`
-	Value string `json:"value"`
-}
-
-type seriesTieReport struct {
-	Policy      string     `json:"policy"`
-	Seed        string     `json:"seed,omitempty"`
-	TiedWindows int64      `json:"tied_windows"`
-	First       *seriesTie `json:"first,omitempty"`
-}
-
-type seriesP struct {
-	Lo     string `json:"lo,omitempty"`
-	Hi     string `json:"hi,omitempty"`
-	Approx string `json:"approx,omitempty"`
-}
-
-type seriesRange struct {
-	Lo int `json:"lo"`
-	Hi int `json:"hi"`
-}
-
-type seriesTails struct {
-	Method    string       `json:"method"`
-	AtMost    seriesP      `json:"at_most"`
-	AtLeast   seriesP      `json:"at_least"`
-	Central95 *seriesRange `json:"central_95,omitempty"`
-	Note      string       `json:"note,omitempty"`
-}
-
-type seriesAvoid struct {
-	Method string `json:"method"`
-	Lo     string `json:"lo"`
-	Hi     string `json:"hi"`
-	Note   string `json:"note"`
-}
-
-type seriesItem struct {
-	Pattern     string       `json:"pattern"`
-	Members     []string     `json:"members"`
-	Windows     int64        `json:"windows"`
-	Observed    int64        `json:"observed"`
-	Mean        string       `json:"mean"`
-	Variance    string       `json:"variance"`
-	MeanDecimal string       `json:"mean_decimal"`
-	SD          string       `json:"sd"`
-	Tails       seriesTails  `json:"tails"`
-	Avoidance   *seriesAvoid `json:"avoidance,omitempty"`
-}
-
-type seriesOutput struct {
-	Format  string          `json:"format"`
-	Version int             `json:"version"`
-	Input   seriesInput     `json:"input"`
-	Delay   int             `json:"delay"`
-	Length  int             `json:"length,omitempty"`
-	Ties    seriesTieReport `json:"ties"`
-	Items   []seriesItem    `json:"items"`
-	Notes   []string        `json:"notes"`
-}
-
 // writeSeriesText prints the result as a table with notes.
-func writeSeriesText(w io.Writer, o seriesOutput, digits int) {
+func writeSeriesText(w io.Writer, o series.Run, digits int) {
 	src := o.Input.File
 	if o.Input.Column != "" {
 		src += ", column " + o.Input.Column
@@ -591,7 +519,7 @@ func writeSeriesText(w io.Writer, o seriesOutput, digits int) {
 
 // shownP is a probability for the table: an exact one's upper end, or an
 // approximation marked ~.
-func shownP(p seriesP) string {
+func shownP(p series.Probability) string {
 	if p.Approx != "" {
 		return "~" + p.Approx
 	}
@@ -600,7 +528,7 @@ func shownP(p seriesP) string {
 
 // pBelow reports whether a printed probability lies below x: an exact
 // one's upper end, or an approximation's value.
-func pBelow(p seriesP, x float64) bool {
+func pBelow(p series.Probability, x float64) bool {
 	s := p.Hi
 	if p.Approx != "" {
 		s = p.Approx
