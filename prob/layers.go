@@ -284,7 +284,8 @@ type Cost struct {
 	// move and layer, one per target coefficient and layer, each times the
 	// words of the step's numbers.
 	Work float64
-	// Memory is the bytes of the two iterates held at the largest step.
+	// Memory is the bytes of the two iterates held at the largest step,
+	// with the room to grow they are allocated with.
 	Memory float64
 }
 
@@ -333,7 +334,8 @@ func (a *automaton) cost(N, layers int, limit float64) Cost {
 				ops += 2 * a.states[m.from].coefficients(n)
 			}
 		}
-		return ops * float64(layers) * w, held * float64(layers) * w * 8
+		// storage is allocated with a quarter to spare (stepper.reuse)
+		return ops * float64(layers) * w, held * float64(layers) * w * 8 * 1.25
 	}
 	if last, _ := step(N - 1); N > 0 && last > limit {
 		return over
@@ -406,6 +408,7 @@ type stepper struct {
 	w, nw  int // words per coefficient at n and at n+1
 	cur    [][][]big.Word
 	next   [][][]big.Word
+	spare  [][][]big.Word // the storage of the step before cur, free for next
 	// per step: for every move into q (into[q][i]) and source coefficient
 	// c, where its line starts and one past where it ends (-1: past the
 	// last target), or how many times it lands on one target.
@@ -427,7 +430,7 @@ func (s *stepper) step(ctx context.Context, n int) error {
 		s.next[q] = make([][]big.Word, s.layers)
 		if size := int(st.coefficients(n+1)) * s.nw; size > 0 {
 			for t := range s.next[q] {
-				s.next[q][t] = make([]big.Word, size)
+				s.next[q][t] = s.reuse(q, t, size)
 			}
 			live = append(live, q)
 		}
@@ -454,8 +457,25 @@ func (s *stepper) step(ctx context.Context, n int) error {
 	if err != nil {
 		return err
 	}
-	s.cur, s.w = s.next, s.nw
+	s.spare, s.cur, s.w = s.cur, s.next, s.nw
 	return nil
+}
+
+// reuse returns a zeroed slice of size words for layer t of state q: the
+// storage of two steps back when it is large enough (fresh memory costs a
+// page fault per page, a cleared slice only the clearing), new storage with
+// room to grow otherwise.
+func (s *stepper) reuse(q, t, size int) []big.Word {
+	if s.spare != nil {
+		old := s.spare[q][t]
+		s.spare[q][t] = nil // too small or taken: either way no longer held
+		if cap(old) >= size {
+			b := old[:size]
+			clear(b)
+			return b
+		}
+	}
+	return make([]big.Word, size, size+size/4)
 }
 
 // index fills first, past, times and pred for target state q.

@@ -153,11 +153,7 @@ func runSeries(ctx context.Context, e *env, args []string) int {
 		return failure(e, usagef("series: %v", err))
 	}
 	defer in.Close()
-	rd, err := series.NewReader(ctx, file, in, format)
-	if err != nil {
-		return seriesReadFailure(e, ctx, err)
-	}
-	tally, err := series.Count(rd, opts)
+	rd, tally, err := seriesRead(ctx, file, in, format, opts)
 	if err != nil {
 		return seriesReadFailure(e, ctx, err)
 	}
@@ -268,6 +264,33 @@ func seriesOptions(f *seriesFlags, lengths []int) (series.Options, error) {
 		return o, usagef("series: --timeout must not be negative")
 	}
 	return o, nil
+}
+
+// seriesRead reads and tallies the series on a goroutine of its own, so
+// that Ctrl-C ends the command at once even while a read from standard
+// input waits for data (the reader checks ctx only between values).
+func seriesRead(ctx context.Context, file string, in io.Reader, format series.Format, opts series.Options) (*series.Reader, *series.Tally, error) {
+	type result struct {
+		rd  *series.Reader
+		t   *series.Tally
+		err error
+	}
+	done := make(chan result, 1)
+	go func() {
+		rd, err := series.NewReader(ctx, file, in, format)
+		if err != nil {
+			done <- result{err: err}
+			return
+		}
+		t, err := series.Count(rd, opts)
+		done <- result{rd, t, err}
+	}()
+	select {
+	case <-ctx.Done():
+		return nil, nil, ctx.Err()
+	case r := <-done:
+		return r.rd, r.t, r.err
+	}
 }
 
 // seriesReadFailure reports a fault of the input (exit 2) or an interrupt.

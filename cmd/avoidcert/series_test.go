@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/santhosh-tekuri/jsonschema/v6"
 )
@@ -65,5 +66,27 @@ func TestSeriesJSONSchema(t *testing.T) {
 		if schema.Validate(doc) == nil {
 			t.Errorf("series %v: the schema accepts version 2", args)
 		}
+	}
+}
+
+// Ctrl-C ends series at once while it waits for standard input.
+func TestSeriesInterruptWhileReading(t *testing.T) {
+	r, w, err := os.Pipe()
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer w.Close()
+	defer r.Close()
+	w.Write([]byte("1\n2\n")) // some values, then nothing more
+	saved := os.Stdin
+	os.Stdin = r
+	defer func() { os.Stdin = saved }()
+	ctx, cancel := context.WithTimeout(context.Background(), 200*time.Millisecond)
+	defer cancel()
+	var stdout, stderr bytes.Buffer
+	start := time.Now()
+	code := run(ctx, &env{stdout: &stdout, stderr: &stderr}, []string{"series", "-", "123"})
+	if code != exitAborted || stdout.Len() != 0 || time.Since(start) > 10*time.Second {
+		t.Errorf("exit %d after %v, stdout %q, stderr %q; want 4 at once, nothing written", code, time.Since(start), stdout.String(), stderr.String())
 	}
 }
