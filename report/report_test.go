@@ -136,8 +136,8 @@ func TestRefusesAlteredCertificate(t *testing.T) {
 	}
 }
 
-// The LaTeX fragment compiles inside a minimal document (no packages) when
-// a TeX engine is installed.
+// The LaTeX fragment (every kind of input) compiles inside a minimal
+// document (no packages) when a TeX engine is installed.
 func TestTeXCompiles(t *testing.T) {
 	engine := findTool("pdflatex", "lualatex", "xelatex")
 	if engine == "" {
@@ -145,7 +145,9 @@ func TestTeXCompiles(t *testing.T) {
 	}
 	dir := t.TempDir()
 	var b bytes.Buffer
-	if err := TeX(&b, goldenDocument(t)); err != nil {
+	all := goldenDocument(t)
+	all.Series = loadSeries(t, "series-levels.json", "series-levels-3.json")
+	if err := TeX(&b, all); err != nil {
 		t.Fatal(err)
 	}
 	os.WriteFile(filepath.Join(dir, "fragment.tex"), b.Bytes(), 0o644)
