@@ -28,6 +28,12 @@
 //     bracket run through prove.Certify to the certificate's digits, and
 //     exact counts from transfer.Counts), and the page says so. The
 //     observed rate in the width figure is an estimate and labelled one.
+//   - A series run (the JSON of 'avoidcert series', FromSeries) is restated
+//     as recorded, except that every exact mean and variance is recomputed
+//     from its patterns, number of values and delay (a run whose recorded
+//     ones differ is refused) and every avoidance probability is derived
+//     again (prob.AvoidAll: exact, or from a certificate the checker
+//     accepts while the report is made). The page says which is which.
 //   - Rendering is deterministic: the same certificate gives the same
 //     bytes (no times, no host names), which the golden files rely on.
 //

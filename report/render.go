@@ -42,6 +42,7 @@ type Document struct {
 	Certificates []*Certificate
 	Censuses     []*Census
 	Gates        []*Gate
+	Series       []*Series
 }
 
 // lower is the lower half of the bound for every n, plain text.
@@ -62,6 +63,9 @@ func Markdown(w io.Writer, d *Document) error {
 	}
 	for _, g := range d.Gates {
 		b.WriteString(g.markdown())
+	}
+	for _, s := range d.Series {
+		b.WriteString(s.markdown())
 	}
 	for _, r := range d.Certificates {
 		fmt.Fprintf(&b, "## %s\n\n| | |\n|---|---|\n", strings.Join(r.Patterns(), ", "))
@@ -99,6 +103,13 @@ td code{word-break:break-all}figure{margin:1.5em 0}figcaption{font-size:.9em;col
 	}
 	for _, g := range d.Gates {
 		b.WriteString(g.html())
+	}
+	for _, s := range d.Series {
+		h, err := s.html()
+		if err != nil {
+			return err
+		}
+		b.WriteString(h)
 	}
 	for _, r := range d.Certificates {
 		fmt.Fprintf(&b, "<h2>%s</h2>\n<table>\n", html.EscapeString(strings.Join(r.Patterns(), ", ")))
@@ -139,6 +150,9 @@ func TeX(w io.Writer, d *Document) error {
 	}
 	for _, g := range d.Gates {
 		b.WriteString(g.tex())
+	}
+	for _, s := range d.Series {
+		b.WriteString(s.tex())
 	}
 	for _, r := range d.Certificates {
 		lo, hi := r.Lambda()

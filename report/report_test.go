@@ -58,16 +58,23 @@ func goldenDocument(t *testing.T) *Document {
 }
 
 func TestGolden(t *testing.T) {
-	doc := goldenDocument(t)
+	checkGolden(t, goldenDocument(t), "report")
+}
+
+// checkGolden renders doc in the three formats and compares each with
+// testdata/BASE.{md,html,tex}.golden (or rewrites them with -update).
+func checkGolden(t *testing.T, doc *Document, base string) {
+	t.Helper()
 	for _, tc := range []struct {
-		name   string
+		ext    string
 		render func(io.Writer, *Document) error
-	}{{"report.md", Markdown}, {"report.html", HTML}, {"report.tex", TeX}} {
+	}{{"md", Markdown}, {"html", HTML}, {"tex", TeX}} {
+		name := base + "." + tc.ext
 		var b bytes.Buffer
 		if err := tc.render(&b, doc); err != nil {
 			t.Fatal(err)
 		}
-		path := filepath.Join("testdata", tc.name+".golden")
+		path := filepath.Join("testdata", name+".golden")
 		if *update {
 			if err := os.WriteFile(path, b.Bytes(), 0o644); err != nil {
 				t.Fatal(err)
@@ -79,7 +86,7 @@ func TestGolden(t *testing.T) {
 			t.Fatal(err)
 		}
 		if d := cmp.Diff(string(want), b.String()); d != "" {
-			t.Errorf("%s differs from its golden file (go test ./report -update to accept):\n%s", tc.name, d)
+			t.Errorf("%s differs from its golden file (go test ./report -update to accept):\n%s", name, d)
 		}
 	}
 }
@@ -129,8 +136,8 @@ func TestRefusesAlteredCertificate(t *testing.T) {
 	}
 }
 
-// The LaTeX fragment compiles inside a minimal document (no packages) when
-// a TeX engine is installed.
+// The LaTeX fragment (every kind of input) compiles inside a minimal
+// document (no packages) when a TeX engine is installed.
 func TestTeXCompiles(t *testing.T) {
 	engine := findTool("pdflatex", "lualatex", "xelatex")
 	if engine == "" {
@@ -138,7 +145,9 @@ func TestTeXCompiles(t *testing.T) {
 	}
 	dir := t.TempDir()
 	var b bytes.Buffer
-	if err := TeX(&b, goldenDocument(t)); err != nil {
+	all := goldenDocument(t)
+	all.Series = loadSeries(t, "series-levels.json", "series-levels-3.json")
+	if err := TeX(&b, all); err != nil {
 		t.Fatal(err)
 	}
 	os.WriteFile(filepath.Join(dir, "fragment.tex"), b.Bytes(), 0o644)

@@ -34,8 +34,8 @@ below --rel-width, and the output says when a budget stopped it first.
 
 With --occurrences J it also prints the exact P(count = j), j = 0..J, of
 the number of windows that match a member of the set, from a layered
-iteration (one layer per count); N must be within its own range (the
-estimated work is checked before it starts).
+iteration (one layer per count); its estimated work and memory are checked
+against --max-work and --max-memory before it starts.
 
 These are properties of the i.i.d. model (README, "What the probabilities
 mean").
@@ -44,15 +44,18 @@ Flags:
   --n N             the number of draws, 0..1000000000 (required)
   --json            one JSON object instead of text
   --occurrences J   also the distribution of the number of matches, j <= J
+  --max-work W      largest estimated work of --occurrences, in word additions
+                    (default 5e10, about a minute on two cores)
   --rel-width W     target relative width of a certified interval (default 1e-6)
   --max-memory B    largest estimated memory of an exact count (default 1G);
-                    over it the certified interval answers
+                    over it the certified interval answers; also the limit
+                    of --occurrences
   --timeout T       stop tightening the bracket after this long (e.g. 90s)
   --digits D        significant digits of printed decimals (default 15)
 
 Exit codes: 0 success, 2 bad input, 3 the relative width is still above
 --rel-width (the interval printed is proved all the same) or --occurrences
-over its budget, 4 interrupted (Ctrl-C or SIGTERM).
+over --max-work or --max-memory, 4 interrupted (Ctrl-C or SIGTERM).
 `,
 		run: runProb,
 	}
@@ -63,6 +66,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 	n := fs.Int("n", -1, "")
 	asJSON := fs.Bool("json", false, "")
 	occ := fs.Int("occurrences", -1, "")
+	maxWork := fs.Float64("max-work", prob.DefaultWork, "")
 	relWidth := fs.Float64("rel-width", 1e-6, "")
 	maxMem := byteSize(prob.ExactMemory)
 	fs.Var(&maxMem, "max-memory", "")
@@ -93,7 +97,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 	code := exitOK
 	exact, need := prob.InExactRange(set, *n, int64(maxMem))
 	if *occ >= 0 {
-		if c := occurrencesInto(ctx, e, &out, set, *n, *occ, maxMem); c != exitOK {
+		if c := occurrencesInto(ctx, e, &out, set, *n, *occ, *maxWork, maxMem); c != exitOK {
 			return c
 		}
 	}
@@ -152,17 +156,15 @@ func runProb(ctx context.Context, e *env, args []string) int {
 }
 
 // occurrencesInto fills out.Occurrences, or reports why it cannot.
-func occurrencesInto(ctx context.Context, e *env, out *probOutput, set pattern.Set, N, J int, maxMem byteSize) int {
-	if N > prob.MaxExactN {
-		return failure(e, usagef("prob: --occurrences needs N <= %d (the counting range), not %d", prob.MaxExactN, N))
-	}
+func occurrencesInto(ctx context.Context, e *env, out *probOutput, set pattern.Set, N, J int, maxWork float64, maxMem byteSize) int {
 	J = min(J, N)
-	if w := prob.OccurrenceWork(set, N, J); w > prob.MaxOccurrenceWork {
-		fmt.Fprintf(e.stderr, "avoidcert: prob: undecided: --occurrences %d at N = %d needs about %.2g additions, over the limit of %.2g (about ten seconds); lower --n or --occurrences\n", J, N, w, float64(prob.MaxOccurrenceWork))
+	cost := prob.OccurrenceCost(set, N, J)
+	if cost.Work > maxWork {
+		fmt.Fprintf(e.stderr, "avoidcert: prob: undecided: --occurrences %d at N = %d needs about %.2g word additions, over --max-work %.2g; raise --max-work, or lower --n or --occurrences\n", J, N, cost.Work, maxWork)
 		return exitUndecided
 	}
-	if m := prob.OccurrenceMemory(set, N, J); m > float64(maxMem) {
-		fmt.Fprintf(e.stderr, "avoidcert: prob: undecided: --occurrences needs about %s, over --max-memory %s\n", bytesize.Format(int64(m)), bytesize.Format(int64(maxMem)))
+	if cost.Memory > float64(maxMem) {
+		fmt.Fprintf(e.stderr, "avoidcert: prob: undecided: --occurrences needs about %s, over --max-memory %s; raise --max-memory, or lower --n or --occurrences\n", bytesize.Format(int64(cost.Memory)), bytesize.Format(int64(maxMem)))
 		return exitUndecided
 	}
 	counts, err := prob.Occurrences(ctx, set, N, J)

@@ -18,11 +18,12 @@ func init() {
 		summary: "a page for readers from certificates: Markdown, HTML or LaTeX",
 		usage: `Usage: avoidcert report [--format md|html|tex] [--out FILE] INPUT...
 
-Each INPUT is a certificate (format version 3), the output of
-'avoidcert gate --json' (one JSON object per line), or a census folder
-(census.json and its certificates). Everything stated as certified or proved
-is read from certificates the independent checker accepted while the report
-is made, never from the input files' own numbers.
+Each INPUT is a certificate (format version 4), the output of
+'avoidcert gate --json' (one JSON object per line), the output of
+'avoidcert series --json', or a census folder (census.json and its
+certificates). Everything stated as certified or proved is read from
+certificates the independent checker accepted while the report is made,
+never from the input files' own numbers.
 
 For a census: every row is verified against its own certificate (read inside
 the folder, matching its SHA-256, accepted by the checker for the row's
@@ -34,7 +35,11 @@ certificate of another class, or a path that leaves the folder stops the
 report (exit 1, naming the row and the field). For a gate: its verdicts
 restated as recorded, not re-checked (the lines hold no claimed values to
 judge again), with the commands that check its certificates; a line with a
-verdict or kind the gate never writes is refused (exit 2). For a
+verdict or kind the gate never writes is refused (exit 2). For a series
+run: the observed count of each pattern against its exact mean, tails as
+recorded, the exact means and variances recomputed (a run whose recorded ones
+differ is refused), avoidance probabilities derived again, and in HTML a
+figure of observed against expected with the exact 95% ranges. For a
 certificate: the pattern set, the certified range of lambda and 1/lambda,
 the explicit bound for every n >= n0, the asymptotic form, the certificate's
 SHA-256 and the command that re-checks it; one the checker refuses stops
@@ -111,8 +116,8 @@ func runReport(ctx context.Context, e *env, args []string) int {
 	return exitOK
 }
 
-// addInput reads one input: a census folder, a gate's JSON lines or a
-// certificate.
+// addInput reads one input: a census folder, the JSON of a series run, a
+// gate's JSON lines or a certificate.
 func addInput(ctx context.Context, doc *report.Document, path string) error {
 	if st, err := os.Stat(path); err == nil && st.IsDir() {
 		c, err := report.FromCensus(ctx, path)
@@ -125,6 +130,14 @@ func addInput(ctx context.Context, doc *report.Document, path string) error {
 	data, err := input.ReadFile(ctx, path, input.ReportInput)
 	if err != nil {
 		return err
+	}
+	if report.IsSeriesJSON(data) {
+		s, err := report.FromSeries(ctx, path, data)
+		if err != nil {
+			return err
+		}
+		doc.Series = append(doc.Series, s)
+		return nil
 	}
 	if report.IsGateJSON(data) {
 		g, err := report.FromGate(path, data)

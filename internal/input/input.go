@@ -227,3 +227,35 @@ func TypeName(m fs.FileMode) string {
 	}
 	return "special file"
 }
+
+// Series is a data series, read as a stream by a reader that bounds its
+// own memory line by line: no limit on the file's size.
+var Series = Kind{"series file", 1<<63 - 1}
+
+// Open opens the regular file at path for a reader that streams it and
+// bounds its own memory: the same refusals as ReadFile (a folder, FIFO,
+// socket or device at once, without waiting on a FIFO; looked at before
+// and after opening), nothing read. The caller closes the file.
+func Open(path string, k Kind) (*os.File, error) {
+	info, err := os.Stat(path)
+	if err != nil {
+		return nil, statError(path, k, err)
+	}
+	if err := fits(path, k, info); err != nil {
+		return nil, err
+	}
+	f, err := openNoWait(path)
+	if err != nil {
+		return nil, statError(path, k, err)
+	}
+	if info, err = f.Stat(); err == nil {
+		err = fits(path, k, info)
+	} else {
+		err = statError(path, k, err)
+	}
+	if err != nil {
+		f.Close()
+		return nil, err
+	}
+	return f, nil
+}
