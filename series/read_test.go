@@ -156,7 +156,7 @@ func TestOpen(t *testing.T) {
 	if err := syscall.Mkfifo(fifo, 0o644); err != nil {
 		t.Skip("no FIFO here:", err)
 	}
-	for path, want := range map[string]string{filepath.Join(dir, "none"): "no such file", dir: "is a folder", fifo: "not a regular file"} {
+	for path, want := range map[string]string{filepath.Join(dir, "none"): "does not exist", dir: "is a folder", fifo: "not a regular file"} {
 		if _, err := Open(path); err == nil || !strings.Contains(err.Error(), want) {
 			t.Errorf("Open(%s): %v, want %q", path, err, want)
 		}
