@@ -11,6 +11,7 @@ import (
 	"avoidcert/certify"
 	"avoidcert/internal/par"
 	"avoidcert/pattern"
+	"avoidcert/prove"
 )
 
 // Lengths of patterns a census covers.
@@ -25,6 +26,10 @@ type Params struct {
 	Length int `json:"length"` // pattern length K
 	To     int `json:"to"`     // counts a_0..a_To
 	Digits int `json:"digits"` // significant digits certified for lambda
+	// RefineDigits caps the digits at which the classes of two adjacent
+	// count groups whose ranges overlap are bracketed again (Digits: no
+	// refinement).
+	RefineDigits int `json:"refine_digits"`
 }
 
 // Validate reports parameters a census cannot run with.
@@ -36,6 +41,8 @@ func (p Params) Validate() error {
 		return fmt.Errorf("counts to n = %d: n must not be negative", p.To)
 	case p.Digits < 1:
 		return fmt.Errorf("%d digits: at least 1 is needed", p.Digits)
+	case p.RefineDigits < p.Digits:
+		return fmt.Errorf("refining up to %d digits: the cap must be at least the census's %d digits", p.RefineDigits, p.Digits)
 	}
 	return nil
 }
@@ -91,15 +98,19 @@ type Range struct {
 // the file bytes of a certificate the checker has accepted for exactly
 // this set, Checked the same certificate as it was checked. The row's
 // certified fields are read from Checked (its outward decimals, its
-// structure class and form), never given separately.
+// structure class and form), never given separately. Short says why the
+// bracket stopped before the digits asked for (a budget), "" when they
+// were reached: a class certificate must reach them, a refinement keeps
+// the best bracket it got.
 type Certified struct {
 	Certificate []byte
 	Checked     *certify.Certificate
+	Short       string
 }
 
 // Certifier certifies one set to the given digits (structure, bracket,
 // certificate and the checker's verdict). It must be safe for concurrent
-// use.
+// use and give the same bytes for the same set and digits on every run.
 type Certifier func(ctx context.Context, set pattern.Set, digits int) (Certified, error)
 
 // Counter returns the exact counts a_0..a_n of a set. It must be safe for
@@ -108,10 +119,14 @@ type Counter func(ctx context.Context, set pattern.Set, n int) ([]*big.Int, erro
 
 // Event reports progress: Done of Total classes of the run's shard are
 // finished (Resumed of them were in the journal when the run started);
-// Class is the class just finished, "" for the first event.
+// Class is the class just finished, "" for the first event of a phase.
+// Round is 0 while the classes are certified, r >= 1 in the r-th round of
+// the refinement (Done of Total classes of that round bracketed again,
+// Resumed of them found in the folder).
 type Event struct {
 	Done, Total, Resumed int
 	Class                string
+	Round                int
 }
 
 // Options configure Run.
@@ -181,8 +196,19 @@ func Run(ctx context.Context, opts Options) (*Report, error) {
 	for _, c := range classes {
 		list = append(list, rows[c.Representative.String()])
 	}
+	if opts.Shard.Whole() {
+		// The order of the groups needs every class: a sharded census is
+		// refined by its merge.
+		r := refiner{params: opts.Params, folder: j.folder, jobs: opts.Jobs, certify: opts.Certify, check: opts.Check, progress: opts.Progress}
+		if list, err = r.run(ctx, list); err != nil {
+			return nil, err
+		}
+	}
 	rep := summarize(opts.Tool, opts.Params, opts.Shard, list)
 	if err := writeOutputs(opts.Dir, rep); err != nil {
+		return nil, err
+	}
+	if err := removeSuperseded(j.folder, rep.Rows); err != nil {
 		return nil, err
 	}
 	return rep, nil
@@ -268,6 +294,9 @@ func certifyClass(ctx context.Context, opts Options, j *journal, c pattern.Class
 	cert, err := opts.Certify(ctx, set, opts.Params.Digits)
 	if err != nil {
 		return Row{}, fmt.Errorf("class %s: certifying: %w", rep, err)
+	}
+	if cert.Short != "" {
+		return Row{}, fmt.Errorf("class %s: %w: %d digits not reached: %s", rep, prove.ErrBudget, opts.Params.Digits, cert.Short)
 	}
 	row := Row{Representative: rep}
 	row.fill(cert.Checked)

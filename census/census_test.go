@@ -9,6 +9,7 @@ import (
 	"os"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"sync"
 	"testing"
@@ -19,42 +20,70 @@ import (
 )
 
 // fakeCertifier stands in for the certifying library call in tests of the
-// bookkeeping: a made-up range per pattern (these tests check journals,
-// shards and files, not mathematics) and a certificate naming the set. It
-// counts its calls per set and fails for the sets in failOn.
+// bookkeeping: a made-up growth rate per pattern (these tests check
+// journals, shards, files and the refinement's bookkeeping, not
+// mathematics) and a certificate naming the set, the digits and that
+// rate. It counts its calls per set and digits and fails for the sets in
+// failOn (and failAt, at those digits); value replaces the made-up rate
+// of some sets.
 type fakeCertifier struct {
 	mu     sync.Mutex
-	calls  map[string]int
+	calls  map[string]int // by set
+	digits map[string][]int
 	failOn map[string]bool
+	failAt map[string]int // fail for the set at these digits only
+	value  map[string]string
 }
 
 func (f *fakeCertifier) certify(ctx context.Context, set pattern.Set, digits int) (Certified, error) {
 	f.mu.Lock()
 	defer f.mu.Unlock()
 	if f.calls == nil {
-		f.calls = map[string]int{}
+		f.calls, f.digits = map[string]int{}, map[string][]int{}
 	}
-	f.calls[set.String()]++
-	if f.failOn[set.String()] {
+	rep := set.String()
+	f.calls[rep]++
+	f.digits[rep] = append(f.digits[rep], digits)
+	if f.failOn[rep] || f.failAt[rep] == digits {
 		return Certified{}, errors.New("made-up failure")
 	}
-	return Certified{Certificate: fakeFile(set.String()), Checked: fakeCertificate(set.String())}, nil
+	value, ok := f.value[rep]
+	if !ok {
+		value = defaultValue(rep)
+	}
+	return Certified{Certificate: fakeFile(rep, digits, value), Checked: fakeCertificate(rep, digits, value)}, nil
 }
 
-// fakeFile is the stand-in certificate file of a class, and
-// fakeCertificate what a stand-in checker accepts it as: a made-up range
-// from the digits of the pattern (distinct for distinct patterns,
-// overlapping for some neighbours), a structure class with an exponent.
-func fakeFile(rep string) []byte { return []byte("certificate of " + rep + "\n") }
+// defaultValue is the made-up growth rate of a pattern: 1/2 + its digits
+// read as an integer times 10^-6 (distinct for distinct patterns).
+func defaultValue(rep string) string {
+	v, _ := strconv.Atoi(rep)
+	return new(big.Rat).Add(big.NewRat(1, 2), big.NewRat(int64(v), 1_000_000)).FloatString(6)
+}
 
-func fakeCertificate(rep string) *certify.Certificate {
-	v := 0
-	for _, r := range rep {
-		v = 10*v + int(r-'0')
+// fakeFile is the stand-in certificate file of a class at some digits,
+// and fakeCertificate what a stand-in checker accepts it as: a range of
+// width 8·10^-(digits+2) about the made-up value (so that its ends share
+// the digits asked for, as a real certificate's do, unless the value sits
+// near a digit's boundary), a structure class with an exponent.
+func fakeFile(rep string, digits int, value string) []byte {
+	return []byte(fmt.Sprintf("certificate of %s at %d digits: %s\n", rep, digits, value))
+}
+
+func fakeCertificate(rep string, digits int, value string) *certify.Certificate {
+	t, ok := new(big.Rat).SetString(value)
+	if !ok {
+		panic("not a value: " + value)
+	}
+	half := new(big.Rat).SetFrac(big.NewInt(4), new(big.Int).Exp(big.NewInt(10), big.NewInt(int64(digits+2)), nil))
+	lo, hi := new(big.Rat).Sub(t, half), new(big.Rat).Add(t, half)
+	text := func(r *big.Rat) string {
+		s := strings.TrimRight(r.FloatString(digits+30), "0")
+		return strings.TrimSuffix(s, ".")
 	}
 	return &certify.Certificate{
 		Statement: certify.Statement{Given: []string{rep}, Patterns: []string{rep},
-			Lambda: certify.Range{LoDecimal: fmt.Sprintf("0.%07d", v), HiDecimal: fmt.Sprintf("0.%07d", v+50)},
+			Lambda: certify.Range{Lo: lo, Hi: hi, LoDecimal: text(lo), HiDecimal: text(hi)},
 			Radius: certify.Range{LoDecimal: "1"}},
 		Structure: &certify.Structure{Class: certify.ClassPrimitive, Exponent: len(rep)},
 	}
@@ -63,15 +92,16 @@ func fakeCertificate(rep string) *certify.Certificate {
 // fakeCheck stands in for the checker: it accepts a stand-in file for its
 // own class only.
 func fakeCheck(ctx context.Context, data []byte, typed []string) (*certify.Certificate, error) {
-	rep, ok := strings.CutPrefix(string(data), "certificate of ")
-	rep = strings.TrimSuffix(rep, "\n")
+	var rep, value string
+	var digits int
+	_, err := fmt.Sscanf(string(data), "certificate of %s at %d digits: %s\n", &rep, &digits, &value)
 	switch {
-	case !ok || len(typed) != 1:
+	case err != nil || len(typed) != 1 || !bytes.Equal(data, fakeFile(rep, digits, value)):
 		return nil, errors.New("not a stand-in certificate")
 	case rep != typed[0]:
 		return nil, fmt.Errorf("the certificate is for the set %s, not for the expected set %s", rep, typed[0])
 	}
-	return fakeCertificate(rep), nil
+	return fakeCertificate(rep, digits, value), nil
 }
 
 func count(ctx context.Context, set pattern.Set, n int) ([]*big.Int, error) {
@@ -79,8 +109,12 @@ func count(ctx context.Context, set pattern.Set, n int) ([]*big.Int, error) {
 }
 
 func options(dir string, length int, f *fakeCertifier) Options {
-	return Options{Params: Params{Length: length, To: 9, Digits: 5}, Dir: dir, Jobs: 2, Tool: "test",
+	return Options{Params: Params{Length: length, To: 9, Digits: 5, RefineDigits: 5}, Dir: dir, Jobs: 2, Tool: "test",
 		Certify: f.certify, Count: count, Check: fakeCheck}
+}
+
+func mergeOptions(out string, dirs []string, f *fakeCertifier) MergeOptions {
+	return MergeOptions{Out: out, Dirs: dirs, Jobs: 2, Check: fakeCheck, Certify: f.certify}
 }
 
 // readTree returns every file under dir except the journal, by path.
@@ -135,7 +169,7 @@ func TestRunWritesTablesAndCertificates(t *testing.T) {
 	}
 	for _, r := range rep.Rows {
 		data, err := os.ReadFile(filepath.Join(dir, r.Certificate))
-		if err != nil || string(data) != "certificate of "+r.Representative+"\n" {
+		if err != nil || !bytes.Equal(data, fakeFile(r.Representative, 5, defaultValue(r.Representative))) {
 			t.Errorf("%s: certificate %q, %v", r.Representative, data, err)
 		}
 	}
@@ -202,7 +236,7 @@ func TestResumeRedoesAClassWhoseCertificateChanged(t *testing.T) {
 	if again.calls["123"] != 1 || again.calls["132"] != 0 {
 		t.Errorf("calls %v, want 123 redone and 132 kept", again.calls)
 	}
-	if data, _ := os.ReadFile(path); string(data) != "certificate of 123\n" {
+	if data, _ := os.ReadFile(path); !bytes.Equal(data, fakeFile("123", 5, defaultValue("123"))) {
 		t.Errorf("certificate not restored: %q", data)
 	}
 }
@@ -213,10 +247,10 @@ func TestRunRefusesAFolderOfAnotherCensus(t *testing.T) {
 		t.Fatal(err)
 	}
 	opts := options(dir, 3, &fakeCertifier{})
-	opts.Params.Digits = 7
+	opts.Params.Digits, opts.Params.RefineDigits = 7, 7
 	_, err := Run(context.Background(), opts)
 	var in *InputError
-	if !errors.As(err, &in) || !strings.Contains(err.Error(), "holds a census of length 3, counts to 9, 5 digits") {
+	if !errors.As(err, &in) || !strings.Contains(err.Error(), "holds a census of length 3, counts to 9, 5 digits (groups refined up to 5)") {
 		t.Fatalf("error %v, want a refusal naming the earlier parameters", err)
 	}
 	opts = options(dir, 3, &fakeCertifier{})
@@ -264,7 +298,7 @@ func TestMergeOfShardsEqualsTheWhole(t *testing.T) {
 	out := t.TempDir()
 	dirs := shards(t, 5, 3)
 	slices.Reverse(dirs) // the order of the folders does not matter
-	if _, err := Merge(context.Background(), out, dirs, fakeCheck, 2); err != nil {
+	if _, err := Merge(context.Background(), mergeOptions(out, dirs, &fakeCertifier{})); err != nil {
 		t.Fatal(err)
 	}
 	sameTree(t, whole, out)
@@ -305,7 +339,7 @@ func TestMergeRefusals(t *testing.T) {
 		if c.name == "output is a shard" {
 			out = dirs[0]
 		}
-		_, err := Merge(context.Background(), out, c.dirs, fakeCheck, 2)
+		_, err := Merge(context.Background(), mergeOptions(out, c.dirs, &fakeCertifier{}))
 		var in *InputError
 		if !errors.As(err, &in) || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%s: error %v, want an input error containing %q", c.name, err, c.want)

@@ -20,7 +20,7 @@ func FuzzVerify(f *testing.F) {
 		f.Fatal(err)
 	}
 	f.Add(honest)
-	f.Add([]byte(`{"format":"avoidcert-census","version":1,"rows":[{"representative":"123","certificate":"../x"}]}`))
+	f.Add([]byte(`{"format":"avoidcert-census","version":2,"rows":[{"representative":"123","certificate":"../x"}]}`))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		dir := t.TempDir()
 		if err := os.CopyFS(dir, os.DirFS(seedDir)); err != nil {
@@ -34,7 +34,7 @@ func FuzzVerify(f *testing.F) {
 			return
 		}
 		for _, r := range rep.Rows {
-			want := fakeCertificate(r.Representative).Statement.Lambda
+			want := fakeCertificate(r.Representative, 5, defaultValue(r.Representative)).Statement.Lambda
 			if r.Lambda.Lo != want.LoDecimal || r.Lambda.Hi != want.HiDecimal {
 				t.Errorf("accepted class %s with lambda %v, its certificate states [%s, %s]", r.Representative, r.Lambda, want.LoDecimal, want.HiDecimal)
 			}

@@ -128,7 +128,7 @@ func openJournal(ctx context.Context, dir string, params Params, shard Shard) (*
 }
 
 func describe(p Params, s *Shard) string {
-	d := fmt.Sprintf("length %d, counts to %d, %d digits", p.Length, p.To, p.Digits)
+	d := fmt.Sprintf("length %d, counts to %d, %d digits (groups refined up to %d)", p.Length, p.To, p.Digits, p.RefineDigits)
 	if s != nil {
 		d += ", shard " + s.String()
 	}
@@ -194,6 +194,7 @@ func (j *journal) finished(ctx context.Context, classes []pattern.Class, check C
 			return nil, inputErrorf("journal record %s is not readable (%v): it was changed by hand; remove it to redo the class", j.recordPath(rep), err)
 		}
 		row := rec.Row
+		row.Refined = nil // a record is of the class's own certificate only
 		if err := row.fits(c, j.params); err != nil {
 			return nil, inputErrorf("journal record %s: %v; remove it to redo the class", j.recordPath(rep), err)
 		}
@@ -201,7 +202,7 @@ func (j *journal) finished(ctx context.Context, classes []pattern.Class, check C
 	}
 	ok := make([]bool, len(rows))
 	inParallel(len(rows), jobs, func(i int) {
-		_, err := verifyRow(ctx, j.folder, j.recordPath(rows[i].Representative), rows[i], j.params.To, check)
+		_, _, err := verifyRow(ctx, j.folder, j.recordPath(rows[i].Representative), rows[i], j.params, check)
 		ok[i] = err == nil
 	})
 	if err := ctx.Err(); err != nil {

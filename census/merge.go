@@ -14,16 +14,33 @@ import (
 	"avoidcert/internal/input"
 )
 
-// Merge combines the finished shards in dirs into the whole census in
-// out: the same tables and certificates an unsharded run writes. It first
-// refuses (with an *InputError) shards of different parameters, tools or
-// shard counts, a shard given twice or missing, and a class missing or
-// present twice; then every shard is verified (Verify: each row's
-// certificate accepted by check for its class, every certified field and
-// count compared, the shard's tables derived again; a *RefusedError names
-// what differs), so the merge restates nothing a shard's file says
-// without its certificate. jobs rows are checked at once.
-func Merge(ctx context.Context, out string, dirs []string, check Checker, jobs int) (*Report, error) {
+// MergeOptions configure Merge.
+type MergeOptions struct {
+	Out  string   // the output folder; created if missing
+	Dirs []string // the folders of every shard
+	Jobs int      // certificates checked, classes refined at once
+	// Check verifies the shards' certificates; Certify refines the order
+	// of the groups (Params.RefineDigits), as an unsharded run does.
+	Check    Checker
+	Certify  Certifier
+	Progress func(Event) // refinement rounds only; never concurrently
+}
+
+// Merge combines the finished shards in opts.Dirs into the whole census
+// in opts.Out: the same tables and certificates an unsharded run writes.
+// It first refuses (with an *InputError) shards of different parameters,
+// tools or shard counts, a shard given twice or missing, and a class
+// missing or present twice; then every shard is verified (Verify: each
+// row's certificate accepted by the checker for its class, every certified
+// field and count compared, the shard's tables derived again; a
+// *RefusedError names what differs), so the merge restates nothing a
+// shard's file says without its certificate. Then the order of the groups
+// is refined as in Run, into opts.Out.
+func Merge(ctx context.Context, opts MergeOptions) (*Report, error) {
+	out, dirs, check, jobs := opts.Out, opts.Dirs, opts.Check, opts.Jobs
+	if check == nil || opts.Certify == nil {
+		return nil, errors.New("census: MergeOptions.Check and Certify are required")
+	}
 	if len(dirs) == 0 {
 		return nil, inputErrorf("no shard folder given; name the folders of every shard")
 	}
@@ -83,7 +100,7 @@ func Merge(ctx context.Context, out string, dirs []string, check Checker, jobs i
 		}
 		for _, r := range rep.Rows {
 			certOf[r.Representative] = certs[r.Representative]
-			r.Group = 0
+			r.Group, r.Refined = 0, nil
 			rows = append(rows, r)
 		}
 	}
@@ -103,8 +120,16 @@ func Merge(ctx context.Context, out string, dirs []string, check Checker, jobs i
 			return nil, err
 		}
 	}
+	ref := refiner{params: first.Params, folder: o, jobs: jobs, certify: opts.Certify, check: check, progress: opts.Progress}
+	rows, err = ref.run(ctx, rows)
+	if err != nil {
+		return nil, err
+	}
 	rep := summarize(first.Tool, first.Params, Shard{}, rows)
 	if err := writeOutputs(out, rep); err != nil {
+		return nil, err
+	}
+	if err := removeSuperseded(o, rep.Rows); err != nil {
 		return nil, err
 	}
 	return rep, nil

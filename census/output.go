@@ -5,6 +5,7 @@ import (
 	"encoding/csv"
 	"fmt"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -41,65 +42,90 @@ func tableCSV(rep *Report) []byte {
 	var buf bytes.Buffer
 	w := csv.NewWriter(&buf)
 	head := []string{"rank", "representative", "members", "group", "lambda_lo", "lambda_hi", "radius_lo", "radius_hi",
-		"structure_class", "certificate", "certificate_sha256"}
+		"structure_class", "primitivity_exponent", "certificate", "certificate_sha256",
+		"refined_lambda_lo", "refined_lambda_hi", "refined_radius_lo", "refined_radius_hi", "refined_certificate", "refined_certificate_sha256",
+		"lambda_digits"}
 	for n := 0; n <= rep.Params.To; n++ {
 		head = append(head, "a"+strconv.Itoa(n))
 	}
 	w.Write(head)
 	for i, r := range rep.Rows {
+		exponent := ""
+		if r.Exponent != nil {
+			exponent = strconv.Itoa(*r.Exponent)
+		}
 		line := []string{strconv.Itoa(i + 1), r.Representative, strings.Join(r.Members, " "), strconv.Itoa(r.Group),
-			r.Lambda.Lo, r.Lambda.Hi, r.Radius.Lo, r.Radius.Hi, r.Class, r.Certificate, r.CertificateSHA256}
+			r.Lambda.Lo, r.Lambda.Hi, r.Radius.Lo, r.Radius.Hi, r.Class, exponent, r.Certificate, r.CertificateSHA256}
+		if f := r.Refined; f != nil {
+			line = append(line, f.Lambda.Lo, f.Lambda.Hi, f.Radius.Lo, f.Radius.Hi, f.Certificate, f.CertificateSHA256)
+		} else {
+			line = append(line, "", "", "", "", "", "")
+		}
+		line = append(line, strconv.Itoa(r.Digits()))
 		w.Write(append(line, r.Counts...))
 	}
 	w.Flush() // writes to a buffer cannot fail
 	return buf.Bytes()
 }
 
-// tableMarkdown is the census for reading: summary, classes, groups and
-// the unresolved places of the order.
+// shortForm names a row's structure class in a table cell.
+func shortForm(r Row) string {
+	if r.Exponent != nil {
+		return fmt.Sprintf("%s, k = %d", r.Class, *r.Exponent)
+	}
+	return r.Class
+}
+
+// tableMarkdown is the census for reading: summary, classes, forms,
+// groups and the order of the groups.
 func tableMarkdown(rep *Report) []byte {
 	var b strings.Builder
 	p := rep.Params
 	fmt.Fprintf(&b, "# Census of the consecutive patterns of length %d\n\n", p.Length)
 	if rep.Shard != nil {
-		fmt.Fprintf(&b, "**Shard %s: %d of the %d classes. Merge all shards (`avoidcert census merge`) for the census; groups and order below are of this shard only.**\n\n",
+		fmt.Fprintf(&b, "**Shard %s: %d of the %d classes. Merge all shards (`avoidcert census merge`) for the census; groups and order below are of this shard only, and its groups are not refined.**\n\n",
 			rep.Shard, len(rep.Rows), rep.Classes)
 	}
-	strict, unresolved := 0, 0
-	for _, s := range rep.Order {
-		if s.Relation == ">" {
-			strict++
-		} else {
-			unresolved++
-		}
-	}
-	fmt.Fprintf(&b, "- tool: %s; counts a_n for n <= %d; lambda certified to %d significant digits\n", rep.Tool, p.To, p.Digits)
+	o := summarizeOrder(rep)
+	fmt.Fprintf(&b, "- tool: %s; counts a_n for n <= %d; lambda certified to %d significant digits, classes of overlapping neighbouring groups refined up to %d\n", rep.Tool, p.To, p.Digits, p.RefineDigits)
 	fmt.Fprintf(&b, "- symmetry classes (reverse, complement, both): %d\n", len(rep.Rows))
 	fmt.Fprintf(&b, "- groups with equal counts up to n = %d: %d, all separated by n = %d. A proved lower bound on the number of c-Wilf classes; the classes within a group are candidates for c-Wilf equivalence (evidence, not proof).\n",
 		p.To, len(rep.Groups), rep.SeparatingN)
-	fmt.Fprintf(&b, "- order by lambda: %d adjacent pairs strictly ordered (disjoint certified ranges), %d unresolved at these digits\n\n", strict, unresolved)
+	fmt.Fprintf(&b, "- order of the groups by lambda: %s\n", o.sentence())
+	fmt.Fprintf(&b, "- asymptotic form: %s\n\n", formsSentence(rep.Rows))
 
 	fmt.Fprintf(&b, "## Classes, largest lambda first\n\n")
-	fmt.Fprintf(&b, "| rank | representative | members | group | lambda | 1/lambda | structure | a_%d |\n", p.To)
-	b.WriteString("|---|---|---|---|---|---|---|---|\n")
+	b.WriteString("Each class's lambda and 1/lambda are those of its most precise certificate: `certificates/REPRESENTATIVE.json`, or `refined/REPRESENTATIVE-D.json` (marked *) where the class was bracketed again at D digits to order its group. \"digits\" is the number of leading significant digits the two ends share. The structure is the certificate's class with its primitivity exponent k (the least k with T^k positive).\n\n")
+	fmt.Fprintf(&b, "| rank | representative | members | group | lambda | 1/lambda | digits | structure | a_%d |\n", p.To)
+	b.WriteString("|---|---|---|---|---|---|---|---|---|\n")
 	for i, r := range rep.Rows {
-		fmt.Fprintf(&b, "| %d | %s | %s | %d | %s | %s | %s | %s |\n", i+1, r.Representative, strings.Join(r.Members, " "),
-			r.Group, rangeText(r.Lambda), rangeText(r.Radius), r.Class, r.Counts[len(r.Counts)-1])
+		mark := ""
+		if r.Refined != nil {
+			mark = "*"
+		}
+		fmt.Fprintf(&b, "| %d | %s | %s | %d | %s%s | %s | %d | %s | %s |\n", i+1, r.Representative, strings.Join(r.Members, " "),
+			r.Group, rangeText(r.Best()), mark, rangeText(r.BestRadius()), r.Digits(), shortForm(r), r.Counts[len(r.Counts)-1])
 	}
-	b.WriteString("\nEvery range is rounded outward and rests on the certificate `certificates/REPRESENTATIVE.json`, accepted by the checker (`avoidcert check`). Asymptotic forms:\n\n")
-	for _, r := range rep.Rows {
-		fmt.Fprintf(&b, "- %s: %s\n", r.Representative, r.Form)
+	b.WriteString("\nEvery range is rounded outward and rests on a certificate accepted by the checker (`avoidcert check FILE --expect REPRESENTATIVE`).\n")
+
+	b.WriteString("\n## Asymptotic forms\n\n")
+	for _, f := range forms(rep.Rows) {
+		fmt.Fprintf(&b, "- %d classes: %s", len(f.classes), f.words)
+		if len(f.classes) <= 12 {
+			fmt.Fprintf(&b, " (%s)", strings.Join(f.classes, ", "))
+		}
+		b.WriteString("\n")
 	}
 
 	fmt.Fprintf(&b, "\n## Groups with equal counts up to n = %d\n\n", p.To)
-	b.WriteString("Sorted by counts, largest first. Two groups first differ at the least \"differs from the previous at\" between them, which proves their classes are not c-Wilf equivalent.\n\n")
-	b.WriteString("| group | classes | differs from the previous at n |\n|---|---|---|\n")
+	b.WriteString("Numbered by rank: group 1 holds the class of largest lambda, and each next group is the next one met going down the classes table. lambda is the smallest range holding the ranges of all the group's classes. Two groups differ in their counts at some n <= N, which proves their classes are not c-Wilf equivalent; \"differs from the previous at n\" is the first such n for the group numbered one less.\n\n")
+	b.WriteString("| group | classes | lambda | differs from the previous at n |\n|---|---|---|---|\n")
 	for _, g := range rep.Groups {
 		at := "–"
-		if g.DiffersFromPreviousAt > 0 {
+		if g.ID > 1 {
 			at = strconv.Itoa(g.DiffersFromPreviousAt)
 		}
-		fmt.Fprintf(&b, "| %d | %s | %s |\n", g.ID, strings.Join(g.Classes, " "), at)
+		fmt.Fprintf(&b, "| %d | %s | %s | %s |\n", g.ID, strings.Join(g.Classes, " "), rangeText(g.Lambda), at)
 	}
 	b.WriteString("\nGroups when counts are compared up to n:")
 	for n, c := range rep.GroupsByN {
@@ -107,21 +133,89 @@ func tableMarkdown(rep *Report) []byte {
 	}
 	b.WriteString("\n")
 
-	b.WriteString("\n## Unresolved places in the order\n\n")
-	if unresolved == 0 {
-		b.WriteString("None: every adjacent pair is strictly ordered.\n")
+	b.WriteString("\n## Order of the groups\n\n")
+	b.WriteString("Group g > group g+1 is proved when the lambda of every class of g is above that of every class of g+1 (their ranges in the groups table are disjoint). \"digits\" is the most digits certified among the classes of the two groups.\n\n")
+	b.WriteString("| above | below | relation | digits |\n|---|---|---|---|\n")
+	for _, s := range rep.GroupOrder {
+		rel := "> (proved)"
+		if s.Relation != ">" {
+			rel = "unresolved"
+		}
+		fmt.Fprintf(&b, "| %d | %d | %s | %d |\n", s.Above, s.Below, rel, s.Digits)
 	}
-	for _, s := range rep.Order {
-		if s.Relation == ">" {
-			continue
+	if len(o.unresolved) > 0 {
+		fmt.Fprintf(&b, "\nUnresolved (ranges overlap with certificates of up to the digits shown; the cap is %d):\n\n", p.RefineDigits)
+		for _, s := range o.unresolved {
+			fmt.Fprintf(&b, "- group %d (%s) and group %d (%s), %d digits\n", s.Above, rep.Groups[s.Above-1].Classes[0], s.Below, rep.Groups[s.Below-1].Classes[0], s.Digits)
 		}
-		why := "ranges overlap at these digits"
-		if s.SameCounts {
-			why += "; same counts up to n = " + strconv.Itoa(p.To)
-		}
-		fmt.Fprintf(&b, "- %s and %s: %s\n", s.Above, s.Below, why)
 	}
 	return []byte(b.String())
+}
+
+// orderSummary counts the order statements of a report's groups.
+type orderSummary struct {
+	proved     int
+	lastDigits int // the most digits a proved step needed
+	unresolved []GroupStep
+}
+
+func summarizeOrder(rep *Report) orderSummary {
+	var o orderSummary
+	for _, s := range rep.GroupOrder {
+		if s.Relation == ">" {
+			o.proved++
+			o.lastDigits = max(o.lastDigits, s.Digits)
+		} else {
+			o.unresolved = append(o.unresolved, s)
+		}
+	}
+	return o
+}
+
+func (o orderSummary) sentence() string {
+	total := o.proved + len(o.unresolved)
+	if total == 0 {
+		return "a single group"
+	}
+	t := fmt.Sprintf("%d of the %d adjacent pairs of groups proved ordered", o.proved, total)
+	if o.proved > 0 {
+		t += fmt.Sprintf(", with certificates of at most %d digits", o.lastDigits)
+	}
+	if n := len(o.unresolved); n > 0 {
+		t += fmt.Sprintf("; %d pairs unresolved (listed under \"Order of the groups\")", n)
+	}
+	return t
+}
+
+// form is one asymptotic form and the classes that have it.
+type form struct {
+	words   string
+	classes []string
+}
+
+// forms groups the rows by their asymptotic form, the most common first.
+func forms(rows []Row) []form {
+	var out []form
+	at := map[string]int{}
+	for _, r := range rows {
+		i, ok := at[r.Form]
+		if !ok {
+			i = len(out)
+			at[r.Form] = i
+			out = append(out, form{words: r.Form})
+		}
+		out[i].classes = append(out[i].classes, r.Representative)
+	}
+	slices.SortStableFunc(out, func(a, b form) int { return len(b.classes) - len(a.classes) })
+	return out
+}
+
+func formsSentence(rows []Row) string {
+	var parts []string
+	for _, f := range forms(rows) {
+		parts = append(parts, fmt.Sprintf("%d classes %s", len(f.classes), strings.SplitN(f.words, ":", 2)[0]))
+	}
+	return strings.Join(parts, "; ")
 }
 
 func rangeText(r Range) string {

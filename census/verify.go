@@ -53,81 +53,99 @@ func refusedf(format string, args ...any) error {
 type fields struct {
 	Lambda, Radius Range
 	Class, Form    string
+	Exponent       *int
 }
 
 func fieldsOf(c *certify.Certificate) fields {
 	st := c.Statement
 	f := prove.FormOf(c)
-	return fields{
+	out := fields{
 		Lambda: Range{Lo: st.Lambda.LoDecimal, Hi: st.Lambda.HiDecimal},
 		Radius: Range{Lo: st.Radius.LoDecimal, Hi: st.Radius.HiDecimal},
 		Class:  string(f.Class),
 		Form:   f.Words(),
 	}
+	if f.Class == certify.ClassPrimitive {
+		out.Exponent = &f.Exponent
+	}
+	return out
 }
 
 // fill sets the certified fields of r from a checked certificate.
 func (r *Row) fill(c *certify.Certificate) {
 	f := fieldsOf(c)
-	r.Lambda, r.Radius, r.Class, r.Form = f.Lambda, f.Radius, f.Class, f.Form
+	r.Lambda, r.Radius, r.Class, r.Form, r.Exponent = f.Lambda, f.Radius, f.Class, f.Form, f.Exponent
+}
+
+// exponentText is a primitivity exponent as census files state it.
+func exponentText(e *int) string {
+	if e == nil {
+		return "null"
+	}
+	return strconv.Itoa(*e)
 }
 
 // verifyRow has the checker accept the row's certificate, read inside
 // the folder and compared with the row's SHA-256, for the row's class,
 // and compares every certified field and every count with what the
-// certificate and the checker's own counting give. where names the file
-// the row is from. It returns the certificate's bytes.
-func verifyRow(ctx context.Context, f *folder, where string, row Row, to int, check Checker) ([]byte, error) {
-	refuse := func(field, format string, args ...any) ([]byte, error) {
-		return nil, refusedf("%s: class %s: %s: %s; the census was changed after it was made: make it again", where, row.Representative, field, fmt.Sprintf(format, args...))
+// certificate and the checker's own counting give; the same for the
+// row's refinement. where names the file the row is from. It returns the
+// certificates' bytes (the refinement's nil when there is none).
+func verifyRow(ctx context.Context, f *folder, where string, row Row, params Params, check Checker) (certificate, refined []byte, err error) {
+	refuse := func(field, format string, args ...any) ([]byte, []byte, error) {
+		return nil, nil, rowRefusal(where, row, field, format, args...)
 	}
-	if why := f.escape(row.Certificate); why != "" {
-		return refuse("certificate", "%s", why)
-	}
-	if want := certificateDir + "/" + row.Representative + ".json"; row.Certificate != want {
-		return refuse("certificate", "%s is not the class's certificate %s", quoteShort(row.Certificate), want)
-	}
-	data, err := f.read(ctx, row.Certificate, input.Certificate)
-	var in *InputError
-	switch {
-	case ctx.Err() != nil:
-		return nil, ctx.Err()
-	case errors.As(err, &in):
-		return nil, err // a FIFO, a device, a file over the limit: bad input, not a forgery
-	case err != nil:
-		return refuse("certificate", "%v", err)
-	}
-	if sum := sha256.Sum256(data); hex.EncodeToString(sum[:]) != row.CertificateSHA256 {
-		return refuse("certificate_sha256", "%s does not have the SHA-256 its row records: the file was changed", f.path(row.Certificate))
-	}
-	c, err := check(ctx, data, []string{row.Representative})
+	want := certificateDir + "/" + row.Representative + ".json"
+	data, c, err := checkedFile(ctx, f, where, row, "certificate", row.Certificate, want, row.CertificateSHA256, check)
 	if err != nil {
-		switch {
-		case ctx.Err() != nil:
-			return nil, ctx.Err()
-		case errors.Is(err, prove.ErrBudget):
-			// not a refusal: a larger budget would decide it
-			return nil, fmt.Errorf("%s: class %s: checking %s: %w", where, row.Representative, f.path(row.Certificate), err)
-		}
-		return refuse("certificate", "the checker refuses %s for %s: %v", f.path(row.Certificate), row.Representative, err)
+		return nil, nil, err
 	}
-	want := fieldsOf(c)
+	have := fieldsOf(c)
 	for _, x := range []struct{ name, have, want string }{
-		{"lambda.lo", row.Lambda.Lo, want.Lambda.Lo},
-		{"lambda.hi", row.Lambda.Hi, want.Lambda.Hi},
-		{"radius.lo", row.Radius.Lo, want.Radius.Lo},
-		{"radius.hi", row.Radius.Hi, want.Radius.Hi},
-		{"structure_class", row.Class, want.Class},
-		{"asymptotic_form", row.Form, want.Form},
+		{"lambda.lo", row.Lambda.Lo, have.Lambda.Lo},
+		{"lambda.hi", row.Lambda.Hi, have.Lambda.Hi},
+		{"radius.lo", row.Radius.Lo, have.Radius.Lo},
+		{"radius.hi", row.Radius.Hi, have.Radius.Hi},
+		{"structure_class", row.Class, have.Class},
+		{"primitivity_exponent", exponentText(row.Exponent), exponentText(have.Exponent)},
+		{"asymptotic_form", row.Form, have.Form},
 	} {
 		if x.have != x.want {
 			return refuse(x.name, "%s, but its checked certificate states %s", quoteShort(x.have), quoteShort(x.want))
 		}
 	}
-	counts, err := certify.Counts(ctx, []string{row.Representative}, to)
+	if row.Refined != nil {
+		ref := row.Refined
+		m := refinedName.FindStringSubmatch(strings.TrimPrefix(ref.Certificate, refinedDir+"/"))
+		digits := 0
+		if m != nil {
+			digits, _ = strconv.Atoi(m[2])
+		}
+		if m == nil || m[1] != row.Representative || digits <= params.Digits || digits > params.RefineDigits {
+			return refuse("refined.certificate", "%s is not a refinement of the class: %s/%s-D.json with D from %d to %d",
+				quoteShort(ref.Certificate), refinedDir, row.Representative, params.Digits+1, params.RefineDigits)
+		}
+		refinedData, rc, err := checkedFile(ctx, f, where, row, "refined.certificate", ref.Certificate, ref.Certificate, ref.CertificateSHA256, check)
+		if err != nil {
+			return nil, nil, err
+		}
+		have := fieldsOf(rc)
+		for _, x := range []struct{ name, have, want string }{
+			{"refined.lambda.lo", ref.Lambda.Lo, have.Lambda.Lo},
+			{"refined.lambda.hi", ref.Lambda.Hi, have.Lambda.Hi},
+			{"refined.radius.lo", ref.Radius.Lo, have.Radius.Lo},
+			{"refined.radius.hi", ref.Radius.Hi, have.Radius.Hi},
+		} {
+			if x.have != x.want {
+				return refuse(x.name, "%s, but its checked certificate states %s", quoteShort(x.have), quoteShort(x.want))
+			}
+		}
+		refined = refinedData
+	}
+	counts, err := certify.Counts(ctx, []string{row.Representative}, params.To)
 	if err != nil {
 		if ctx.Err() != nil {
-			return nil, ctx.Err()
+			return nil, nil, ctx.Err()
 		}
 		return refuse("counts", "the checker cannot count the class: %v", err)
 	}
@@ -140,17 +158,61 @@ func verifyRow(ctx context.Context, f *folder, where string, row Row, to int, ch
 			return refuse(fmt.Sprintf("counts (a_%d)", n), "%s, but the checker counts %s", quoteShort(have), quoteShort(a.String()))
 		}
 	}
-	return data, nil
+	return data, refined, nil
+}
+
+func rowRefusal(where string, row Row, field, format string, args ...any) error {
+	return refusedf("%s: class %s: %s: %s; the census was changed after it was made: make it again", where, row.Representative, field, fmt.Sprintf(format, args...))
+}
+
+// checkedFile reads the certificate rel named in field of a row inside
+// the folder (it must be want), compares its SHA-256 with sha and has the
+// checker accept it for the row's class.
+func checkedFile(ctx context.Context, f *folder, where string, row Row, field, rel, want, sha string, check Checker) ([]byte, *certify.Certificate, error) {
+	refuse := func(format string, args ...any) ([]byte, *certify.Certificate, error) {
+		return nil, nil, rowRefusal(where, row, field, format, args...)
+	}
+	if why := f.escape(rel); why != "" {
+		return refuse("%s", why)
+	}
+	if rel != want {
+		return refuse("%s is not the class's certificate %s", quoteShort(rel), want)
+	}
+	data, err := f.read(ctx, rel, input.Certificate)
+	var in *InputError
+	switch {
+	case ctx.Err() != nil:
+		return nil, nil, ctx.Err()
+	case errors.As(err, &in):
+		return nil, nil, err // a FIFO, a device, a file over the limit: bad input, not a forgery
+	case err != nil:
+		return refuse("%v", err)
+	}
+	if sum := sha256.Sum256(data); hex.EncodeToString(sum[:]) != sha {
+		return nil, nil, rowRefusal(where, row, field+"_sha256", "%s does not have the SHA-256 its row records: the file was changed", f.path(rel))
+	}
+	c, err := check(ctx, data, []string{row.Representative})
+	if err != nil {
+		switch {
+		case ctx.Err() != nil:
+			return nil, nil, ctx.Err()
+		case errors.Is(err, prove.ErrBudget):
+			// not a refusal: a larger budget would decide it
+			return nil, nil, fmt.Errorf("%s: class %s: checking %s: %w", where, row.Representative, f.path(rel), err)
+		}
+		return refuse("the checker refuses %s for %s: %v", f.path(rel), row.Representative, err)
+	}
+	return data, c, nil
 }
 
 // verifyRows verifies rows with up to jobs at once and returns their
 // certificates' bytes by class, or the error of the first row (in row
 // order) that fails.
-func verifyRows(ctx context.Context, f *folder, where string, rows []Row, to, jobs int, check Checker) (map[string][]byte, error) {
+func verifyRows(ctx context.Context, f *folder, where string, rows []Row, params Params, jobs int, check Checker) (map[string][]byte, error) {
 	certs := make([][]byte, len(rows))
 	errs := make([]error, len(rows))
 	inParallel(len(rows), jobs, func(i int) {
-		certs[i], errs[i] = verifyRow(ctx, f, where, rows[i], to, check)
+		certs[i], _, errs[i] = verifyRow(ctx, f, where, rows[i], params, check)
 	})
 	if err := ctx.Err(); err != nil {
 		return nil, err
@@ -227,7 +289,7 @@ func verifyFolder(ctx context.Context, f *folder, check Checker, jobs int) (*Rep
 	if err := rep.classesFit(where, shard); err != nil {
 		return nil, nil, err
 	}
-	certs, err := verifyRows(ctx, f, where, rep.Rows, rep.Params.To, jobs, check)
+	certs, err := verifyRows(ctx, f, where, rep.Rows, rep.Params, jobs, check)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -292,7 +354,7 @@ func sameTables(where string, file, derived *Report) error {
 		}
 	}
 	if !slices.EqualFunc(file.Groups, derived.Groups, func(a, b Group) bool {
-		return a.ID == b.ID && a.DiffersFromPreviousAt == b.DiffersFromPreviousAt && slices.Equal(a.Classes, b.Classes)
+		return a.ID == b.ID && a.DiffersFromPreviousAt == b.DiffersFromPreviousAt && a.Lambda == b.Lambda && slices.Equal(a.Classes, b.Classes)
 	}) {
 		return differ("groups", "%s, but the checked counts give %s", groupsText(file.Groups), groupsText(derived.Groups))
 	}
@@ -310,7 +372,19 @@ func sameTables(where string, file, derived *Report) error {
 			return differ(fmt.Sprintf("order (step %d)", i+1), "%s, but the checked ranges give %s", stepText(file.Order[i]), stepText(s))
 		}
 	}
+	if len(file.GroupOrder) != len(derived.GroupOrder) {
+		return differ("group_order", "%d steps for %d groups", len(file.GroupOrder), len(derived.Groups))
+	}
+	for i, s := range derived.GroupOrder {
+		if file.GroupOrder[i] != s {
+			return differ(fmt.Sprintf("group_order (step %d)", i+1), "%s, but the checked ranges give %s", groupStepText(file.GroupOrder[i]), groupStepText(s))
+		}
+	}
 	return nil
+}
+
+func groupStepText(s GroupStep) string {
+	return quoteShort(fmt.Sprintf("group %d %s group %d at %d digits", s.Above, s.Relation, s.Below, s.Digits))
 }
 
 func groupsText(gs []Group) string {

@@ -31,7 +31,7 @@ func tamper(t *testing.T, dir string, change func(rep *Report)) {
 // rowOf returns the row of a class.
 func rowOf(t *testing.T, rep *Report, class string) *Row {
 	t.Helper()
-	i := rowIndex(rep.Rows, class)
+	i := slices.IndexFunc(rep.Rows, func(r Row) bool { return r.Representative == class })
 	if i < 0 {
 		t.Fatalf("no row %s", class)
 	}
@@ -62,7 +62,7 @@ func TestVerifyRefusesForgedCensus(t *testing.T) {
 	}{
 		{"forged lambda", func(t *testing.T, dir string) {
 			tamper(t, dir, func(rep *Report) { rowOf(t, rep, "1342").Lambda = Range{Lo: "0.5", Hi: "0.6"} })
-		}, "class 1342: lambda.lo: \"0.5\", but its checked certificate states \"0.0001342\""},
+		}, "class 1342: lambda.lo: \"0.5\", but its checked certificate states \"0.5013416\""},
 		{"forged radius", func(t *testing.T, dir string) {
 			tamper(t, dir, func(rep *Report) { rowOf(t, rep, "1234").Radius.Hi = "2" })
 		}, "class 1234: radius.hi"},
@@ -142,17 +142,27 @@ func TestVerifyRefusesForgedCensus(t *testing.T) {
 				rep.Groups = slices.Delete(rep.Groups, 1, 2)
 			})
 		}, "groups: "},
-		{"order proved where it is not", func(t *testing.T, dir string) {
+		{"order stated otherwise", func(t *testing.T, dir string) {
 			tamper(t, dir, func(rep *Report) {
-				for i, s := range rep.Order {
-					if s.Relation != ">" {
-						rep.Order[i].Relation = ">"
-						return
-					}
+				if rep.Order[0].Relation == ">" {
+					rep.Order[0].Relation = "unresolved"
+				} else {
+					rep.Order[0].Relation = ">"
 				}
-				t.Fatal("no unresolved step to forge")
 			})
-		}, "order (step "},
+		}, "order (step 1)"},
+		{"group order stated otherwise", func(t *testing.T, dir string) {
+			tamper(t, dir, func(rep *Report) { rep.GroupOrder[0].Relation = "unresolved" })
+		}, "group_order (step 1)"},
+		{"group order digits", func(t *testing.T, dir string) {
+			tamper(t, dir, func(rep *Report) { rep.GroupOrder[0].Digits = 40 })
+		}, "group_order (step 1)"},
+		{"group range", func(t *testing.T, dir string) {
+			tamper(t, dir, func(rep *Report) { rep.Groups[1].Lambda.Hi = "0.99" })
+		}, "groups: "},
+		{"primitivity exponent", func(t *testing.T, dir string) {
+			tamper(t, dir, func(rep *Report) { k := 9; rowOf(t, rep, "1342").Exponent = &k })
+		}, "class 1342: primitivity_exponent: \"9\", but its checked certificate states \"4\""},
 		{"class count", func(t *testing.T, dir string) {
 			tamper(t, dir, func(rep *Report) { rep.Classes = 9 })
 		}, "classes: 9, but length 4 has 8"},
@@ -193,7 +203,7 @@ func TestMergeRefusesForgedShard(t *testing.T) {
 			dirs := shards(t, 4, 3)
 			tamper(t, dirs[1], tc.change)
 			out := filepath.Join(t.TempDir(), "merged")
-			_, err := Merge(context.Background(), out, dirs, fakeCheck, 2)
+			_, err := Merge(context.Background(), mergeOptions(out, dirs, &fakeCertifier{}))
 			var refused *RefusedError
 			if !errors.As(err, &refused) || !strings.Contains(err.Error(), tc.want) || !strings.Contains(err.Error(), dirs[1]) {
 				t.Errorf("error %v, want a refusal naming %s and containing %q", err, dirs[1], tc.want)
@@ -218,7 +228,7 @@ func TestResumeRedoesAForgedJournalRecord(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	forged := strings.Replace(string(data), `"lo": "0.0001342"`, `"lo": "0.9"`, 1)
+	forged := strings.Replace(string(data), `"lo": "0.5013416"`, `"lo": "0.9"`, 1)
 	if forged == string(data) {
 		t.Fatal("the record has no lambda to forge")
 	}

@@ -81,6 +81,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	length := fs.Int("length", 0, "")
 	to := fs.Int("to", 20, "")
 	digits := fs.Int("digits", 10, "")
+	refineDigits := fs.Int("refine-digits", 0, "")
 	out := fs.String("out", "", "")
 	jobs := fs.Int("jobs", runtime.NumCPU(), "")
 	shardFlag := fs.String("shard", "", "")
@@ -91,7 +92,10 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	params := census.Params{Length: *length, To: *to, Digits: *digits}
+	if *refineDigits == 0 {
+		*refineDigits = min(2**digits, certify.MaxDigits-5)
+	}
+	params := census.Params{Length: *length, To: *to, Digits: *digits, RefineDigits: *refineDigits}
 	switch {
 	case len(pos) > 0:
 		return failure(e, usagef("census: unexpected argument %q; the census takes flags only (or 'census merge DIR...')", pos[0]))
@@ -101,6 +105,8 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 		return failure(e, usagef("census: --jobs must be at least 1"))
 	case *digits > certify.MaxDigits-5:
 		return failure(e, usagef("census: --digits must be between 1 and %d", certify.MaxDigits-5))
+	case *refineDigits < *digits || *refineDigits > certify.MaxDigits-5:
+		return failure(e, usagef("census: --refine-digits must be between --digits (%d) and %d", *digits, certify.MaxDigits-5))
 	}
 	if err := params.Validate(); err != nil {
 		return failure(e, usagef("census: %v", err))
@@ -117,6 +123,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 		}
 	}
 	limitMemory(int64(maxMemory))
+	worker := int64(maxMemory) / int64(*jobs)
 	bar := newCensusBar(ctx, e, *quiet)
 	rep, err := census.Run(ctx, census.Options{
 		Params:  params,
@@ -124,11 +131,11 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 		Dir:     dir,
 		Jobs:    *jobs,
 		Tool:    "avoidcert " + version,
-		Certify: censusCertifier(int64(maxMemory) / int64(*jobs)),
-		Count:   censusCounter,
-		Check:   census.CheckerOf(censusOptions(int64(maxMemory) / int64(*jobs))),
+		Certify: censusCertifier(worker),
+		Count:   censusCounter(worker),
+		Check:   census.CheckerOf(censusOptions(worker)),
 		Progress: func(ev census.Event) {
-			if ev.Class == "" && ev.Resumed > 0 {
+			if ev.Class == "" && ev.Round == 0 && ev.Resumed > 0 {
 				fmt.Fprintf(e.stderr, "avoidcert: continuing the census in %s: %d of %d classes are in its journal\n", dir, ev.Resumed, ev.Total)
 			}
 			bar.update(ev)
@@ -143,9 +150,12 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 }
 
 // censusCounter counts with the engine and the checker side by side and
-// returns the counts only when they agree (prove.Counts).
-func censusCounter(ctx context.Context, set pattern.Set, n int) ([]*big.Int, error) {
-	return prove.Counts(ctx, set, n, prove.Options{Typed: set.Strings()})
+// returns the counts only when they agree (prove.Counts), within the
+// memory budget of one worker.
+func censusCounter(maxMemory int64) census.Counter {
+	return func(ctx context.Context, set pattern.Set, n int) ([]*big.Int, error) {
+		return prove.Counts(ctx, set, n, prove.Options{Typed: set.Strings(), MaxMemory: maxMemory})
+	}
 }
 
 // parseShard reads --shard I/N; "" is the whole census.
@@ -175,6 +185,10 @@ func censusFailure(e *env, dir string, err error) int {
 			writtenWhere(err), filepath.Join(dir, "journal"))
 	case errors.As(err, &in):
 		return failure(e, usagef("census: %v", err))
+	case errors.Is(err, prove.ErrBudget):
+		fmt.Fprintf(e.stderr, "avoidcert: census: undecided: %v; raise --max-memory (shared by the --jobs workers) or lower --jobs; finished classes are kept in %s\n",
+			err, filepath.Join(dir, "journal"))
+		return exitUndecided
 	case errors.Is(err, context.Canceled):
 		fmt.Fprintf(e.stderr, "avoidcert: census interrupted; finished classes are kept in %s: run the same command again to continue\n",
 			filepath.Join(dir, "journal"))
@@ -189,6 +203,7 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("census merge")
 	out := fs.String("out", "", "")
 	jobs := fs.Int("jobs", runtime.NumCPU(), "")
+	quiet := fs.Bool("quiet", false, "")
 	maxMemory := byteSize(8 << 30)
 	fs.Var(&maxMemory, "max-memory", "")
 	dirs, err := parseArgs(fs, args)
@@ -210,8 +225,11 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 		dir = "census-" + strconv.Itoa(rep.Params.Length)
 	}
 	limitMemory(int64(maxMemory))
-	check := census.CheckerOf(censusOptions(int64(maxMemory) / int64(*jobs)))
-	rep, err := census.Merge(ctx, dir, dirs, check, *jobs)
+	worker := int64(maxMemory) / int64(*jobs)
+	bar := newCensusBar(ctx, e, *quiet)
+	rep, err := census.Merge(ctx, census.MergeOptions{Out: dir, Dirs: dirs, Jobs: *jobs,
+		Check: census.CheckerOf(censusOptions(worker)), Certify: censusCertifier(worker), Progress: bar.update})
+	bar.finish(err == nil)
 	if err != nil {
 		return censusMergeFailure(e, err)
 	}
@@ -231,15 +249,24 @@ func censusMergeFailure(e *env, err error) int {
 	case errors.As(err, &refused):
 		fmt.Fprintf(e.stderr, "avoidcert: census merge: refused: %v; nothing was written\n", err)
 		return exitFailed
+	case errors.Is(err, prove.ErrBudget):
+		fmt.Fprintf(e.stderr, "avoidcert: census merge: undecided: %v; raise --max-memory (shared by the --jobs workers) or lower --jobs\n", err)
+		return exitUndecided
 	}
 	return failure(e, err)
 }
 
 func writeCensusSummary(e *env, dir string, rep *census.Report) {
-	strict := 0
+	strict, proved, digits := 0, 0, 0
 	for _, s := range rep.Order {
 		if s.Relation == ">" {
 			strict++
+		}
+	}
+	for _, s := range rep.GroupOrder {
+		if s.Relation == ">" {
+			proved++
+			digits = max(digits, s.Digits)
 		}
 	}
 	what := fmt.Sprintf("census of length %d", rep.Params.Length)
@@ -248,16 +275,24 @@ func writeCensusSummary(e *env, dir string, rep *census.Report) {
 	}
 	fmt.Fprintf(e.stdout, "%s: %d classes, %d groups with equal counts up to n = %d (separated by n = %d), %d of %d adjacent pairs strictly ordered by lambda\n",
 		what, len(rep.Rows), len(rep.Groups), rep.Params.To, rep.SeparatingN, strict, len(rep.Order))
+	if len(rep.GroupOrder) > 0 {
+		fmt.Fprintf(e.stdout, "order of the groups: %d of %d adjacent pairs proved (certificates of at most %d digits)", proved, len(rep.GroupOrder), digits)
+		if rep.Shard != nil {
+			fmt.Fprint(e.stdout, ", in this shard alone: the merge refines the order")
+		}
+		fmt.Fprintln(e.stdout)
+	}
 	fmt.Fprintf(e.stdout, "tables: %s, %s, %s; certificates in %s\n",
 		filepath.Join(dir, census.MarkdownFile), filepath.Join(dir, census.CSVFile), filepath.Join(dir, census.JSONFile),
 		filepath.Join(dir, "certificates"))
 }
 
-// censusBar shows the classes done on a terminal; without one (or with
-// --quiet) it does nothing.
+// censusBar shows the classes done on a terminal, then each round of the
+// refinement; without one (or with --quiet) it does nothing.
 type censusBar struct {
 	progress *mpb.Progress
 	bar      *mpb.Bar
+	round    int
 }
 
 func newCensusBar(ctx context.Context, e *env, quiet bool) *censusBar {
@@ -271,21 +306,37 @@ func newCensusBar(ctx context.Context, e *env, quiet bool) *censusBar {
 }
 
 func (b *censusBar) update(ev census.Event) {
-	if b.progress == nil || ev.Total == ev.Resumed {
+	if b.progress == nil {
+		return
+	}
+	if b.bar != nil && ev.Round != b.round {
+		b.bar.SetTotal(-1, true) // the phase before is complete
+		b.bar = nil
+	}
+	b.round = ev.Round
+	if ev.Round == 0 && ev.Total == ev.Resumed {
 		return
 	}
 	if b.bar == nil {
 		// The bar counts this run's classes, so the estimate of the time
 		// left is not skewed by the ones taken from the journal.
-		name := "classes"
-		if ev.Resumed > 0 {
+		name, total := "classes", ev.Total
+		switch {
+		case ev.Round > 0:
+			name = fmt.Sprintf("refining, round %d", ev.Round)
+		case ev.Resumed > 0:
 			name = fmt.Sprintf("classes (%d from the journal)", ev.Resumed)
+			total -= ev.Resumed
 		}
-		b.bar = b.progress.AddBar(int64(ev.Total-ev.Resumed),
+		b.bar = b.progress.AddBar(int64(total),
 			mpb.PrependDecorators(decor.Name(name+" "), decor.CountersNoUnit("%d/%d")),
 			mpb.AppendDecorators(decor.Percentage(), decor.Name(" left "), decor.AverageETA(decor.ET_STYLE_GO)))
 	}
-	b.bar.SetCurrent(int64(ev.Done - ev.Resumed))
+	if ev.Round > 0 {
+		b.bar.SetCurrent(int64(ev.Done))
+	} else {
+		b.bar.SetCurrent(int64(ev.Done - ev.Resumed))
+	}
 }
 
 func (b *censusBar) finish(ok bool) {

@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"fmt"
 
 	"avoidcert/census"
 	"avoidcert/certify"
@@ -12,7 +11,8 @@ import (
 
 // censusCertifier certifies one class for the census through prove.Certify
 // (structure, bracket, certificate, and the checker's acceptance before
-// anything is returned). maxMemory is the budget of one class.
+// anything is returned). maxMemory is the budget of one class; a bracket
+// it stops early is still certified, and said to be short.
 func censusCertifier(maxMemory int64) census.Certifier {
 	return func(ctx context.Context, set pattern.Set, digits int) (census.Certified, error) {
 		opts := censusOptions(maxMemory)
@@ -21,14 +21,15 @@ func censusCertifier(maxMemory int64) census.Certifier {
 		if err != nil {
 			return census.Certified{}, err
 		}
-		if !r.Done() {
-			return census.Certified{}, fmt.Errorf("%d digits not reached: %s", digits, stopWords(r.Bracket))
-		}
 		data, err := certify.Marshal(r.Certificate)
 		if err != nil {
 			return census.Certified{}, err
 		}
-		return census.Certified{Certificate: data, Checked: r.Certificate}, nil
+		c := census.Certified{Certificate: data, Checked: r.Certificate}
+		if !r.Done() {
+			c.Short = stopWords(r.Bracket)
+		}
+		return c, nil
 	}
 }
 
