@@ -210,12 +210,29 @@ func forms(rows []Row) []form {
 	return out
 }
 
+// formsSentence counts the classes by structure class and exponent.
 func formsSentence(rows []Row) string {
-	var parts []string
-	for _, f := range forms(rows) {
-		parts = append(parts, fmt.Sprintf("%d classes %s", len(f.classes), strings.SplitN(f.words, ":", 2)[0]))
+	var kinds []string
+	count := map[string]int{}
+	example := map[string]string{}
+	for _, r := range rows {
+		k := shortForm(r)
+		if count[k] == 0 {
+			kinds = append(kinds, k)
+			example[k] = r.Representative
+		}
+		count[k]++
 	}
-	return strings.Join(parts, "; ")
+	slices.SortStableFunc(kinds, func(a, b string) int { return count[b] - count[a] })
+	var parts []string
+	for _, k := range kinds {
+		if count[k] == 1 {
+			parts = append(parts, fmt.Sprintf("%s: 1 class (%s)", k, example[k]))
+		} else {
+			parts = append(parts, fmt.Sprintf("%s: %d classes", k, count[k]))
+		}
+	}
+	return strings.Join(parts, "; ") + " (k is the primitivity exponent; forms below)"
 }
 
 func rangeText(r Range) string {

@@ -16,6 +16,7 @@ import (
 
 	"avoidcert/census"
 	"avoidcert/certify"
+	"avoidcert/internal/bytesize"
 	"avoidcert/pattern"
 	"avoidcert/prove"
 )
@@ -124,6 +125,13 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	}
 	limitMemory(int64(maxMemory))
 	worker := int64(maxMemory) / int64(*jobs)
+	plan := census.EstimateRun(params, shard, *jobs, worker)
+	if class, what, need, over := plan.Over(); over {
+		fmt.Fprintf(e.stderr, "avoidcert: census: undecided: class %s: %s needs %s, over the memory budget of one worker (%s: --max-memory %s shared by --jobs %d); raise --max-memory, lower --jobs or --to; nothing was done\n",
+			class, what, bytesize.About(need), bytesize.Format(worker), bytesize.Format(int64(maxMemory)), *jobs)
+		return exitUndecided
+	}
+	fmt.Fprintf(e.stderr, "avoidcert: census of length %d, %d classes in %s: %s\n", *length, len(plan.Classes), dir, plan.Summary())
 	bar := newCensusBar(ctx, e, *quiet)
 	rep, err := census.Run(ctx, census.Options{
 		Params:  params,
