@@ -9,12 +9,15 @@
 #   scripts/census-sample.sh 8 25 10 200 1 docs/census-8/sample.tsv
 #
 # OUT.tsv gets one line per class: the class's index (1-based shard), its
-# representative, wall seconds and peak resident memory of the whole
-# command, the census's own seconds for the class (its journal), the n of
-# the final bracket, the structure class and primitivity exponent, the
-# certified lambda and its digits, and the machine's 1-minute load average
-# when the class started. The summary (on stdout) extrapolates the sample's
-# mean to every class and gives the shard count for a 100-core cluster.
+# representative, wall seconds, CPU seconds (user and system) and peak
+# resident memory of the whole command, the census's own wall seconds for
+# the class (its journal), the n of the final bracket, the structure class
+# and primitivity exponent, the certified lambda and its digits, and the
+# machine's 1-minute load average when the class started. The summary (on
+# stdout) extrapolates the sample's mean CPU time to every class (a census
+# with one worker per core is bound by CPU time; wall times depend on the
+# machine's load, which the file records) and gives the shard count for a
+# 100-core cluster.
 # The sample is drawn with a fixed linear congruential generator, so a
 # seed names the same classes on every machine.
 set -euo pipefail
@@ -51,33 +54,35 @@ for ((i = 1; i <= SAMPLE; i++)); do
 done
 
 mkdir -p "$(dirname "$OUT")"
-printf 'index\trepresentative\twall_s\tpeak_rss_kb\tclass_s\tbracket_n\tstructure\texponent\tlambda_lo\tlambda_hi\tdigits\tload1\n' >"$work/out.tsv"
+printf 'index\trepresentative\twall_s\tcpu_s\tpeak_rss_kb\tclass_s\tbracket_n\tstructure\texponent\tlambda_lo\tlambda_hi\tdigits\tload1\n' >"$work/out.tsv"
 for ((i = 1; i <= SAMPLE; i++)); do
 	k=${perm[i]}
 	load=$(cut -d' ' -f1 /proc/loadavg)
 	dir="$work/shard-$k"
-	/usr/bin/time -f '%e %M' -o "$work/time" "$work/avoidcert" census --length "$LENGTH" --to "$TO" --digits "$DIGITS" \
+	/usr/bin/time -f '%e %U %S %M' -o "$work/time" "$work/avoidcert" census --length "$LENGTH" --to "$TO" --digits "$DIGITS" \
 		--shard "$k/$classes" --jobs 1 --quiet --out "$dir" >/dev/null
-	read -r wall rss <"$work/time"
+	read -r wall user sys rss <"$work/time"
+	cpu=$(awk -v u="$user" -v s="$sys" 'BEGIN { printf "%.2f", u + s }')
 	# rank,representative,members,group,lambda_lo,lambda_hi,radius_lo,radius_hi,
 	# structure_class,primitivity_exponent,...,lambda_digits (column 19)
 	IFS=, read -r _ rep _ _ lo hi _ _ class exponent _ _ _ _ _ _ _ _ digits _ < <(sed -n 2p "$dir/census.csv")
 	seconds=$(sed -n 's/^  "seconds": \(.*\)$/\1/p' "$dir/journal/$rep.json")
 	n=$(grep -o '"n": [0-9]*' "$dir/certificates/$rep.json" | awk '{ if ($2 > m) m = $2 } END { print m }')
-	printf '%s\t%s\t%s\t%s\t%.3f\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n' "$k" "$rep" "$wall" "$rss" "$seconds" "$n" "$class" "$exponent" "$lo" "$hi" "$digits" "$load" >>"$work/out.tsv"
+	printf '%s\t%s\t%s\t%s\t%s\t%.3f\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n' "$k" "$rep" "$wall" "$cpu" "$rss" "$seconds" "$n" "$class" "$exponent" "$lo" "$hi" "$digits" "$load" >>"$work/out.tsv"
 	rm -rf "$dir"
-	printf '%d/%d %s %s s\n' "$i" "$SAMPLE" "$rep" "$wall" >&2
+	printf '%d/%d %s: wall %s s, CPU %s s, load %s\n' "$i" "$SAMPLE" "$rep" "$wall" "$cpu" "$load" >&2
 done
 cp "$work/out.tsv" "$OUT"
 
-sort -t$'\t' -k3,3g <(tail -n +2 "$OUT") | awk -F'\t' -v classes="$classes" -v len="$LENGTH" -v to="$TO" -v digits="$DIGITS" '
-	{ wall[NR] = $3; sum += $3; if ($4 > rss) { rss = $4; big = $2 } load += $12 }
+sort -t$'\t' -k4,4g <(tail -n +2 "$OUT") | awk -F'\t' -v classes="$classes" -v len="$LENGTH" -v to="$TO" -v digits="$DIGITS" '
+	{ cpu[NR] = $4; sum += $4; wall += $3; if ($5 > rss) { rss = $5; big = $2 } load += $13; name[NR] = $2 }
 	END {
 		n = NR
 		printf "sample: %d of the %d classes of length %d (counts to %d, %d digits), one at a time\n", n, classes, len, to, digits
-		printf "wall per class: median %.2f s, 90th percentile %.2f s, 99th %.2f s, max %.2f s; mean %.3f s; peak memory %.0f MB (%s)\n", wall[int((n + 1) / 2)], wall[int(0.9 * n + 0.5)], wall[int(0.99 * n + 0.5)], wall[n], sum / n, rss / 1024, big
+		printf "CPU per class: median %.2f s, 90th percentile %.2f s, 99th %.2f s, max %.2f s (%s); mean %.3f s (wall: mean %.3f s)\n", cpu[int((n + 1) / 2)], cpu[int(0.9 * n + 0.5)], cpu[int(0.99 * n + 0.5)], cpu[n], name[n], sum / n, wall / n
+		printf "peak memory of one class: %.0f MB (%s)\n", rss / 1024, big
 		printf "mean 1-minute load average during the sample: %.2f\n", load / n
 		total = sum / n * classes
-		printf "extrapolated: %.0f s of one core for all %d classes (%.1f h); on 2 cores %.1f h\n", total, classes, total / 3600, total / 7200
-		printf "100 cores: 100 shards of about %d classes, about %.0f min each (the slowest class alone takes %.0f s)\n", int((classes + 99) / 100), total / 100 / 60, wall[n]
+		printf "extrapolated: %.0f s of CPU for all %d classes (%.1f h); on 2 cores %.1f h\n", total, classes, total / 3600, total / 7200
+		printf "100 cores: 100 shards of about %d classes, about %.0f min each (the slowest class alone takes %.0f s)\n", int((classes + 99) / 100), total / 100 / 60, cpu[n]
 	}'

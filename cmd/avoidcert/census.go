@@ -24,42 +24,58 @@ import (
 func init() {
 	commands["census"] = command{
 		summary: "every symmetry class of one pattern length: counts, certified lambda, groups, order",
-		usage: `Usage: avoidcert census --length K [--to N] [--digits D] [--out DIR] [--jobs J] [--shard I/N]
-       avoidcert census merge [--out DIR] SHARD-DIR...
+		usage: `Usage: avoidcert census --length K [--to N] [--digits D] [--refine-digits R] [--out DIR] [--jobs J] [--shard I/N]
+       avoidcert census merge [--out DIR] [--jobs J] SHARD-DIR...
 
 Tabulates every symmetry class (reverse, complement, both) of single
 patterns of length K (3..8): exact counts a_0..a_N, lambda and 1/lambda
 certified to D significant digits with a certificate the checker accepted,
-the asymptotic form; the groups of classes with equal counts up to N
-(candidate c-Wilf equivalences; different groups are proved inequivalent at
-the recorded first n where counts differ); and the order of the classes by
-lambda, strict where certified ranges are disjoint.
+the asymptotic form and primitivity exponent; the groups of classes with
+equal counts up to N (candidate c-Wilf equivalences; different groups are
+proved inequivalent at the recorded first n where counts differ), numbered
+by rank (group 1 holds the class of largest lambda); and the order of the
+groups by lambda: where two neighbouring groups' certified ranges overlap,
+the classes reaching into the overlap are bracketed again at more digits,
+up to R, until the groups separate; pairs still overlapping are named.
 
-DIR receives census.md, census.csv, census.json (everything) and
-certificates/. A run killed at any moment continues where it stopped when
-run again with the same flags: finished classes are in DIR/journal.
+Before any work it prints its estimate per class and in all (an estimate
+from the engine's closed forms and a calibrated model, not a bound) and the
+memory budget of each worker; a class the budget cannot count or test is
+refused at once (exit 3).
+
+DIR receives census.md, census.csv, census.json (everything),
+certificates/ and refined/ (the classes bracketed again). A run killed at
+any moment continues where it stopped when run again with the same flags:
+finished classes are in DIR/journal, refined certificates in refined/.
 
 Flags:
-  --length K       pattern length, 3 to 8 (required)
-  --to N           counts a_0..a_N (default 20)
-  --digits D       significant digits of lambda to certify (default 10)
-  --out DIR        output folder (default census-K, or census-K-shard-I-of-N)
-  --jobs J         classes certified at once (default: the number of CPUs)
-  --shard I/N      only the I-th of N slices of the classes (1 <= I <= N), for
-                   a cluster job array; merge the N folders afterwards
-  --max-memory B   memory budget shared by the J classes at work (default 8G)
-  --quiet          no progress bar (it is shown only when stderr is a terminal)
+  --length K         pattern length, 3 to 8 (required)
+  --to N             counts a_0..a_N (default 20)
+  --digits D         significant digits of lambda to certify (default 10)
+  --refine-digits R  the most digits a class is bracketed at to order its
+                     group (default 2D; R = D orders at D digits only)
+  --out DIR          output folder (default census-K, or census-K-shard-I-of-N)
+  --jobs J           classes certified at once (default: the number of CPUs)
+  --shard I/N        only the I-th of N slices of the classes (1 <= I <= N),
+                     for a cluster job array; merge the N folders afterwards
+                     (a shard orders its own groups only and refines nothing)
+  --max-memory B     memory budget shared by the J workers (default 8G): each
+                     class's counting, structure test, bracket and check are
+                     held to B/J
+  --quiet            no progress bar (it is shown only when stderr is a terminal)
 
 merge combines the folders of all N shards of one census into DIR (default
-census-K), writing the same bytes as an unsharded run. A shard is untrusted
-input: every row's certificate (inside the shard's folder, matching its
-SHA-256) must be accepted by the checker for the row's class, and every
-certified field and count of the row must be what that certificate and the
-checker's own counting give, the shard's order and groups what its rows give;
-otherwise the merge is refused (exit 1, naming the shard, the row and the
-field) and nothing is written. It refuses shards of different parameters and
-a missing or duplicated shard or class (exit 2). Merge flags: --out DIR,
---jobs J (certificates checked at once), --max-memory B.
+census-K), refines the order of the groups as an unsharded run does, and
+writes the same bytes as an unsharded run (with the same budget per
+worker). A shard is untrusted input: every row's certificate (inside the
+shard's folder, matching its SHA-256) must be accepted by the checker for
+the row's class, and every certified field and count of the row must be
+what that certificate and the checker's own counting give, the shard's
+order and groups what its rows give; otherwise the merge is refused (exit
+1, naming the shard, the row and the field) and nothing is written. It
+refuses shards of different parameters and a missing or duplicated shard or
+class (exit 2). Merge flags: --out DIR, --jobs J (certificates checked and
+classes refined at once), --max-memory B, --quiet.
 
 A journal is untrusted too: a continued run re-checks the certificate of
 every class in the journal and does a class again whose record its
@@ -67,8 +83,10 @@ certificate does not support. Paths inside a census folder stay inside it:
 no "..", no absolute path, no symbolic link that leads out.
 
 Exit codes: 0 done, 1 (merge) a shard its certificates do not support, 2 bad
-input (or a folder holding another census), 4 interrupted (Ctrl-C, SIGTERM),
-out of space or a class failed (the finished classes are kept: run again).
+input (or a folder holding another census), 3 a class over one worker's
+memory budget (the finished classes are kept), 4 interrupted (Ctrl-C,
+SIGTERM), out of space or a class failed (the finished classes are kept: run
+again).
 `,
 		run: runCensus,
 	}
