@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"io/fs"
 	"math/big"
 	"os"
@@ -17,6 +18,7 @@ import (
 	"avoidcert/census"
 	"avoidcert/certify"
 	"avoidcert/interval"
+	"avoidcert/pattern"
 )
 
 // censusArgs are the parameters of the length-4 census the tests share:
@@ -318,5 +320,85 @@ func BenchmarkVerifyCensus4(b *testing.B) {
 		if _, err := census.Verify(context.Background(), dir, check, 1); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// A shard of the census of length 8 (3 of its 10176 classes: classes 1,
+// 3393 and 6785 of pattern.SymmetryClasses) gives, row by row, what count,
+// structure and bound give for the class's representative run one by one:
+// the same counts, class and primitivity exponent, ranges, and the same
+// certificate file byte for byte. a_8 = 8! - 1 (counted by hand: only the
+// pattern itself contains itself among the permutations of length 8).
+func TestCensusLength8ShardMatchesSingleCommands(t *testing.T) {
+	dir := t.TempDir()
+	var stdout, stderr bytes.Buffer
+	e := &env{stdout: &stdout, stderr: &stderr}
+	args := []string{"census", "--length", "8", "--to", "12", "--digits", "4", "--shard", "1/3392", "--jobs", "1", "--quiet", "--out", dir}
+	if code := run(context.Background(), e, args); code != exitOK {
+		t.Fatalf("census: exit %d: %s", code, stderr.String())
+	}
+	rep, err := census.ReadReport(context.Background(), dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	all := pattern.SymmetryClasses(8)
+	want := []string{all[0].Representative.String(), all[3392].Representative.String(), all[6784].Representative.String()}
+	var got []string
+	for _, r := range rep.Rows {
+		got = append(got, r.Representative)
+	}
+	slices.Sort(got)
+	if len(all) != 10176 || !slices.Equal(got, want) {
+		t.Fatalf("%d classes of length 8; the shard holds %v, want %v", len(all), got, want)
+	}
+	for _, r := range rep.Rows {
+		if r.Counts[8] != "40319" {
+			t.Errorf("%s: a_8 = %s, want 8! - 1 = 40319", r.Representative, r.Counts[8])
+		}
+		var counted struct {
+			Counts []struct{ Count string } `json:"counts"`
+		}
+		runJSON(t, &counted, "count", r.Representative, "--to", "12", "--format", "json")
+		if len(counted.Counts) != 13 {
+			t.Errorf("%s: count gives %d counts, want a_0..a_12", r.Representative, len(counted.Counts))
+		}
+		for n, c := range counted.Counts {
+			if c.Count != r.Counts[n] {
+				t.Errorf("%s: a_%d is %s in the census, %s from count", r.Representative, n, r.Counts[n], c.Count)
+			}
+		}
+		var st struct {
+			Class    string `json:"class"`
+			Exponent *int   `json:"primitivity_exponent"`
+		}
+		runJSON(t, &st, "structure", r.Representative, "--json")
+		if st.Class != r.Class || st.Exponent == nil || r.Exponent == nil || *st.Exponent != *r.Exponent {
+			t.Errorf("%s: structure %s, exponent %v; the census states %s, %v", r.Representative, st.Class, st.Exponent, r.Class, r.Exponent)
+		}
+		file := filepath.Join(t.TempDir(), "cert.json")
+		var b struct {
+			Lambda, Radius census.Range
+		}
+		runJSON(t, &b, "bound", r.Representative, "--digits", "4", "--json", "--quiet", "--out", file)
+		if b.Lambda != r.Lambda || b.Radius != r.Radius {
+			t.Errorf("%s: bound gives lambda %v, 1/lambda %v; the census %v, %v", r.Representative, b.Lambda, b.Radius, r.Lambda, r.Radius)
+		}
+		mine, err1 := os.ReadFile(file)
+		theirs, err2 := os.ReadFile(filepath.Join(dir, r.Certificate))
+		if err1 != nil || err2 != nil || !bytes.Equal(mine, theirs) {
+			t.Errorf("%s: bound's certificate differs from the census's (%v, %v)", r.Representative, err1, err2)
+		}
+	}
+}
+
+// runJSON runs the command in process and decodes its standard output.
+func runJSON(t *testing.T, v any, args ...string) {
+	t.Helper()
+	var stdout, stderr bytes.Buffer
+	if code := run(context.Background(), &env{stdout: &stdout, stderr: &stderr}, args); code != exitOK {
+		t.Fatalf("%v: exit %d: %s", args, code, stderr.String())
+	}
+	if err := json.Unmarshal(stdout.Bytes(), v); err != nil {
+		t.Fatalf("%v: %v", args, err)
 	}
 }
