@@ -470,7 +470,9 @@ func TestPeriodicMaxN(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if b := res.Brackets[0]; res.Stop != StopMaxN || b.N != 12 || b.Step != 2 || res.Explicit != nil {
+	// The last bracket is within a step of MaxN (where the schedule puts
+	// it: a base needs the previous bracket's G_(n+d)).
+	if b := res.Brackets[0]; res.Stop != StopMaxN || b.N > 12 || b.N < 12-b.Step || b.Step != 2 || res.Explicit != nil {
 		t.Fatalf("stop %s at n = %d, step %d, explicit %v", res.Stop, b.N, b.Step, res.Explicit)
 	}
 	checkContains(t, "123,321", res, interval.LambdaAlternating(200))
@@ -510,5 +512,24 @@ func TestTinyDeadline(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// TestScheduleNoOvershoot: the width of 36582714 barely moves between its
+// early brackets (n = 23 and 25 both give 9 digits), and a schedule that
+// trusted that decay jumped to n = 46 (20 digits, 8 GB, and a certificate
+// whose check needed 25 GB); growing k by at most half reaches 10 digits
+// by n = 26 (found on the census of length 8).
+func TestScheduleNoOvershoot(t *testing.T) {
+	if testing.Short() {
+		t.Skip("a length-8 bracket to n = 26")
+	}
+	_, sys := system(t, "36582714")
+	res, err := Run(context.Background(), sys, Options{Digits: 10, MaxMemory: 1 << 30}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b := res.Brackets[0]; res.Stop != StopTarget || b.N > 30 {
+		t.Errorf("stop %s with the bracket at n = %d, want 10 digits by n = 30", res.Stop, b.N)
 	}
 }
