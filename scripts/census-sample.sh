@@ -59,10 +59,19 @@ for ((i = 1; i <= SAMPLE; i++)); do
 	k=${perm[i]}
 	load=$(cut -d' ' -f1 /proc/loadavg)
 	dir="$work/shard-$k"
+	status=0
 	/usr/bin/time -f '%e %U %S %M' -o "$work/time" "$work/avoidcert" census --length "$LENGTH" --to "$TO" --digits "$DIGITS" \
-		--shard "$k/$classes" --jobs 1 --quiet --out "$dir" >/dev/null
-	read -r wall user sys rss <"$work/time"
+		--shard "$k/$classes" --jobs 1 --quiet --out "$dir" >/dev/null 2>"$work/stderr" || status=$?
+	read -r wall user sys rss < <(grep -v '^Command exited' "$work/time")
 	cpu=$(awk -v u="$user" -v s="$sys" 'BEGIN { printf "%.2f", u + s }')
+	if [ "$status" -ne 0 ]; then
+		# A class the census could not finish (a budget: exit 3) is a
+		# figure of the sample too: its row says so, with the time spent.
+		printf '%s\t%s\t%s\t%s\t%s\t\t\tfailed (exit %s)\t\t\t\t\t%s\n' "$k" "?" "$wall" "$cpu" "$rss" "$status" "$load" >>"$work/out.tsv"
+		printf '%d/%d class %d: exit %s after %s s: %s\n' "$i" "$SAMPLE" "$k" "$status" "$wall" "$(tail -n 1 "$work/stderr")" >&2
+		rm -rf "$dir"
+		continue
+	fi
 	# rank,representative,members,group,lambda_lo,lambda_hi,radius_lo,radius_hi,
 	# structure_class,primitivity_exponent,...,lambda_digits (column 19)
 	IFS=, read -r _ rep _ _ lo hi _ _ class exponent _ _ _ _ _ _ _ _ digits _ < <(sed -n 2p "$dir/census.csv")
@@ -75,12 +84,13 @@ done
 cp "$work/out.tsv" "$OUT"
 
 sort -t$'\t' -k4,4g <(tail -n +2 "$OUT") | awk -F'\t' -v classes="$classes" -v len="$LENGTH" -v to="$TO" -v digits="$DIGITS" '
-	{ cpu[NR] = $4; sum += $4; wall += $3; if ($5 > rss) { rss = $5; big = $2 } load += $13; name[NR] = $2 }
+	{ cpu[NR] = $4; sum += $4; wall += $3; if ($5 > rss) { rss = $5; big = $2 } load += $13; name[NR] = $2; if ($8 ~ /^failed/) failed++ }
 	END {
 		n = NR
 		printf "sample: %d of the %d classes of length %d (counts to %d, %d digits), one at a time\n", n, classes, len, to, digits
 		printf "CPU per class: median %.2f s, 90th percentile %.2f s, 99th %.2f s, max %.2f s (%s); mean %.3f s (wall: mean %.3f s)\n", cpu[int((n + 1) / 2)], cpu[int(0.9 * n + 0.5)], cpu[int(0.99 * n + 0.5)], cpu[n], name[n], sum / n, wall / n
 		printf "peak memory of one class: %.0f MB (%s)\n", rss / 1024, big
+		printf "classes that failed (a budget): %d\n", failed
 		printf "mean 1-minute load average during the sample: %.2f\n", load / n
 		total = sum / n * classes
 		printf "extrapolated: %.0f s of CPU for all %d classes (%.1f h); on 2 cores %.1f h\n", total, classes, total / 3600, total / 7200
