@@ -11,27 +11,30 @@ import (
 	"avoidcert/transfer"
 )
 
-// The census's model of one class, calibrated on measured runs (the
-// journal's seconds, the certificates' final brackets and the processes'
-// peak resident memory for classes of lengths 6 to 8 at 10 digits,
-// docs/census-8.md "The estimate"). It is a model: its figures are
-// estimates, never bounds.
+// The census's model of one class, calibrated on measured runs: a random
+// sample of 200 classes of length 8 run one by one (counts to 25, 10
+// digits: 4.2 s of CPU and 209 MB resident per class on average, the
+// machine shared at a load of about 6; docs/census-8/sample.tsv) and
+// in-process times of counting and bracketing classes of lengths 6 to 8.
+// It is a model: its figures are estimates, never bounds.
 const (
 	// bracketSteps: the bracket that reaches D digits is taken at about
 	// n = M + 4 + ceil(bracketSteps * D), M the longest prefix state
-	// (measured: n - M - 4 from 11 to 16 for D = 10, single patterns of
-	// lengths 6 to 8, a few classes far above).
+	// (measured at 10 digits: n - M - 4 from 12 to 15 for length 8,
+	// 11 to 17 for lengths 6 and 7).
 	bracketSteps = 1.4
 	// countNanos and bracketNanos are the CPU nanoseconds per byte of the
 	// iterates G_0..G_n summed: counting to N with the engine and the
-	// checker side by side (measured 25 to 40), and the bracket run with
-	// its certificate's check (measured 23 to 52).
-	countNanos   = 27
-	bracketNanos = 35
+	// checker side by side, and the bracket run with its certificate's
+	// check (measured 25 to 40 and 23 to 52 in process; scaled by 1.35 to
+	// the whole command's CPU time in the sample).
+	countNanos   = 36
+	bracketNanos = 47
 	// residentFactor scales the engine's largest footprint (counting, or
 	// the step to the bracket) to the peak resident memory of the class,
 	// the checker's work and the collector's slack included; residentBase
-	// is the process's own.
+	// is the process's own (modelled 197 MB for length 8 against 209 MB
+	// measured on average, 350 MB at most).
 	residentFactor = 5
 	residentBase   = 12 << 20
 )
@@ -139,7 +142,7 @@ func (e *Estimate) Summary() string {
 		}
 	}
 	slices.Sort(secs)
-	return fmt.Sprintf("estimated per class %s (median, %s at most) and %s of memory at most (%s); in all %s on %d worker(s), each held to %s (estimates from a model calibrated on measured runs, not bounds; the refinement of the groups' order comes on top)",
+	return fmt.Sprintf("estimated per class %s of CPU (median, %s at most) and %s of memory at most (%s); in all %s on %d worker(s), each held to %s (estimates from a model calibrated on measured runs, not bounds; the refinement of the groups' order comes on top)",
 		duration(secs[len(secs)/2]), duration(secs[len(secs)-1]), bytesize.About(largest.Resident), largest.Representative,
 		duration(e.Seconds()), e.Jobs, bytesize.Format(e.Worker))
 }
