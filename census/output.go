@@ -95,7 +95,7 @@ func tableMarkdown(rep *Report) []byte {
 	fmt.Fprintf(&b, "- asymptotic form: %s\n\n", formsSentence(rep.Rows))
 
 	fmt.Fprintf(&b, "## Classes, largest lambda first\n\n")
-	b.WriteString("Each class's lambda and 1/lambda are those of its most precise certificate: `certificates/REPRESENTATIVE.json`, or `refined/REPRESENTATIVE-D.json` (marked *) where the class was bracketed again at D digits to order its group. \"digits\" is the number of leading significant digits the two ends share. The structure is the certificate's class with its primitivity exponent k (the least k with T^k positive).\n\n")
+	b.WriteString("Each class's lambda and 1/lambda are those of its most precise certificate: `certificates/REPRESENTATIVE.json`, or `refined/REPRESENTATIVE-R.json` (marked *) where the class was bracketed again, aiming at R digits, to order its group. \"digits\" is the number of leading significant digits the two ends share. The structure is the certificate's class with its primitivity exponent k (the least k with T^k positive).\n\n")
 	fmt.Fprintf(&b, "| rank | representative | members | group | lambda | 1/lambda | digits | structure | a_%d |\n", p.To)
 	b.WriteString("|---|---|---|---|---|---|---|---|---|\n")
 	for i, r := range rep.Rows {
@@ -110,7 +110,7 @@ func tableMarkdown(rep *Report) []byte {
 
 	b.WriteString("\n## Asymptotic forms\n\n")
 	for _, f := range forms(rep.Rows) {
-		fmt.Fprintf(&b, "- %d classes: %s", len(f.classes), f.words)
+		fmt.Fprintf(&b, "- %s: %s", classCount(len(f.classes)), f.words)
 		if len(f.classes) <= 12 {
 			fmt.Fprintf(&b, " (%s)", strings.Join(f.classes, ", "))
 		}
@@ -229,10 +229,17 @@ func formsSentence(rows []Row) string {
 		if count[k] == 1 {
 			parts = append(parts, fmt.Sprintf("%s: 1 class (%s)", k, example[k]))
 		} else {
-			parts = append(parts, fmt.Sprintf("%s: %d classes", k, count[k]))
+			parts = append(parts, fmt.Sprintf("%s: %s", k, classCount(count[k])))
 		}
 	}
 	return strings.Join(parts, "; ") + " (k is the primitivity exponent; forms below)"
+}
+
+func classCount(n int) string {
+	if n == 1 {
+		return "1 class"
+	}
+	return fmt.Sprintf("%d classes", n)
 }
 
 func rangeText(r Range) string {

@@ -125,16 +125,16 @@ func verifyRow(ctx context.Context, f *folder, where string, row Row, params Par
 			return refuse("refined.certificate", "%s is not a refinement of the class: %s/%s-D.json with D from %d to %d",
 				quoteShort(ref.Certificate), refinedDir, row.Representative, params.Digits+1, params.RefineDigits)
 		}
-		refinedData, rc, err := checkedFile(ctx, f, where, row, "refined.certificate", ref.Certificate, ref.Certificate, ref.CertificateSHA256, check)
+		refinedData, rc, err := checkedFile(ctx, f, where, row, "refined.certificate", ref.Certificate, refinedPath(row.Representative, digits), ref.CertificateSHA256, check)
 		if err != nil {
 			return nil, nil, err
 		}
-		have := fieldsOf(rc)
+		stated := fieldsOf(rc)
 		for _, x := range []struct{ name, have, want string }{
-			{"refined.lambda.lo", ref.Lambda.Lo, have.Lambda.Lo},
-			{"refined.lambda.hi", ref.Lambda.Hi, have.Lambda.Hi},
-			{"refined.radius.lo", ref.Radius.Lo, have.Radius.Lo},
-			{"refined.radius.hi", ref.Radius.Hi, have.Radius.Hi},
+			{"refined.lambda.lo", ref.Lambda.Lo, stated.Lambda.Lo},
+			{"refined.lambda.hi", ref.Lambda.Hi, stated.Lambda.Hi},
+			{"refined.radius.lo", ref.Radius.Lo, stated.Radius.Lo},
+			{"refined.radius.hi", ref.Radius.Hi, stated.Radius.Hi},
 		} {
 			if x.have != x.want {
 				return refuse(x.name, "%s, but its checked certificate states %s", quoteShort(x.have), quoteShort(x.want))
