@@ -151,7 +151,7 @@ func (e *Estimate) Summary() string {
 func duration(s float64) string {
 	switch {
 	case s < 1:
-		return fmt.Sprintf("%.2f s", s)
+		return fmt.Sprintf("%.2g s", s)
 	case s < 60:
 		return fmt.Sprintf("%.1f s", s)
 	case s < 3600:

@@ -164,6 +164,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 			if ev.Class == "" && ev.Round == 0 && ev.Resumed > 0 {
 				fmt.Fprintf(e.stderr, "avoidcert: continuing the census in %s: %d of %d classes are in its journal\n", dir, ev.Resumed, ev.Total)
 			}
+			refiningLine(e, ev)
 			bar.update(ev)
 		},
 	})
@@ -254,7 +255,11 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	worker := int64(maxMemory) / int64(*jobs)
 	bar := newCensusBar(ctx, e, *quiet)
 	rep, err := census.Merge(ctx, census.MergeOptions{Out: dir, Dirs: dirs, Jobs: *jobs,
-		Check: census.CheckerOf(censusOptions(worker)), Certify: censusCertifier(worker), Progress: bar.update})
+		Check: census.CheckerOf(censusOptions(worker)), Certify: censusCertifier(worker),
+		Progress: func(ev census.Event) {
+			refiningLine(e, ev)
+			bar.update(ev)
+		}})
 	bar.finish(err == nil)
 	if err != nil {
 		return censusMergeFailure(e, err)
@@ -311,6 +316,14 @@ func writeCensusSummary(e *env, dir string, rep *census.Report) {
 	fmt.Fprintf(e.stdout, "tables: %s, %s, %s; certificates in %s\n",
 		filepath.Join(dir, census.MarkdownFile), filepath.Join(dir, census.CSVFile), filepath.Join(dir, census.JSONFile),
 		filepath.Join(dir, "certificates"))
+}
+
+// refiningLine says, once per round of the refinement, how many classes
+// are bracketed again (a line for logs, where no bar is drawn).
+func refiningLine(e *env, ev census.Event) {
+	if ev.Round > 0 && ev.Done == 0 {
+		fmt.Fprintf(e.stderr, "avoidcert: ordering the groups, round %d: %d classes of overlapping neighbouring groups bracketed again at more digits\n", ev.Round, ev.Total)
+	}
 }
 
 // censusBar shows the classes done on a terminal, then each round of the
