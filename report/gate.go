@@ -66,7 +66,7 @@ func FromGate(name string, data []byte) (*Gate, error) {
 		dec := json.NewDecoder(bytes.NewReader(line))
 		dec.DisallowUnknownFields()
 		if err := dec.Decode(&c); err != nil {
-			return nil, fmt.Errorf("%s:%d: not a line of 'avoidcert gate --json': %v", name, n, err)
+			return nil, fmt.Errorf("%s:%d: not a line of 'avoidcert gate --json': %s", name, n, input.JSONProblem(err))
 		}
 		if c.ID == "" || c.Verdict == "" {
 			return nil, fmt.Errorf("%s:%d: a claim without id or verdict", name, n)

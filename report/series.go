@@ -15,6 +15,7 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
+	"avoidcert/internal/input"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/prob"
@@ -70,7 +71,7 @@ func FromSeries(ctx context.Context, name string, data []byte) (*Series, error) 
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(&s.Run); err != nil {
-		return nil, fmt.Errorf("%s: not the JSON of 'avoidcert series': %v", name, err)
+		return nil, fmt.Errorf("%s: not the JSON of 'avoidcert series': %s", name, input.JSONProblem(err))
 	}
 	r := &s.Run
 	switch {

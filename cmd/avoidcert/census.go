@@ -94,7 +94,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	params := census.Params{Length: *length, To: *to, Digits: *digits}
 	switch {
 	case len(pos) > 0:
-		return failure(e, usagef("census: unexpected argument %q; the census takes flags only (or 'census merge DIR...')", pos[0]))
+		return failure(e, usagef("census: %s is not a flag; the census takes flags only (or 'census merge DIR...')", quote(pos[0])))
 	case *length == 0:
 		return failure(e, usagef("census: --length is required, e.g. 'avoidcert census --length 5'"))
 	case *jobs < 1:
@@ -179,8 +179,8 @@ func censusFailure(e *env, dir string, err error) int {
 		fmt.Fprintf(e.stderr, "avoidcert: census interrupted; finished classes are kept in %s: run the same command again to continue\n",
 			filepath.Join(dir, "journal"))
 	default:
-		fmt.Fprintf(e.stderr, "avoidcert: census: %v\nfinished classes are kept in %s: run the same command again to continue\n",
-			err, filepath.Join(dir, "journal"))
+		fmt.Fprintf(e.stderr, "avoidcert: census: %s; finished classes are kept in %s: run the same command again to continue\n",
+			ownWords(err.Error()), filepath.Join(dir, "journal"))
 	}
 	return exitAborted
 }
@@ -229,7 +229,7 @@ func censusMergeFailure(e *env, err error) int {
 	case errors.As(err, &in):
 		return failure(e, usagef("census merge: %v", err))
 	case errors.As(err, &refused):
-		fmt.Fprintf(e.stderr, "avoidcert: census merge: refused: %v; nothing was written\n", err)
+		fmt.Fprintf(e.stderr, "avoidcert: census merge: refused: %s; nothing was written\n", ownWords(err.Error()))
 		return exitFailed
 	}
 	return failure(e, err)

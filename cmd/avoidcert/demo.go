@@ -45,7 +45,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 		return failure(e, err)
 	}
 	if len(pos) > 0 {
-		return failure(e, usagef("demo: unexpected argument %s; give your own manifest with --manifest FILE", quote(pos[0])))
+		return failure(e, usagef("demo: %s is not a flag; the demo takes flags only (give your own manifest with --manifest FILE)", quote(pos[0])))
 	}
 	var m *claims.Manifest
 	if *manifest != "" {

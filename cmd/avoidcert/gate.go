@@ -71,7 +71,8 @@ func runGate(ctx context.Context, e *env, args []string) int {
 	junit := fs.String("junit", "", "")
 	certs := fs.String("certificates", "", "")
 	cache := fs.String("cache", "", "")
-	timeout := fs.Duration("timeout", 0, "")
+	var timeout duration
+	fs.Var(&timeout, "timeout", "")
 	var mem byteSize
 	fs.Var(&mem, "max-memory", "")
 	progress := fs.Bool("progress", false, "")
@@ -82,7 +83,7 @@ func runGate(ctx context.Context, e *env, args []string) int {
 	if len(pos) != 1 {
 		return failure(e, usagef("gate: name one manifest file, e.g. 'avoidcert gate claims.toml'"))
 	}
-	if *timeout < 0 {
+	if timeout < 0 {
 		return failure(e, usagef("gate: --timeout must not be negative"))
 	}
 	m, err := readManifest(ctx, "gate", pos[0])
@@ -96,7 +97,7 @@ func runGate(ctx context.Context, e *env, args []string) int {
 		*cache = ""
 	}
 	g := &gateRun{manifest: m, junit: *junit, progress: *progress,
-		opts: claims.Options{CacheDir: *cache, CertDir: *certs, Timeout: *timeout, MaxMemory: int64(mem), Tool: "avoidcert " + version}}
+		opts: claims.Options{CacheDir: *cache, CertDir: *certs, Timeout: time.Duration(timeout), MaxMemory: int64(mem), Tool: "avoidcert " + version}}
 	if err := g.prepare("gate"); err != nil {
 		return failure(e, err)
 	}

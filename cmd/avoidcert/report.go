@@ -3,11 +3,14 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 
+	"avoidcert/census"
 	"avoidcert/internal/input"
 	"avoidcert/prove"
 	"avoidcert/report"
@@ -98,7 +101,7 @@ func runReport(ctx context.Context, e *env, args []string) int {
 		case ctx.Err() != nil:
 			return interrupted(e)
 		case report.IsRefused(err):
-			fmt.Fprintf(e.stderr, "avoidcert: report: %v\n", err)
+			fmt.Fprintf(e.stderr, "avoidcert: report: %s\n", ownWords(err.Error()))
 			return exitFailed
 		case errors.Is(err, prove.ErrBudget):
 			return failure(e, fmt.Errorf("report: %w", err))
@@ -147,10 +150,37 @@ func addInput(ctx context.Context, doc *report.Document, path string) error {
 		doc.Gates = append(doc.Gates, g)
 		return nil
 	}
+	if err := looksLikeCertificate(path, data); err != nil {
+		return err
+	}
 	r, err := report.FromCertificate(ctx, path, data)
 	if err != nil {
 		return err
 	}
 	doc.Certificates = append(doc.Certificates, r)
+	return nil
+}
+
+// looksLikeCertificate refuses, with what to do instead, a file that is
+// none of report's inputs, before it is read as a certificate (whose
+// reader would only say what a certificate lacks).
+func looksLikeCertificate(path string, data []byte) error {
+	var probe struct {
+		Content *struct {
+			Format string `json:"format"`
+		} `json:"content"`
+		Format string `json:"format"`
+	}
+	trimmed := bytes.TrimSpace(data)
+	switch {
+	case len(trimmed) == 0 || trimmed[0] != '{':
+		return fmt.Errorf("%s is not JSON: report reads certificates, census folders and the JSON of 'gate --json' and 'series --json' (a claims manifest goes to 'avoidcert gate FILE --json', whose output report reads)", quote(path))
+	case json.Unmarshal(trimmed, &probe) != nil:
+		return nil // damaged: the certificate reader says where
+	case probe.Format == census.ReportFormat:
+		return fmt.Errorf("%s is a census table: give report the census folder, %s, so that every row is checked against its certificate", quote(path), quote(filepath.Dir(path)))
+	case probe.Content == nil:
+		return fmt.Errorf("%s is JSON but none of report's inputs (a certificate, the JSON of 'gate --json' or 'series --json', a census folder)", quote(path))
+	}
 	return nil
 }
