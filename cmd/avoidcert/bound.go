@@ -54,7 +54,8 @@ Flags:
   --quiet             no live progress bar (shown on a terminal by default)
 
 The certificate file: a regular file is replaced atomically (temp file
-.NAME.avoidcert-tmp-PID-DIGITS beside it, then a rename); a symbolic link is
+.NAME.avoidcert-tmp-PID-DIGITS beside it, then a rename), a new one is
+created in an existing folder (a missing folder is refused); a symbolic link is
 written through to its target, which must be a regular file or missing in an
 existing folder; a folder, device, FIFO or socket is refused before any work.
 A temp file left by a killed run is removed by a later write of that NAME

@@ -42,7 +42,8 @@ Flags:
   --length K       pattern length, 3 to 8 (required)
   --to N           counts a_0..a_N (default 20)
   --digits D       significant digits of lambda to certify (default 10)
-  --out DIR        output folder (default census-K, or census-K-shard-I-of-N)
+  --out DIR        output folder (default census-K, or census-K-shard-I-of-N),
+                   created if missing in an existing folder
   --jobs J         classes certified at once (default: the number of CPUs)
   --shard I/N      only the I-th of N slices of the classes (1 <= I <= N), for
                    a cluster job array; merge the N folders afterwards
@@ -115,6 +116,9 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 		if !shard.Whole() {
 			dir += fmt.Sprintf("-shard-%d-of-%d", shard.Index, shard.Of)
 		}
+	}
+	if err := openOutDir("census", "--out", dir); err != nil {
+		return failure(e, err)
 	}
 	limitMemory(int64(maxMemory))
 	bar := newCensusBar(ctx, e, *quiet)
@@ -208,6 +212,9 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 			return censusMergeFailure(e, err)
 		}
 		dir = "census-" + strconv.Itoa(rep.Params.Length)
+	}
+	if err := openOutDir("census merge", "--out", dir); err != nil {
+		return failure(e, err)
 	}
 	limitMemory(int64(maxMemory))
 	check := census.CheckerOf(censusOptions(int64(maxMemory) / int64(*jobs)))

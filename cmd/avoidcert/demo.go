@@ -21,13 +21,13 @@ Runs the claims gate (see 'avoidcert help gate') on the built-in table of a
 fictional manuscript (testdata/demo/manuscript.toml, invented for this
 demo): counts, growth rates, a structure class, an order of growth rates,
 equal counts and a probability, some right and some wrong. It writes the
-certificates, the verdicts as JSON lines and a JUnit XML report into a fresh
-folder, prints its path, and lists the refuted entries with their evidence.
+certificates, the verdicts as JSON lines and a JUnit XML report into a
+folder (--out, or a fresh one), prints its path, and lists the refuted entries with their evidence.
 
 Flags:
   --manifest FILE   run your own manifest instead (schema: docs/claims.md)
-  --out DIR         make the fresh folder inside DIR (default: the system's
-                    temporary folder)
+  --out DIR         write into DIR, created if missing in an existing folder
+                    (default: a fresh folder in the system's temporary folder)
 
 The demo itself succeeds (exit 0) whatever the verdicts are; use
 'avoidcert gate' where the verdicts must set the exit code.
@@ -56,11 +56,15 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	dir, err := os.MkdirTemp(*out, "avoidcert-demo-")
-	if err != nil {
-		return failure(e, usagef("demo: cannot make a folder for the results: %w; choose another --out", err))
+	dir := *out
+	if dir == "" {
+		if dir, err = os.MkdirTemp("", "avoidcert-demo-"); err != nil {
+			return failure(e, usagef("demo: cannot make a folder for the results in the temporary folder (%s); give one with --out DIR", osReason(err)))
+		}
+	} else if err := openOutDir("demo", "--out", dir); err != nil {
+		return failure(e, err)
 	}
-	g := &gateRun{manifest: m, junit: filepath.Join(dir, "junit.xml"),
+	g := &gateRun{manifest: m, junitPath: filepath.Join(dir, "junit.xml"),
 		opts: claims.Options{CertDir: filepath.Join(dir, "certificates"), Tool: "avoidcert " + version}}
 	if err := g.prepare("demo"); err != nil {
 		return failure(e, err)

@@ -60,8 +60,8 @@ final brackets) and the page says so.
 
 Flags:
   --format F   md (default), html or tex
-  --out FILE   write there (atomically; a folder, device or FIFO is
-               refused) instead of standard output
+  --out FILE   write there (atomically, in an existing folder; a folder,
+               device or FIFO is refused) instead of standard output
 
 Exit codes: 0 success, 1 a certificate the checker refuses or a census row
 it does not support, 2 bad input (a file that cannot be read, is no
