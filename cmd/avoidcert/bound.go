@@ -49,9 +49,10 @@ Flags:
   --max-k K           stop at this k (default 1000, the checker's limit)
   --max-memory B      stop before a step that would need more (default 8G)
   --timeout T         stop the bracket after this long, e.g. 90s or 10m, and
-                      certify the best one (default none)
+                      certify the best one (default none; 0s is refused)
   --progress          one line per bracket on stderr (for logs)
-  --quiet             no live progress bar (shown on a terminal by default)
+  --quiet             no live progress bar (shown on a terminal by default);
+                      not with --progress
 
 The certificate file: a regular file is replaced atomically (temp file
 .NAME.avoidcert-tmp-PID-DIGITS beside it, then a rename), a new one is
@@ -116,8 +117,8 @@ func (b *budget) validate(cmd string) error {
 		return usagef("%s: --max-k must be at least 1", cmd)
 	case b.maxK > certify.MaxN:
 		return usagef("%s: --max-k %d is over %d, the largest k a certificate checker accepts", cmd, b.maxK, certify.MaxN)
-	case b.timeout < 0:
-		return usagef("%s: --timeout must not be negative", cmd)
+	case b.progress && b.quiet:
+		return usagef("%s: give --progress (lines for logs) or --quiet (no progress at all), not both", cmd)
 	}
 	return nil
 }

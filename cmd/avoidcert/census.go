@@ -117,7 +117,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 			dir += fmt.Sprintf("-shard-%d-of-%d", shard.Index, shard.Of)
 		}
 	}
-	if err := openOutDir("census", "--out", dir); err != nil {
+	if err := openOutDir("census", "--out", dir, true); err != nil {
 		return failure(e, err)
 	}
 	limitMemory(int64(maxMemory))
@@ -213,7 +213,7 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 		}
 		dir = "census-" + strconv.Itoa(rep.Params.Length)
 	}
-	if err := openOutDir("census merge", "--out", dir); err != nil {
+	if err := openOutDir("census merge", "--out", dir, false); err != nil {
 		return failure(e, err)
 	}
 	limitMemory(int64(maxMemory))

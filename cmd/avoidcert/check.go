@@ -82,6 +82,9 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
+	if *progress && *quiet {
+		return failure(e, usagef("check: give --progress (lines for logs) or --quiet (no progress at all), not both"))
+	}
 	// "check FILE --expect 123 321": patterns after the file belong to --expect.
 	if len(pos) == 0 || (len(pos) > 1 && len(expect) == 0) {
 		return failure(e, usagef("check: name exactly one certificate file, e.g. 'avoidcert check avoidcert-1342.json'"))

@@ -61,7 +61,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 		if dir, err = os.MkdirTemp("", "avoidcert-demo-"); err != nil {
 			return failure(e, usagef("demo: cannot make a folder for the results in the temporary folder (%s); give one with --out DIR", osReason(err)))
 		}
-	} else if err := openOutDir("demo", "--out", dir); err != nil {
+	} else if err := openOutDir("demo", "--out", dir, true); err != nil {
 		return failure(e, err)
 	}
 	g := &gateRun{manifest: m, junitPath: filepath.Join(dir, "junit.xml"),

@@ -77,13 +77,29 @@ type byteSize int64
 
 func (b *byteSize) String() string { return strconv.FormatInt(int64(*b), 10) }
 
+// Set reads a memory size and refuses one larger than the memory this
+// process can have (machineMemory): such a budget would promise what the
+// machine cannot give, and the run would fail on it instead of stopping
+// within it.
 func (b *byteSize) Set(s string) error {
 	v, err := bytesize.Parse(s)
 	if err != nil {
 		return err
 	}
+	if have, what, ok := machineMemory(); ok && v > have {
+		return fmt.Errorf("more than %s (%s); give at most %s", what, bytesize.Format(have), sizeFlag(have))
+	}
 	*b = byteSize(v)
 	return nil
+}
+
+// sizeFlag writes n bytes as a --max-memory value, rounded down to whole
+// MiB or GiB.
+func sizeFlag(n int64) string {
+	if n >= 1<<30 {
+		return strconv.FormatInt(n>>30, 10) + "G"
+	}
+	return strconv.FormatInt(max(n>>20, 1), 10) + "M"
 }
 
 // The flag package's messages, read so that the command can say the same
@@ -177,6 +193,9 @@ func (d *duration) Set(s string) error {
 			return fmt.Errorf("%s has no unit; write e.g. %ss, 90s or 10m", quote(s), s)
 		}
 		return errors.New("not a duration; write e.g. 90s, 10m or 1h30m")
+	}
+	if v <= 0 {
+		return fmt.Errorf("%s is no time at all; give a positive duration such as 90s, or leave the flag out for no limit", quote(s))
 	}
 	*d = duration(v)
 	return nil

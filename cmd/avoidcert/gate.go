@@ -84,9 +84,6 @@ func runGate(ctx context.Context, e *env, args []string) int {
 	if len(pos) != 1 {
 		return failure(e, usagef("gate: name one manifest file, e.g. 'avoidcert gate claims.toml'"))
 	}
-	if timeout < 0 {
-		return failure(e, usagef("gate: --timeout must not be negative"))
-	}
 	m, err := readManifest(ctx, "gate", pos[0])
 	if err != nil {
 		return failure(e, err)
@@ -155,7 +152,7 @@ func (g *gateRun) prepare(cmd string) (err error) {
 		if d.dir == "" || slices.ContainsFunc(locked, func(l string) bool { return sameFolder(l, d.dir) }) {
 			continue
 		}
-		if err := openOutDir(cmd, d.flag, d.dir); err != nil {
+		if err := openOutDir(cmd, d.flag, d.dir, true); err != nil {
 			return err
 		}
 		release, err := filelock.Lock(filepath.Join(d.dir, lockName))

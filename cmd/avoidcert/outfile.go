@@ -123,9 +123,10 @@ func parentExists(p string) error {
 
 // openOutDir makes sure a folder a command writes into is usable before
 // any work: an existing folder (or a link to one) is used, a missing one
-// is created when the folder it goes in exists, anything else is refused.
-// The error is a usageError naming the flag.
-func openOutDir(cmd, flag, dir string) error {
+// may be made when the folder it goes in exists (now when create is set,
+// else by the writer when it has something to write), anything else is
+// refused. The error is a usageError naming the flag.
+func openOutDir(cmd, flag, dir string, create bool) error {
 	info, err := os.Stat(dir)
 	switch {
 	case err == nil && info.IsDir():
@@ -137,6 +138,9 @@ func openOutDir(cmd, flag, dir string) error {
 	}
 	if err := parentExists(dir); err != nil {
 		return usagef("%s: cannot create the folder %s: %v; or choose another %s", cmd, quote(dir), err, flag)
+	}
+	if !create {
+		return nil
 	}
 	if err := os.Mkdir(dir, 0o755); err != nil && !errors.Is(err, fs.ErrExist) {
 		return usagef("%s: cannot create the folder %s (%s); choose another %s", cmd, quote(dir), osReason(err), flag)

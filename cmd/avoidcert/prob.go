@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"flag"
 	"fmt"
 	"math/big"
 	"strconv"
@@ -45,12 +46,14 @@ Flags:
   --json            one JSON object instead of text
   --occurrences J   also the distribution of the number of matches, j <= J
   --max-work W      largest estimated work of --occurrences, in word additions
-                    (default 5e10, about a minute on two cores)
+                    (default 5e10, about a minute on two cores; only with
+                    --occurrences)
   --rel-width W     target relative width of a certified interval (default 1e-6)
   --max-memory B    largest estimated memory of an exact count (default 1G);
                     over it the certified interval answers; also the limit
                     of --occurrences
-  --timeout T       stop tightening the bracket after this long (e.g. 90s)
+  --timeout T       stop tightening the bracket after this long (e.g. 90s;
+                    a positive duration: leave it out for no limit)
   --digits D        significant digits of printed decimals (default 15)
 
 Exit codes: 0 success, 2 bad input, 3 the relative width is still above
@@ -81,6 +84,8 @@ func runProb(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
+	given := map[string]bool{}
+	fs.Visit(func(f *flag.Flag) { given[f.Name] = true })
 	switch {
 	case *n < 0:
 		return failure(e, usagef("prob: give the number of draws with --n N (0 to %d)", prob.MaxN))
@@ -90,8 +95,12 @@ func runProb(ctx context.Context, e *env, args []string) int {
 		return failure(e, usagef("prob: --rel-width must lie strictly between 0 and 1"))
 	case *digits < 1 || *digits > 100:
 		return failure(e, usagef("prob: --digits must be 1 to 100"))
-	case timeout < 0:
-		return failure(e, usagef("prob: --timeout must not be negative"))
+	case given["occurrences"] && *occ < 0:
+		return failure(e, usagef("prob: --occurrences %d: give the largest number of matching windows to tabulate, 0 or more", *occ))
+	case given["max-work"] && !given["occurrences"]:
+		return failure(e, usagef("prob: --max-work bounds the work of --occurrences only; give --occurrences J, or leave --max-work out"))
+	case !(*maxWork > 0):
+		return failure(e, usagef("prob: --max-work must be a positive number of word additions, such as 5e10"))
 	}
 	out := probOutput{Patterns: set.Strings(), N: *n}
 	code := exitOK
