@@ -15,7 +15,7 @@ import (
 func init() {
 	commands["demo"] = command{
 		summary: "a referee checks a fictional manuscript's table with the claims gate",
-		usage: `Usage: avoidcert demo [--manifest FILE] [--out DIR]
+		usage: `Usage: avoidcert demo [--manifest FILE] [--out DIR] [--json]
 
 Runs the claims gate (see 'avoidcert help gate') on the built-in table of a
 fictional manuscript (testdata/demo/manuscript.toml, invented for this
@@ -28,6 +28,8 @@ Flags:
   --manifest FILE   run your own manifest instead (schema: docs/claims.md)
   --out DIR         write into DIR, created if missing in an existing folder
                     (default: a fresh folder in the system's temporary folder)
+  --json            print the gate's JSON lines (as in verdicts.jsonl; schema
+                    docs/schema/gate.schema.json) instead of the table
 
 The demo itself succeeds (exit 0) whatever the verdicts are; use
 'avoidcert gate' where the verdicts must set the exit code.
@@ -40,6 +42,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("demo")
 	manifest := fs.String("manifest", "", "")
 	out := fs.String("out", "", "")
+	asJSON := fs.Bool("json", false, "")
 	pos, err := parseArgs(fs, args)
 	if err != nil {
 		return failure(e, err)
@@ -74,7 +77,9 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	if title == "" {
 		title = m.File
 	}
-	fmt.Fprintf(e.stdout, "Referee check of %s\n\n", title)
+	if !*asJSON {
+		fmt.Fprintf(e.stdout, "Referee check of %s\n\n", title)
+	}
 	results, code := g.run(ctx, e)
 	if code != exitOK {
 		return code
@@ -86,6 +91,10 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, fmt.Errorf("demo: cannot write the verdicts: %w", err))
 	}
+	if *asJSON {
+		e.stdout.Write(lines.Bytes()) // the gate's JSON lines, as in verdicts.jsonl
+		return demoExit(results)
+	}
 	claims.WriteTable(e.stdout, results)
 	fmt.Fprintf(e.stdout, "\n%s.\n", claims.Summarize(results))
 	for _, r := range results {
@@ -95,6 +104,11 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	}
 	fmt.Fprintf(e.stdout, "\nWritten to %s:\n  certificates/   one checked certificate per growth, form and order claim\n  verdicts.jsonl  one JSON object per claim\n  junit.xml       JUnit XML, one test case per claim\n", dir)
 	fmt.Fprintln(e.stdout, "Re-check any certificate with 'avoidcert check FILE --expect PATTERN...'; judge your own table with 'avoidcert gate FILE' (docs/claims.md).")
+	return demoExit(results)
+}
+
+// demoExit is 0 whatever the verdicts, 4 when the tool failed on a claim.
+func demoExit(results []claims.Result) int {
 	if claims.Summarize(results).Failed > 0 {
 		return exitAborted
 	}
