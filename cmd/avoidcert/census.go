@@ -49,6 +49,8 @@ Flags:
                    a cluster job array; merge the N folders afterwards
   --max-memory B   memory budget shared by the J classes at work (default 8G)
   --quiet          no progress bar (it is shown only when stderr is a terminal)
+  --json           print the census (the content of DIR/census.json, format
+                   avoidcert-census; docs/json.md) instead of the summary
 
 merge combines the folders of all N shards of one census into DIR (default
 census-K), writing the same bytes as an unsharded run. A shard is untrusted
@@ -59,7 +61,7 @@ checker's own counting give, the shard's order and groups what its rows give;
 otherwise the merge is refused (exit 1, naming the shard, the row and the
 field) and nothing is written. It refuses shards of different parameters and
 a missing or duplicated shard or class (exit 2). Merge flags: --out DIR,
---jobs J (certificates checked at once), --max-memory B.
+--jobs J (certificates checked at once), --max-memory B, --json.
 
 A journal is untrusted too: a continued run re-checks the certificate of
 every class in the journal and does a class again whose record its
@@ -86,6 +88,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	jobs := fs.Int("jobs", runtime.NumCPU(), "")
 	shardFlag := fs.String("shard", "", "")
 	quiet := fs.Bool("quiet", false, "")
+	asJSON := fs.Bool("json", false, "")
 	maxMemory := byteSize(8 << 30)
 	fs.Var(&maxMemory, "max-memory", "")
 	pos, err := parseArgs(fs, args)
@@ -142,7 +145,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return censusFailure(e, dir, err)
 	}
-	writeCensusSummary(e, dir, rep)
+	writeCensusSummary(e, dir, rep, *asJSON)
 	return exitOK
 }
 
@@ -193,6 +196,7 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("census merge")
 	out := fs.String("out", "", "")
 	jobs := fs.Int("jobs", runtime.NumCPU(), "")
+	asJSON := fs.Bool("json", false, "")
 	maxMemory := byteSize(8 << 30)
 	fs.Var(&maxMemory, "max-memory", "")
 	dirs, err := parseArgs(fs, args)
@@ -222,7 +226,7 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return censusMergeFailure(e, err)
 	}
-	writeCensusSummary(e, dir, rep)
+	writeCensusSummary(e, dir, rep, *asJSON)
 	return exitOK
 }
 
@@ -242,7 +246,14 @@ func censusMergeFailure(e *env, err error) int {
 	return failure(e, err)
 }
 
-func writeCensusSummary(e *env, dir string, rep *census.Report) {
+// writeCensusSummary says what the census holds and where, or with
+// asJSON prints the census itself: the content of DIR/census.json, on one
+// line.
+func writeCensusSummary(e *env, dir string, rep *census.Report, asJSON bool) {
+	if asJSON {
+		writeJSON(e.stdout, rep)
+		return
+	}
 	strict := 0
 	for _, s := range rep.Order {
 		if s.Relation == ">" {

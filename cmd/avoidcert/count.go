@@ -146,10 +146,11 @@ func writeCountsJSON(e *env, s pattern.Set, rows []countRow) {
 		Probability string `json:"probability"`
 	}
 	out := struct {
+		jsonHead
 		Patterns []string `json:"patterns"`
 		Window   int      `json:"window"`
 		Counts   []entry  `json:"counts"`
-	}{Patterns: s.Strings(), Window: s.Window(), Counts: []entry{}}
+	}{jsonHead: headOf("count"), Patterns: s.Strings(), Window: s.Window(), Counts: []entry{}}
 	for _, r := range rows {
 		out.Counts = append(out.Counts, entry{N: r.n, Count: r.count.String(), Probability: r.prob.RatString()})
 	}

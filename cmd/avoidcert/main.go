@@ -372,6 +372,18 @@ func interrupted(e *env) int {
 	return exitAborted
 }
 
+// jsonHead starts every JSON object the command line prints: the output's
+// format, "avoidcert-" and its name, and the version of that format
+// (docs/json.md; a schema per format in docs/schema/).
+type jsonHead struct {
+	Format  string `json:"format"`
+	Version int    `json:"version"`
+}
+
+// headOf is the head of a command's JSON output; every one of them is at
+// version 1.
+func headOf(name string) jsonHead { return jsonHead{Format: "avoidcert-" + name, Version: 1} }
+
 // writeJSON prints v as one line of JSON, without HTML escaping ("<" stays
 // "<": the explanations compare numbers).
 func writeJSON(w io.Writer, v any) {

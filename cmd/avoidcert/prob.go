@@ -43,7 +43,7 @@ mean").
 
 Flags:
   --n N             the number of draws, 0..1000000000 (required)
-  --json            one JSON object instead of text
+  --json            one JSON object instead of text (docs/json.md)
   --occurrences J   also the distribution of the number of matches, j <= J
   --max-work W      largest estimated work of --occurrences, in word additions
                     (default 5e10, about a minute on two cores; only with
@@ -102,7 +102,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 	case !(*maxWork > 0):
 		return failure(e, usagef("prob: --max-work must be a positive number of word additions, such as 5e10"))
 	}
-	out := probOutput{Patterns: set.Strings(), N: *n}
+	out := probOutput{jsonHead: headOf("prob"), Patterns: set.Strings(), N: *n}
 	code := exitOK
 	exact, need := prob.InExactRange(set, *n, int64(maxMem))
 	if *occ >= 0 {
@@ -137,12 +137,13 @@ func runProb(ctx context.Context, e *env, args []string) int {
 		if w := c.Interval.RelativeWidth(); w != nil {
 			out.RelativeWidth = interval.DecimalUp(w, 3)
 		}
-		out.AllN = &probAllN{N0: all.N0, LambdaDigits: c.Digits}
+		_, _, digits, agreed := certified(c.Result.Certificate)
+		out.AllN, out.LambdaDigits = allNJSONOf(all, digits), &agreed
 		why := "N is past 500"
 		if *n <= prob.MaxExactN {
 			why = fmt.Sprintf("an exact count would need %s, over --max-memory %s", bytesize.About(need), bytesize.Format(int64(maxMem)))
 		}
-		out.Note = fmt.Sprintf("%s; from the checked certificate's bound for every n >= %d (lambda bracketed to %d digits)", why, all.N0, c.Digits)
+		out.Note = fmt.Sprintf("%s; from the checked certificate's bound for every n >= %d (lambda bracketed to %d digits; its certified ends agree to %d)", why, all.N0, c.Digits, agreed)
 		narrow := c.Narrow
 		out.Narrow = &narrow
 		switch {
@@ -196,11 +197,6 @@ func roundedDecimal(p *big.Rat) string {
 	return new(big.Float).SetPrec(96).SetRat(p).Text('g', 10)
 }
 
-type probAllN struct {
-	N0           int `json:"n0"`
-	LambdaDigits int `json:"lambda_digits"`
-}
-
 type probOccurrence struct {
 	J           int    `json:"j"`
 	Count       string `json:"count"`
@@ -209,6 +205,7 @@ type probOccurrence struct {
 }
 
 type probOutput struct {
+	jsonHead
 	Patterns      []string         `json:"patterns"`
 	N             int              `json:"n"`
 	Method        string           `json:"method"`
@@ -218,7 +215,8 @@ type probOutput struct {
 	Hi            string           `json:"hi"`
 	RelativeWidth string           `json:"relative_width,omitempty"`
 	Narrow        *bool            `json:"narrow,omitempty"`
-	AllN          *probAllN        `json:"all_n,omitempty"`
+	LambdaDigits  *int             `json:"lambda_digits,omitempty"`
+	AllN          *allNJSON        `json:"all_n,omitempty"`
 	Note          string           `json:"note"`
 	Occurrences   []probOccurrence `json:"occurrences,omitempty"`
 	MoreThanJ     string           `json:"more_than_j,omitempty"`

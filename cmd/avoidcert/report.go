@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"os"
@@ -19,7 +20,7 @@ import (
 func init() {
 	commands["report"] = command{
 		summary: "a page for readers from certificates: Markdown, HTML or LaTeX",
-		usage: `Usage: avoidcert report [--format md|html|tex] [--out FILE] INPUT...
+		usage: `Usage: avoidcert report [--format md|html|tex | --json] [--out FILE] INPUT...
 
 Each INPUT is a certificate (format version 4), the output of
 'avoidcert gate --json' (one JSON object per line), the output of
@@ -60,6 +61,10 @@ final brackets) and the page says so.
 
 Flags:
   --format F   md (default), html or tex
+  --json       the same content as data instead, one JSON object
+               (docs/json.md): the certified values, the verified census
+               tables, the gate's lines as recorded, the series runs with
+               their avoidance derived again, the figures' data
   --out FILE   write there (atomically, in an existing folder; a folder,
                device or FIFO is refused) instead of standard output
 
@@ -77,15 +82,24 @@ space.
 func runReport(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("report")
 	format := fs.String("format", "md", "")
+	asJSON := fs.Bool("json", false, "")
 	outPath := fs.String("out", "-", "")
 	files, err := parseArgs(fs, args)
 	if err != nil {
 		return failure(e, err)
 	}
-	render := map[string]func(io.Writer, *report.Document) error{"md": report.Markdown, "html": report.HTML, "tex": report.TeX}[*format]
+	formatGiven := false
+	fs.Visit(func(f *flag.Flag) { formatGiven = formatGiven || f.Name == "format" })
+	if *asJSON {
+		if formatGiven {
+			return failure(e, usagef("report: give --json or --format %s, not both", quote(*format)))
+		}
+		*format = "json"
+	}
+	render := map[string]func(io.Writer, *report.Document) error{"md": report.Markdown, "html": report.HTML, "tex": report.TeX, "json": report.JSON}[*format]
 	switch {
 	case render == nil:
-		return failure(e, usagef("report: --format %s is not one of md, html, tex", quote(*format)))
+		return failure(e, usagef("report: --format %s is not one of md, html, tex (or --json)", quote(*format)))
 	case len(files) == 0:
 		return failure(e, usagef("report: give at least one certificate file"))
 	}

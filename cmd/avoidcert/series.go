@@ -362,7 +362,7 @@ func seriesAssess(ctx context.Context, e *env, out *series.Run, f *seriesFlags, 
 	lengths := prob.Interleave(int(t.Values), f.delay)
 	obs := make([]prob.Observation, len(items))
 	for i, s := range items {
-		it := series.Item{Pattern: s.String(), Members: s.Strings()}
+		it := series.Item{Pattern: s.String(), Patterns: s.Strings()}
 		seen := map[int]bool{}
 		for _, m := range s.Patterns() {
 			it.Observed += t.Patterns[len(m)][pattern.Rank(m)]
