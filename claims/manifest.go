@@ -282,6 +282,8 @@ var tomlFaults = []struct{ has, says string }{
 	{"is not a table", "used both as a value and as a table: keep one"},
 	{"newlines", "a string is not closed on its line: end it with a double quote"},
 	{"NULL bytes", "not UTF-8 text (saved as UTF-16?): save the manifest as UTF-8"},
+	{"out of range", "a number too large for TOML: write counts as strings in quotes, e.g. \"74207209\""},
+	{"delimiter", "a table name TOML cannot read: write [run], [defaults] or [[claim]]"},
 	{"incompatible types", "a value of the wrong type: counts and decimals go in quotes, n, from and to are whole numbers, patterns a list of strings"},
 	{"nteger", "not a number TOML reads: write whole numbers without leading zeros, and counts and decimals as strings in quotes"},
 	{"loat", "not a number TOML reads: write decimals as strings in quotes, e.g. \"0.9546\""},

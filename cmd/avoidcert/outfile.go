@@ -77,14 +77,16 @@ func (o *outFile) resolve() error {
 		}
 		info, err := os.Lstat(p)
 		switch {
-		case errors.Is(err, fs.ErrNotExist):
-			if err := parentExists(p); err != nil {
-				return err
+		case err != nil:
+			// a folder on the way that is missing or a file is named as such
+			if perr := parentExists(p); perr != nil {
+				return perr
+			}
+			if !errors.Is(err, fs.ErrNotExist) {
+				return errors.New(osReason(err))
 			}
 			o.target = p
 			return nil
-		case err != nil:
-			return err
 		case info.Mode()&fs.ModeSymlink != 0:
 			link, err := os.Readlink(p)
 			if err != nil {
@@ -133,11 +135,12 @@ func openOutDir(cmd, flag, dir string, create bool) error {
 		return nil
 	case err == nil:
 		return usagef("%s: %s is a %s, not a folder; choose another %s", cmd, quote(dir), input.TypeName(info.Mode()), flag)
-	case !errors.Is(err, fs.ErrNotExist):
-		return usagef("%s: cannot use the folder %s (%s); choose another %s", cmd, quote(dir), osReason(err), flag)
 	}
-	if err := parentExists(dir); err != nil {
-		return usagef("%s: cannot create the folder %s: %v; or choose another %s", cmd, quote(dir), err, flag)
+	if perr := parentExists(dir); perr != nil {
+		return usagef("%s: cannot create the folder %s: %v; or choose another %s", cmd, quote(dir), perr, flag)
+	}
+	if !errors.Is(err, fs.ErrNotExist) {
+		return usagef("%s: cannot use the folder %s (%s); choose another %s", cmd, quote(dir), osReason(err), flag)
 	}
 	if !create {
 		return nil
