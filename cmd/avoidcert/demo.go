@@ -99,7 +99,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 	fmt.Fprintf(e.stdout, "\n%s.\n", claims.Summarize(results))
 	for _, r := range results {
 		if r.Verdict == claims.Refuted {
-			fmt.Fprintf(e.stdout, "REFUTED %s (line %d of %s): %s\n", r.ID, r.Line, m.File, r.Evidence)
+			fmt.Fprintf(e.stdout, "REFUTED %s (line %d of %s): claimed %s; %s\n", r.ID, r.Line, m.File, r.Claim.Statement(), r.Evidence)
 		}
 	}
 	fmt.Fprintf(e.stdout, "\nWritten to %s:\n  certificates/   one checked certificate per growth, form and order claim\n  verdicts.jsonl  one JSON object per claim\n  junit.xml       JUnit XML, one test case per claim\n", dir)
