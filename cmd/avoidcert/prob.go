@@ -137,8 +137,8 @@ func runProb(ctx context.Context, e *env, args []string) int {
 		if w := c.Interval.RelativeWidth(); w != nil {
 			out.RelativeWidth = interval.DecimalUp(w, 3)
 		}
-		_, _, digits, agreed := certified(c.Result.Certificate)
-		out.AllN, out.LambdaDigits = allNJSONOf(all, digits), &agreed
+		_, _, certDigits, agreed := certified(c.Result.Certificate)
+		out.AllN, out.LambdaDigits = allNJSONOf(all, certDigits), &agreed
 		why := "N is past 500"
 		if *n <= prob.MaxExactN {
 			why = fmt.Sprintf("an exact count would need %s, over --max-memory %s", bytesize.About(need), bytesize.Format(int64(maxMem)))
