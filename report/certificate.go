@@ -76,7 +76,8 @@ func FromCertificate(ctx context.Context, name string, data []byte) (*Certificat
 func checked(ctx context.Context, name string, data []byte) (*certify.Certificate, error) {
 	c, err := certify.Read(bytes.NewReader(data))
 	if err != nil {
-		return nil, fmt.Errorf("%s: %v", name, err)
+		// the reader's "certificate: " prefix names its package, not the file
+		return nil, fmt.Errorf("%s: not a certificate the checker can read: %s", name, strings.TrimPrefix(err.Error(), "certificate: "))
 	}
 	if err := prove.Recheck(ctx, c, pattern.Set{}, prove.Options{Typed: c.Statement.Given}); err != nil {
 		switch {

@@ -19,7 +19,9 @@
 //     (IsRefused) naming the row and the field.
 //   - A gate's JSON lines are restated as recorded, not re-checked, and
 //     labelled so; they are never shown as this report's verdicts, and a
-//     line with a verdict or kind the gate never writes is refused.
+//     line with a verdict or kind the gate never writes, or of another
+//     format version (an earlier gate's lines do not restate their
+//     claims), is refused.
 //   - Every number stated as proved is read from the checked certificate
 //     and printed rounded outward (interval.DecimalDown / DecimalUp at the
 //     certificate's digits), so a printed bound still holds.
@@ -36,6 +38,10 @@
 //     accepts while the report is made). The page says which is which.
 //   - Rendering is deterministic: the same certificate gives the same
 //     bytes (no times, no host names), which the golden files rely on.
+//   - JSON writes the same document as data (format avoidcert-report,
+//     docs/json.md), with the same standing of every value: nothing it
+//     holds as certified comes from anywhere but a certificate the
+//     checker accepted while the report was made.
 //
 // Values returned are fresh; the caller owns them.
 package report

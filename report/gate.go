@@ -12,21 +12,8 @@ import (
 	"avoidcert/internal/input"
 )
 
-// GateClaim is one line of 'avoidcert gate --json'.
-type GateClaim struct {
-	ID           string  `json:"id"`
-	Kind         string  `json:"kind"`
-	Line         int     `json:"line"`
-	Verdict      string  `json:"verdict"`
-	Evidence     string  `json:"evidence"`
-	Cached       bool    `json:"cached"`
-	Seconds      float64 `json:"seconds"`
-	Certificates []struct {
-		Set    string `json:"set"`
-		Path   string `json:"path"`
-		SHA256 string `json:"sha256"`
-	} `json:"certificates"`
-}
+// GateClaim is one line of 'avoidcert gate --json', as the gate writes it.
+type GateClaim = claims.JSONLine
 
 // Gate is a gate's JSON output: its verdicts as the gate recorded them.
 // A report restates them as recorded and not re-checked (the lines hold
@@ -37,7 +24,8 @@ type Gate struct {
 }
 
 // IsGateJSON reports whether data starts with a gate's JSON line (an
-// object with "verdict" and "kind"), as opposed to a certificate.
+// object with "verdict" and "kind", as every version of the gate wrote),
+// as opposed to a certificate.
 func IsGateJSON(data []byte) bool {
 	line, _, _ := bytes.Cut(bytes.TrimSpace(data), []byte("\n"))
 	var probe map[string]json.RawMessage
@@ -65,18 +53,24 @@ func FromGate(name string, data []byte) (*Gate, error) {
 		var c GateClaim
 		dec := json.NewDecoder(bytes.NewReader(line))
 		dec.DisallowUnknownFields()
-		if err := dec.Decode(&c); err != nil {
-			return nil, fmt.Errorf("%s:%d: not a line of 'avoidcert gate --json': %v", name, n, err)
+		err := dec.Decode(&c)
+		switch {
+		case err == nil && c.Format == "":
+			return nil, fmt.Errorf("%s:%d: a line of an earlier gate, which did not restate its claims; run the gate again with this version", name, n)
+		case err != nil:
+			return nil, fmt.Errorf("%s:%d: not a line of 'avoidcert gate --json': %s", name, n, input.JSONProblem(err))
+		case c.Format != claims.JSONFormat || c.Version != claims.JSONVersion:
+			return nil, fmt.Errorf("%s:%d: format %s version %d; this report reads %s version %d", name, n, quoteID(c.Format), c.Version, claims.JSONFormat, claims.JSONVersion)
 		}
 		if c.ID == "" || c.Verdict == "" {
 			return nil, fmt.Errorf("%s:%d: a claim without id or verdict", name, n)
 		}
-		if !slices.Contains(gateVerdicts, claims.Verdict(c.Verdict)) {
+		if !slices.Contains(gateVerdicts, c.Verdict) {
 			return nil, fmt.Errorf("%s:%d: claim %s: %s is not a verdict the gate writes (%s); the file is not the gate's output as written",
-				name, n, quoteID(c.ID), quoteID(c.Verdict), verdictList())
+				name, n, quoteID(c.ID), quoteID(string(c.Verdict)), verdictList())
 		}
-		if !slices.Contains(gateKinds, claims.Kind(c.Kind)) {
-			return nil, fmt.Errorf("%s:%d: claim %s: %s is not a claim kind; the file is not the gate's output as written", name, n, quoteID(c.ID), quoteID(c.Kind))
+		if !slices.Contains(gateKinds, c.Kind) {
+			return nil, fmt.Errorf("%s:%d: claim %s: %s is not a claim kind; the file is not the gate's output as written", name, n, quoteID(c.ID), quoteID(string(c.Kind)))
 		}
 		g.Claims = append(g.Claims, c)
 	}
@@ -113,8 +107,8 @@ func quoteID(s string) string {
 
 // tally counts the claims by recorded verdict.
 func (g *Gate) tally() string {
-	counts := map[string]int{}
-	var order []string
+	counts := map[claims.Verdict]int{}
+	var order []claims.Verdict
 	for _, c := range g.Claims {
 		if counts[c.Verdict] == 0 {
 			order = append(order, c.Verdict)

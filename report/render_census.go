@@ -114,7 +114,7 @@ func (g *Gate) heading() string {
 func (g *Gate) certificates(c GateClaim) string {
 	var parts []string
 	for _, ref := range c.Certificates {
-		parts = append(parts, fmt.Sprintf("avoidcert check %s --expect %s", shellQuote(ref.Path), shellQuote(ref.Set)))
+		parts = append(parts, fmt.Sprintf("avoidcert check %s --expect %s", shellQuote(ref.Path), shellQuote(strings.Join(ref.Patterns, ","))))
 	}
 	return strings.Join(parts, "; ")
 }
@@ -134,11 +134,11 @@ func (g *Gate) html() string {
 	fmt.Fprintf(&b, "<h2>%s</h2>\n<p>%s</p>\n<table>\n<tr><th>claim</th><th>kind</th><th>line</th><th>recorded verdict</th><th>recorded evidence</th><th>check the certificates with</th></tr>\n",
 		html.EscapeString(g.heading()), html.EscapeString(gateNote))
 	for _, c := range g.Claims {
-		v := html.EscapeString(c.Verdict)
-		if c.Verdict != string(claims.Proved) {
+		v := html.EscapeString(string(c.Verdict))
+		if c.Verdict != claims.Proved {
 			v = "<strong>" + v + "</strong>"
 		}
-		fmt.Fprintf(&b, "<tr><td>%s</td><td>%s</td><td>%d</td><td>%s</td><td>%s</td><td>%s</td></tr>\n", html.EscapeString(c.ID), html.EscapeString(c.Kind), c.Line, v, html.EscapeString(c.Evidence), html.EscapeString(g.certificates(c)))
+		fmt.Fprintf(&b, "<tr><td>%s</td><td>%s</td><td>%d</td><td>%s</td><td>%s</td><td>%s</td></tr>\n", html.EscapeString(c.ID), html.EscapeString(string(c.Kind)), c.Line, v, html.EscapeString(c.Evidence), html.EscapeString(g.certificates(c)))
 	}
 	b.WriteString("</table>\n")
 	return b.String()
@@ -148,7 +148,7 @@ func (g *Gate) tex() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "\n\\noindent %s. %s\n\\begin{center}\n\\begin{tabular}{lll}\nclaim & kind & recorded verdict\\\\\n\\hline\n", texText(g.heading()), texText(gateNote))
 	for _, c := range g.Claims {
-		fmt.Fprintf(&b, "%s & %s & %s\\\\\n", texText(c.ID), texText(c.Kind), texText(c.Verdict))
+		fmt.Fprintf(&b, "%s & %s & %s\\\\\n", texText(c.ID), texText(string(c.Kind)), texText(string(c.Verdict)))
 	}
 	b.WriteString("\\end{tabular}\n\\end{center}\n")
 	return b.String()

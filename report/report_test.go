@@ -194,16 +194,20 @@ func TestCensusAndGateInputs(t *testing.T) {
 	if IsGateJSON(data) {
 		t.Error("a certificate taken for a gate's output")
 	}
-	bad := []byte(`{"id":"x","kind":"count","verdict":"proved","extra":1}`)
+	bad := []byte(`{"format":"avoidcert-gate","version":1,"id":"x","kind":"count","verdict":"proved","extra":1}`)
 	if !IsGateJSON(bad) {
 		t.Error("a gate line not recognised")
 	}
-	if _, err := FromGate("bad.jsonl", bad); err == nil {
-		t.Error("a gate line with an unknown field accepted")
+	if _, err := FromGate("bad.jsonl", bad); err == nil || !strings.Contains(err.Error(), `a member "extra" that this format does not have`) {
+		t.Errorf("a gate line with an unknown field: %v", err)
+	}
+	if _, err := FromGate("old.jsonl", []byte(`{"id":"x","kind":"count","verdict":"proved"}`)); err == nil || !strings.Contains(err.Error(), "an earlier gate") {
+		t.Errorf("a line of an earlier gate, without format: %v", err)
 	}
 	for _, line := range []string{
-		`{"id":"x","kind":"count","verdict":"PROVED!!"}`,
-		`{"id":"x","kind":"theorem","verdict":"proved"}`,
+		`{"format":"avoidcert-gate","version":1,"id":"x","kind":"count","verdict":"PROVED!!"}`,
+		`{"format":"avoidcert-gate","version":1,"id":"x","kind":"theorem","verdict":"proved"}`,
+		`{"format":"avoidcert-gate","version":2,"id":"x","kind":"count","verdict":"proved"}`,
 	} {
 		if _, err := FromGate("forged.jsonl", []byte(line)); err == nil {
 			t.Errorf("a gate line with a verdict or kind the gate never writes accepted: %s", line)

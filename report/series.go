@@ -15,6 +15,7 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
+	"avoidcert/internal/input"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/prob"
@@ -42,8 +43,10 @@ type Series struct {
 	Run  series.Run
 	// Avoidance[i] is item i's avoidance probability derived here (exact,
 	// or from a certificate the checker accepted while the report was
-	// made), "" for items seen at least once.
+	// made), "" for items seen at least once; Derived[i] the same as data
+	// (nil for those items).
 	Avoidance []string
+	Derived   []*series.Avoidance
 }
 
 // IsSeriesJSON reports whether data is the JSON of 'avoidcert series'.
@@ -70,7 +73,7 @@ func FromSeries(ctx context.Context, name string, data []byte) (*Series, error) 
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(&s.Run); err != nil {
-		return nil, fmt.Errorf("%s: not the JSON of 'avoidcert series': %v", name, err)
+		return nil, fmt.Errorf("%s: not the JSON of 'avoidcert series': %s", name, input.JSONProblem(err))
 	}
 	r := &s.Run
 	switch {
@@ -81,7 +84,7 @@ func FromSeries(ctx context.Context, name string, data []byte) (*Series, error) 
 	}
 	lengths := prob.Interleave(int(r.Input.Values), r.Delay)
 	for _, it := range r.Items {
-		set, err := pattern.ParseSet(it.Members)
+		set, err := pattern.ParseSet(it.Patterns)
 		if err != nil {
 			return nil, fmt.Errorf("%s: pattern %s: %v", name, it.Pattern, err)
 		}
@@ -90,6 +93,7 @@ func FromSeries(ctx context.Context, name string, data []byte) (*Series, error) 
 			return nil, fmt.Errorf("%s: pattern %s: the recorded mean %s and variance %s are not those of %d values with delay %d (%s and %s): edited, or from another version",
 				name, it.Pattern, it.Mean, it.Variance, r.Input.Values, r.Delay, m.Mean.RatString(), m.Variance.RatString())
 		}
+		var d *series.Avoidance
 		av := ""
 		if it.Observed == 0 && it.Avoidance != nil {
 			a, err := prob.AvoidAll(ctx, set, lengths, prob.ExactMemory, 1e-6, prove.Options{})
@@ -97,12 +101,15 @@ func FromSeries(ctx context.Context, name string, data []byte) (*Series, error) 
 				return nil, fmt.Errorf("%s: pattern %s: %v", name, it.Pattern, err)
 			}
 			if a.Exact != nil {
-				av = fmt.Sprintf("[%s, %s], exact (counted by the engine and the checker, agreeing)", interval.DecimalDown(a.Exact, seriesDigits), interval.DecimalUp(a.Exact, seriesDigits))
+				d = &series.Avoidance{Method: "exact", Lo: interval.DecimalDown(a.Exact, seriesDigits), Hi: interval.DecimalUp(a.Exact, seriesDigits),
+					Note: "counted by the engine and the checker, agreeing"}
 			} else {
-				av = fmt.Sprintf("[%s, %s], certified (from a certificate the checker accepted while this report was made)", a.Interval.Lo.Decimal(seriesDigits, false), a.Interval.Hi.Decimal(seriesDigits, true))
+				d = &series.Avoidance{Method: "certified", Lo: a.Interval.Lo.Decimal(seriesDigits, false), Hi: a.Interval.Hi.Decimal(seriesDigits, true),
+					Note: "from a certificate the checker accepted while this report was made"}
 			}
+			av = fmt.Sprintf("[%s, %s], %s (%s)", d.Lo, d.Hi, d.Method, d.Note)
 		}
-		s.Avoidance = append(s.Avoidance, av)
+		s.Avoidance, s.Derived = append(s.Avoidance, av), append(s.Derived, d)
 	}
 	return s, nil
 }

@@ -42,12 +42,15 @@ Flags:
   --length K       pattern length, 3 to 8 (required)
   --to N           counts a_0..a_N (default 20)
   --digits D       significant digits of lambda to certify (default 10)
-  --out DIR        output folder (default census-K, or census-K-shard-I-of-N)
+  --out DIR        output folder (default census-K, or census-K-shard-I-of-N),
+                   created if missing in an existing folder
   --jobs J         classes certified at once (default: the number of CPUs)
   --shard I/N      only the I-th of N slices of the classes (1 <= I <= N), for
                    a cluster job array; merge the N folders afterwards
   --max-memory B   memory budget shared by the J classes at work (default 8G)
   --quiet          no progress bar (it is shown only when stderr is a terminal)
+  --json           print the census (the content of DIR/census.json, format
+                   avoidcert-census; docs/json.md) instead of the summary
 
 merge combines the folders of all N shards of one census into DIR (default
 census-K), writing the same bytes as an unsharded run. A shard is untrusted
@@ -58,7 +61,7 @@ checker's own counting give, the shard's order and groups what its rows give;
 otherwise the merge is refused (exit 1, naming the shard, the row and the
 field) and nothing is written. It refuses shards of different parameters and
 a missing or duplicated shard or class (exit 2). Merge flags: --out DIR,
---jobs J (certificates checked at once), --max-memory B.
+--jobs J (certificates checked at once), --max-memory B, --json.
 
 A journal is untrusted too: a continued run re-checks the certificate of
 every class in the journal and does a class again whose record its
@@ -85,6 +88,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	jobs := fs.Int("jobs", runtime.NumCPU(), "")
 	shardFlag := fs.String("shard", "", "")
 	quiet := fs.Bool("quiet", false, "")
+	asJSON := fs.Bool("json", false, "")
 	maxMemory := byteSize(8 << 30)
 	fs.Var(&maxMemory, "max-memory", "")
 	pos, err := parseArgs(fs, args)
@@ -94,7 +98,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	params := census.Params{Length: *length, To: *to, Digits: *digits}
 	switch {
 	case len(pos) > 0:
-		return failure(e, usagef("census: unexpected argument %q; the census takes flags only (or 'census merge DIR...')", pos[0]))
+		return failure(e, usagef("census: %s is not a flag; the census takes flags only (or 'census merge DIR...')", quote(pos[0])))
 	case *length == 0:
 		return failure(e, usagef("census: --length is required, e.g. 'avoidcert census --length 5'"))
 	case *jobs < 1:
@@ -115,6 +119,9 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 		if !shard.Whole() {
 			dir += fmt.Sprintf("-shard-%d-of-%d", shard.Index, shard.Of)
 		}
+	}
+	if err := openOutDir("census", "--out", dir, true); err != nil {
+		return failure(e, err)
 	}
 	limitMemory(int64(maxMemory))
 	bar := newCensusBar(ctx, e, *quiet)
@@ -138,7 +145,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return censusFailure(e, dir, err)
 	}
-	writeCensusSummary(e, dir, rep)
+	writeCensusSummary(e, dir, rep, *asJSON)
 	return exitOK
 }
 
@@ -179,8 +186,8 @@ func censusFailure(e *env, dir string, err error) int {
 		fmt.Fprintf(e.stderr, "avoidcert: census interrupted; finished classes are kept in %s: run the same command again to continue\n",
 			filepath.Join(dir, "journal"))
 	default:
-		fmt.Fprintf(e.stderr, "avoidcert: census: %v\nfinished classes are kept in %s: run the same command again to continue\n",
-			err, filepath.Join(dir, "journal"))
+		fmt.Fprintf(e.stderr, "avoidcert: census: %s; finished classes are kept in %s: run the same command again to continue\n",
+			ownWords(err.Error()), filepath.Join(dir, "journal"))
 	}
 	return exitAborted
 }
@@ -189,6 +196,7 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("census merge")
 	out := fs.String("out", "", "")
 	jobs := fs.Int("jobs", runtime.NumCPU(), "")
+	asJSON := fs.Bool("json", false, "")
 	maxMemory := byteSize(8 << 30)
 	fs.Var(&maxMemory, "max-memory", "")
 	dirs, err := parseArgs(fs, args)
@@ -209,13 +217,16 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 		}
 		dir = "census-" + strconv.Itoa(rep.Params.Length)
 	}
+	if err := openOutDir("census merge", "--out", dir, false); err != nil {
+		return failure(e, err)
+	}
 	limitMemory(int64(maxMemory))
 	check := census.CheckerOf(censusOptions(int64(maxMemory) / int64(*jobs)))
 	rep, err := census.Merge(ctx, dir, dirs, check, *jobs)
 	if err != nil {
 		return censusMergeFailure(e, err)
 	}
-	writeCensusSummary(e, dir, rep)
+	writeCensusSummary(e, dir, rep, *asJSON)
 	return exitOK
 }
 
@@ -229,13 +240,20 @@ func censusMergeFailure(e *env, err error) int {
 	case errors.As(err, &in):
 		return failure(e, usagef("census merge: %v", err))
 	case errors.As(err, &refused):
-		fmt.Fprintf(e.stderr, "avoidcert: census merge: refused: %v; nothing was written\n", err)
+		fmt.Fprintf(e.stderr, "avoidcert: census merge: refused: %s; nothing was written\n", ownWords(err.Error()))
 		return exitFailed
 	}
 	return failure(e, err)
 }
 
-func writeCensusSummary(e *env, dir string, rep *census.Report) {
+// writeCensusSummary says what the census holds and where, or with
+// asJSON prints the census itself: the content of DIR/census.json, on one
+// line.
+func writeCensusSummary(e *env, dir string, rep *census.Report, asJSON bool) {
+	if asJSON {
+		writeJSON(e.stdout, rep)
+		return
+	}
 	strict := 0
 	for _, s := range rep.Order {
 		if s.Relation == ">" {

@@ -3,11 +3,15 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 
+	"avoidcert/census"
 	"avoidcert/internal/input"
 	"avoidcert/prove"
 	"avoidcert/report"
@@ -16,7 +20,7 @@ import (
 func init() {
 	commands["report"] = command{
 		summary: "a page for readers from certificates: Markdown, HTML or LaTeX",
-		usage: `Usage: avoidcert report [--format md|html|tex] [--out FILE] INPUT...
+		usage: `Usage: avoidcert report [--format md|html|tex | --json] [--out FILE] INPUT...
 
 Each INPUT is a certificate (format version 4), the output of
 'avoidcert gate --json' (one JSON object per line), the output of
@@ -57,8 +61,12 @@ final brackets) and the page says so.
 
 Flags:
   --format F   md (default), html or tex
-  --out FILE   write there (atomically; a folder, device or FIFO is
-               refused) instead of standard output
+  --json       the same content as data instead, one JSON object
+               (docs/json.md): the certified values, the verified census
+               tables, the gate's lines as recorded, the series runs with
+               their avoidance derived again, the figures' data
+  --out FILE   write there (atomically, in an existing folder; a folder,
+               device or FIFO is refused) instead of standard output
 
 Exit codes: 0 success, 1 a certificate the checker refuses or a census row
 it does not support, 2 bad input (a file that cannot be read, is no
@@ -74,15 +82,24 @@ space.
 func runReport(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("report")
 	format := fs.String("format", "md", "")
+	asJSON := fs.Bool("json", false, "")
 	outPath := fs.String("out", "-", "")
 	files, err := parseArgs(fs, args)
 	if err != nil {
 		return failure(e, err)
 	}
-	render := map[string]func(io.Writer, *report.Document) error{"md": report.Markdown, "html": report.HTML, "tex": report.TeX}[*format]
+	formatGiven := false
+	fs.Visit(func(f *flag.Flag) { formatGiven = formatGiven || f.Name == "format" })
+	if *asJSON {
+		if formatGiven {
+			return failure(e, usagef("report: give --json or --format %s, not both", quote(*format)))
+		}
+		*format = "json"
+	}
+	render := map[string]func(io.Writer, *report.Document) error{"md": report.Markdown, "html": report.HTML, "tex": report.TeX, "json": report.JSON}[*format]
 	switch {
 	case render == nil:
-		return failure(e, usagef("report: --format %s is not one of md, html, tex", quote(*format)))
+		return failure(e, usagef("report: --format %s is not one of md, html, tex (or --json)", quote(*format)))
 	case len(files) == 0:
 		return failure(e, usagef("report: give at least one certificate file"))
 	}
@@ -98,7 +115,7 @@ func runReport(ctx context.Context, e *env, args []string) int {
 		case ctx.Err() != nil:
 			return interrupted(e)
 		case report.IsRefused(err):
-			fmt.Fprintf(e.stderr, "avoidcert: report: %v\n", err)
+			fmt.Fprintf(e.stderr, "avoidcert: report: %s\n", ownWords(err.Error()))
 			return exitFailed
 		case errors.Is(err, prove.ErrBudget):
 			return failure(e, fmt.Errorf("report: %w", err))
@@ -147,10 +164,37 @@ func addInput(ctx context.Context, doc *report.Document, path string) error {
 		doc.Gates = append(doc.Gates, g)
 		return nil
 	}
+	if err := looksLikeCertificate(path, data); err != nil {
+		return err
+	}
 	r, err := report.FromCertificate(ctx, path, data)
 	if err != nil {
 		return err
 	}
 	doc.Certificates = append(doc.Certificates, r)
+	return nil
+}
+
+// looksLikeCertificate refuses, with what to do instead, a file that is
+// none of report's inputs, before it is read as a certificate (whose
+// reader would only say what a certificate lacks).
+func looksLikeCertificate(path string, data []byte) error {
+	var probe struct {
+		Content *struct {
+			Format string `json:"format"`
+		} `json:"content"`
+		Format string `json:"format"`
+	}
+	trimmed := bytes.TrimSpace(data)
+	switch {
+	case len(trimmed) == 0 || trimmed[0] != '{':
+		return fmt.Errorf("%s is not JSON: report reads certificates, census folders and the JSON of 'gate --json' and 'series --json' (a claims manifest goes to 'avoidcert gate FILE --json', whose output report reads)", quote(path))
+	case json.Unmarshal(trimmed, &probe) != nil:
+		return nil // damaged: the certificate reader says where
+	case probe.Format == census.ReportFormat:
+		return fmt.Errorf("%s is a census table: give report the census folder, %s, so that every row is checked against its certificate", quote(path), quote(filepath.Dir(path)))
+	case probe.Content == nil:
+		return fmt.Errorf("%s is JSON but none of report's inputs (a certificate, the JSON of 'gate --json' or 'series --json', a census folder)", quote(path))
+	}
 	return nil
 }
