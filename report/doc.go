@@ -21,10 +21,12 @@
 //     so; they are never shown as this report's verdicts, and a line with a
 //     verdict or kind the gate never writes is refused. What the page shows
 //     as certified for a claim is read from the certificates its line
-//     names, each found at its recorded path or beside the gate's file,
-//     matching the recorded SHA-256 and accepted by the checker for the
-//     recorded set while the report is made (FromGate, Gate.Check); a file
-//     with other bytes or one the checker refuses is a refusal.
+//     names, each found from the manifest's folder, the current one or the
+//     gate file's, matching the recorded SHA-256 and accepted by the
+//     checker for the recorded set while the report is made (FromGate,
+//     Gate.Check), and set against the claim as the line restates it; a
+//     file with other bytes, one the checker refuses, or a recorded verdict
+//     the certificates contradict is a refusal.
 //   - Every number stated as proved is read from the checked certificate
 //     and printed rounded outward (interval.DecimalDown / DecimalUp at the
 //     certificate's digits), so a printed bound still holds.

@@ -20,40 +20,88 @@ import (
 	"avoidcert/prove"
 )
 
-// GateClaim is one line of 'avoidcert gate --json'.
+// GateClaim is one line of 'avoidcert gate --json'. It has the members of
+// the gate's line that restates its claim (format avoidcert-gate version
+// 1: the manifest, the claim as the manifest states it, the enclosures the
+// gate recorded, certificates named by their patterns), all optional, so
+// that the lines of the gate before it (no format, no restatement, a
+// certificate's set as "set") read too.
 type GateClaim struct {
-	ID           string            `json:"id"`
-	Kind         string            `json:"kind"`
-	Line         int               `json:"line"`
-	Verdict      string            `json:"verdict"`
-	Evidence     string            `json:"evidence"`
-	Cached       bool              `json:"cached"`
-	Seconds      float64           `json:"seconds"`
-	Certificates []GateCertificate `json:"certificates"`
-	// The claim restated, in the lines of a gate that writes it (all
-	// optional): the manifest file, the pattern set as the manifest writes
-	// it, the quantity claimed ("lambda", "radius", ...), the claimed value
-	// or interval as written, and the claim's note.
-	Manifest string   `json:"manifest,omitempty"`
-	Set      []string `json:"set,omitempty"`
-	Quantity string   `json:"quantity,omitempty"`
-	Claimed  string   `json:"claimed,omitempty"`
-	Note     string   `json:"note,omitempty"`
+	Format       string          `json:"format,omitempty"`
+	Version      int             `json:"version,omitempty"`
+	ID           string          `json:"id"`
+	Kind         claims.Kind     `json:"kind"`
+	Manifest     string          `json:"manifest,omitempty"`
+	Line         int             `json:"line"`
+	Claim        GateStatement   `json:"claim"`
+	Verdict      claims.Verdict  `json:"verdict"`
+	Evidence     string          `json:"evidence"`
+	Certified    []GateEnclosure `json:"certified,omitempty"`
+	Cached       bool            `json:"cached"`
+	Seconds      float64         `json:"seconds"`
+	Certificates []GateCertRef   `json:"certificates"`
 }
 
-// GateCertificate is a certificate a gate's line names, and what the
-// report found of it.
-type GateCertificate struct {
-	Set    string `json:"set"` // the pattern set it is for, as recorded
-	Path   string `json:"path"`
-	SHA256 string `json:"sha256"`
-	// Found is the file read: the recorded path, or the same path taken
-	// from the gate file's folder or the manifest's; "" when none exists.
-	Found string `json:"-"`
+// GateStatement is a claim as the gate's line restates it; which members
+// are present depends on its kind (docs/claims.md).
+type GateStatement struct {
+	Patterns  []string  `json:"patterns,omitempty"`
+	Quantity  string    `json:"quantity,omitempty"`
+	Statement string    `json:"statement,omitempty"`
+	N         *int      `json:"n,omitempty"`
+	From      *int      `json:"from,omitempty"`
+	Counts    []string  `json:"counts,omitempty"`
+	Claimed   *GateEnds `json:"claimed,omitempty"` // the closed interval claimed
+	Exact     string    `json:"exact,omitempty"`
+	Form      string    `json:"form,omitempty"`
+	Period    int       `json:"period,omitempty"`
+	LessThan  []string  `json:"less_than,omitempty"`
+	Other     []string  `json:"other,omitempty"`
+	To        *int      `json:"to,omitempty"`
+	Note      string    `json:"note,omitempty"`
+}
+
+// GateEnds is a closed interval; a missing end is unbounded.
+type GateEnds struct {
+	Lo *string `json:"lo"`
+	Hi *string `json:"hi"`
+}
+
+// GateEnclosure is an enclosure the gate recorded (not shown as
+// certified: the report re-checks the certificates instead).
+type GateEnclosure struct {
+	Patterns []string `json:"patterns"`
+	Quantity string   `json:"quantity"`
+	GateEnds
+}
+
+// GateCertRef names a certificate: the patterns it is for, where the gate
+// kept it and the SHA-256 of its bytes.
+type GateCertRef struct {
+	Patterns []string `json:"patterns,omitempty"`
+	Set      string   `json:"set,omitempty"` // an earlier gate's comma list
+	Path     string   `json:"path,omitempty"`
+	SHA256   string   `json:"sha256"`
+}
+
+// refPatterns are the patterns a certificate reference names, as the gate
+// wrote them.
+func refPatterns(ref GateCertRef) []string {
+	if len(ref.Patterns) > 0 {
+		return ref.Patterns
+	}
+	return []string{ref.Set}
+}
+
+// CheckedCertificate is what the report found of a certificate a line
+// names.
+type CheckedCertificate struct {
+	// Found is the file read (see Gate.Check); "" when none exists.
+	Found string
 	// Cert is the certificate at Found, whose SHA-256 is the recorded one,
-	// as the checker accepted it for Set while the report was made; nil
-	// when no file was found.
-	Cert *certify.Certificate `json:"-"`
+	// as the checker accepted it for the recorded patterns while the report
+	// was made; nil when no file was found.
+	Cert *certify.Certificate
 }
 
 // Gate is a gate's JSON output: its verdicts as the gate recorded them,
@@ -62,6 +110,8 @@ type GateCertificate struct {
 type Gate struct {
 	Name   string
 	Claims []GateClaim
+	// Checked[i][j] is what Check found of certificate j of claim i.
+	Checked [][]CheckedCertificate
 }
 
 // FromGate reads the JSON lines of 'avoidcert gate --json' strictly and
@@ -79,21 +129,23 @@ func FromGate(ctx context.Context, name string, data []byte) (*Gate, error) {
 	return g, nil
 }
 
-// Check reads each certificate the lines name, looking for it at its
-// recorded path, and at that path from the gate file's folder and from
-// the manifest's (a relative path means the folder the gate ran in, which
-// may not be the report's); a file counts only with the SHA-256 the gate
-// recorded, and is then re-checked by the independent checker for the
-// set recorded beside it.
+// Check reads each certificate the lines name and fills Checked. A path
+// is relative to the manifest's folder (an earlier gate's, to the folder
+// it ran in), which the report may not run in: it is looked for from the
+// manifest's folder, from the current folder and from the gate file's
+// folder, and a file counts only with the SHA-256 the gate recorded. It is
+// then re-checked by the independent checker for the patterns recorded
+// beside it. A recorded verdict that says the opposite of what the
+// certificates prove of the claim as its line restates it is a refusal.
 func (g *Gate) Check(ctx context.Context) error {
-	for i := range g.Claims {
-		c := &g.Claims[i]
-		for j := range c.Certificates {
-			ref := &c.Certificates[j]
+	g.Checked = make([][]CheckedCertificate, len(g.Claims))
+	for i, c := range g.Claims {
+		g.Checked[i] = make([]CheckedCertificate, len(c.Certificates))
+		for j, ref := range c.Certificates {
 			if ref.Path == "" {
 				continue // neither kept nor cached
 			}
-			data, found, err := g.find(ctx, c, ref.Path)
+			data, found, err := g.find(ctx, c.Manifest, ref.Path)
 			if err != nil {
 				return fmt.Errorf("%s: claim %s: %w", g.Name, quoteID(c.ID), err)
 			}
@@ -105,7 +157,8 @@ func (g *Gate) Check(ctx context.Context) error {
 				return refused{fmt.Errorf("%s: claim %s: %s is not the certificate the gate recorded (SHA-256 %s, recorded %s): run the gate again, or report on its current output",
 					g.Name, quoteID(c.ID), found, got[:12]+"...", quoteID(ref.SHA256))}
 			}
-			cert, err := prove.CheckBytes(ctx, data, []string{ref.Set}, prove.Options{})
+			pats := refPatterns(ref)
+			cert, err := prove.CheckBytes(ctx, data, pats, prove.Options{})
 			switch {
 			case err == nil:
 			case ctx.Err() != nil:
@@ -113,9 +166,13 @@ func (g *Gate) Check(ctx context.Context) error {
 			case errors.Is(err, prove.ErrBudget):
 				return fmt.Errorf("%s: claim %s: %s: %w", g.Name, quoteID(c.ID), found, err)
 			default:
-				return refused{fmt.Errorf("%s: claim %s: the checker refuses %s for the set %s: %v", g.Name, quoteID(c.ID), found, quoteID(ref.Set), err)}
+				return refused{fmt.Errorf("%s: claim %s: the checker refuses %s for the set %s: %v", g.Name, quoteID(c.ID), found, quoteID(strings.Join(pats, ",")), err)}
 			}
-			ref.Found, ref.Cert = found, cert
+			g.Checked[i][j] = CheckedCertificate{Found: found, Cert: cert}
+		}
+		if cmp := compare(c, g.Checked[i]); cmp.contradicts(c.Verdict) {
+			return refused{fmt.Errorf("%s: claim %s: recorded %s, but its certificates, re-checked, give %s: the file is not the gate's output as written",
+				g.Name, quoteID(c.ID), c.Verdict, gateRow{c, g.Checked[i], cmp}.certified())}
 		}
 	}
 	return nil
@@ -123,14 +180,12 @@ func (g *Gate) Check(ctx context.Context) error {
 
 // find reads the first of the places a recorded path may mean that holds a
 // file: ("", nil, nil) when none does.
-func (g *Gate) find(ctx context.Context, c *GateClaim, path string) ([]byte, string, error) {
+func (g *Gate) find(ctx context.Context, manifest, path string) ([]byte, string, error) {
 	places := []string{path}
 	if !filepath.IsAbs(path) {
-		bases := []string{filepath.Dir(g.Name)}
-		if c.Manifest != "" {
-			bases = append(bases, filepath.Dir(c.Manifest), filepath.Join(filepath.Dir(g.Name), filepath.Dir(c.Manifest)))
-		}
-		for _, b := range bases {
+		places = nil
+		gateDir := filepath.Dir(g.Name)
+		for _, b := range []string{filepath.Dir(manifest), ".", gateDir, filepath.Join(gateDir, filepath.Dir(manifest))} {
 			if p := filepath.Join(b, path); !slices.Contains(places, p) {
 				places = append(places, p)
 			}
@@ -183,12 +238,12 @@ func parseGate(name string, data []byte) (*Gate, error) {
 		if c.ID == "" || c.Verdict == "" {
 			return nil, fmt.Errorf("%s:%d: a claim without id or verdict", name, n)
 		}
-		if !slices.Contains(gateVerdicts, claims.Verdict(c.Verdict)) {
+		if !slices.Contains(gateVerdicts, c.Verdict) {
 			return nil, fmt.Errorf("%s:%d: claim %s: %s is not a verdict the gate writes (%s); the file is not the gate's output as written",
-				name, n, quoteID(c.ID), quoteID(c.Verdict), verdictList())
+				name, n, quoteID(c.ID), quoteID(string(c.Verdict)), verdictList())
 		}
-		if !slices.Contains(gateKinds, claims.Kind(c.Kind)) {
-			return nil, fmt.Errorf("%s:%d: claim %s: %s is not a claim kind; the file is not the gate's output as written", name, n, quoteID(c.ID), quoteID(c.Kind))
+		if !slices.Contains(gateKinds, c.Kind) {
+			return nil, fmt.Errorf("%s:%d: claim %s: %s is not a claim kind; the file is not the gate's output as written", name, n, quoteID(c.ID), quoteID(string(c.Kind)))
 		}
 		g.Claims = append(g.Claims, c)
 	}
@@ -225,8 +280,8 @@ func quoteID(s string) string {
 
 // tally counts the claims by recorded verdict.
 func (g *Gate) tally() string {
-	counts := map[string]int{}
-	var order []string
+	counts := map[claims.Verdict]int{}
+	var order []claims.Verdict
 	for _, c := range g.Claims {
 		if counts[c.Verdict] == 0 {
 			order = append(order, c.Verdict)

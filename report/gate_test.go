@@ -14,21 +14,22 @@ import (
 )
 
 // The gate page states claimed against certified values: the restated
-// claim of each line (testdata/gate-restated.jsonl, restated by hand) and
-// the ranges of the certificates the report re-checked, which must hold the
-// published growth rates (interval.PublishedGrowth names its OEIS entries);
-// a certificate not found is said to be not re-checked; refuted rows are
-// marked by a sign and capitals in every format, and by a row class in HTML.
+// claim of each line (testdata/gate-restated.jsonl) and the ranges of the
+// certificates the report re-checked, which must hold the published growth
+// rates (interval.PublishedGrowth names its OEIS entries), set against the
+// claimed interval; a certificate not found is said to be not re-checked;
+// refuted rows are marked by a sign and capitals in every format, and by a
+// row class in HTML.
 func TestGatePage(t *testing.T) {
 	g := loadGates(t, "gate-restated.jsonl")[0]
-	byID := map[string]GateClaim{}
-	for _, c := range g.Claims {
-		byID[c.ID] = c
+	byID := map[string]gateRow{}
+	for _, r := range g.rows() {
+		byID[r.ID] = r
 	}
 	// the certified ranges of 1324 (claim 3c) and 1342 (3b) hold the
 	// published lambda
 	for id, pat := range map[string]string{"3c": "1324", "3b": "1342"} {
-		parts, _ := byID[id].certifiedOf()
+		parts := byID[id].cmp.parts
 		if len(parts) != 1 || parts[0].symbol != "λ" {
 			t.Fatalf("claim %s: certified %+v, want the range of λ alone (the line claims lambda)", id, parts)
 		}
@@ -45,7 +46,7 @@ func TestGatePage(t *testing.T) {
 	}
 	// the certified radius of {123, 321} (3d) holds pi/2 (Andre 1879; its
 	// digits OEIS A019669), here as interval.Pi encloses it
-	if parts, _ := byID["3d"].certifiedOf(); len(parts) == 1 && parts[0].symbol == "1/λ" {
+	if parts := byID["3d"].cmp.parts; len(parts) == 1 && parts[0].symbol == "1/λ" {
 		lo, _ := new(big.Rat).SetString(parts[0].lo)
 		hi, _ := new(big.Rat).SetString(parts[0].hi)
 		half := interval.Pi(64).Mul(interval.Point(big.NewRat(1, 2)))
@@ -57,18 +58,20 @@ func TestGatePage(t *testing.T) {
 	}
 	for id, want := range map[string]string{
 		"3a": "not re-checked: certificate not found (elsewhere/3a.json)",
-		"4a": "primitive (primitivity exponent 4)",
-		"4b": "disjoint: λ(1324) > λ(1342)",
+		"3b": "inside the claimed interval",
+		"3c": "outside the claimed interval",
+		"4a": "primitive (primitivity exponent 4), as claimed",
+		"4b": "disjoint: λ(1324) > λ(1342), contrary to the claim",
 		"2b": "no certificate: exact counts, not recomputed here",
 	} {
 		if got := byID[id].certified(); !strings.Contains(got, want) {
 			t.Errorf("claim %s: certified %q, want %q", id, got, want)
 		}
 	}
-	if got := byID["3c"].claimed(); got != "{1324}: λ = 0.95589 (rounded)" {
+	if got := byID["3c"].claimed(); got != "lambda(1324) = 0.95589 (rounded), read as [0.955885, 0.955895]" {
 		t.Errorf("claim 3c: claimed %q", got)
 	}
-	if got := loadGates(t, "gate.jsonl")[0].Claims[0].claimed(); got != "not restated by the gate's line" {
+	if got := loadGates(t, "gate.jsonl")[0].rows()[0].claimed(); !strings.HasPrefix(got, "not restated") {
 		t.Errorf("a line without the claim: claimed %q", got)
 	}
 
@@ -107,8 +110,9 @@ func TestGatePage(t *testing.T) {
 }
 
 // A certificate file that is not the one the gate recorded (other bytes),
-// or the recorded one named for another set, makes the gate's output a
-// refusal; the file is looked for beside the gate file as well.
+// the recorded one named for another set, or a recorded verdict that its
+// certificate contradicts makes the gate's output a refusal; the file is
+// looked for beside the gate file as well.
 func TestGateCertificatesRefused(t *testing.T) {
 	dir := t.TempDir()
 	if err := os.CopyFS(filepath.Join(dir, "certs"), os.DirFS(filepath.Join("testdata", "certs"))); err != nil {
@@ -129,8 +133,22 @@ func TestGateCertificatesRefused(t *testing.T) {
 	if err != nil {
 		t.Fatalf("the certificate beside the gate file: %v", err)
 	}
-	if ref := g.Claims[0].Certificates[0]; ref.Cert == nil || ref.Found != filepath.Join(dir, "certs", "3c.json") {
-		t.Fatalf("certificate found at %q (checked: %v)", ref.Found, ref.Cert != nil)
+	if ch := g.Checked[0][0]; ch.Cert == nil || ch.Found != filepath.Join(dir, "certs", "3c.json") {
+		t.Fatalf("certificate found at %q (checked: %v)", ch.Found, ch.Cert != nil)
+	}
+	// a recorded verdict its certificate contradicts: 3c (outside the
+	// claimed interval) recorded as proved, in the restating gate's line
+	restated, err := os.ReadFile(filepath.Join("testdata", "gate-restated.jsonl"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range strings.Split(string(restated), "\n") {
+		if strings.Contains(l, `"id":"3c"`) {
+			forged := strings.Replace(l, `"verdict":"refuted"`, `"verdict":"proved"`, 1)
+			if _, err := FromGate(context.Background(), name, []byte(forged)); !IsRefused(err) || !strings.Contains(err.Error(), "recorded proved, but its certificates, re-checked, give λ ∈ [0.95584651, 0.95585542]; outside the claimed interval") {
+				t.Errorf("a verdict its certificate contradicts: %v, want a refusal", err)
+			}
+		}
 	}
 	// another set: the certificate of 1324 named for 1342
 	other := strings.Replace(line3c, `"set":"1324"`, `"set":"1342"`, 1)

@@ -5,18 +5,17 @@ import (
 	"html"
 	"strings"
 
-	"avoidcert/certify"
 	"avoidcert/claims"
-	"avoidcert/prove"
 )
 
 // gateNote says what the report did and did not do with a gate's output.
 const gateNote = "The verdicts and the evidence are the gate's record, restated as they are in the file: " +
 	"they are not this report's verdicts. What is shown as certified is this report's own: every certificate " +
-	"a line names was looked for where the line says (and from the gate file's folder), taken only with the " +
-	"SHA-256 the gate recorded, and accepted by the independent checker for its set while this report was " +
-	"made. Claims on exact counts rest on no certificate and are not recomputed here: run the gate again to " +
-	"verify them."
+	"a line names was looked for from the manifest's folder, the current one and the gate file's, taken only " +
+	"with the SHA-256 the gate recorded, accepted by the independent checker for its set while this report " +
+	"was made, and set against the claim as the line restates it (a recorded verdict it contradicts would " +
+	"have stopped the report). Claims on exact counts rest on no certificate and are not recomputed here: " +
+	"run the gate again to verify them."
 
 // heading is the title of a gate's section, plain text.
 func (g *Gate) heading() string {
@@ -28,7 +27,7 @@ func (g *Gate) heading() string {
 func (g *Gate) refutedLine() string {
 	var ids []string
 	for _, c := range g.Claims {
-		if c.Verdict == string(claims.Refuted) {
+		if c.Verdict == claims.Refuted {
 			ids = append(ids, c.ID)
 		}
 	}
@@ -40,8 +39,8 @@ func (g *Gate) refutedLine() string {
 
 // verdictMark marks a recorded verdict by a sign and by case, not by colour
 // alone: ✓ proved, ✗ REFUTED, ? undecided, ! FAILED.
-func verdictMark(v string) string {
-	switch claims.Verdict(v) {
+func verdictMark(v claims.Verdict) string {
+	switch v {
 	case claims.Proved:
 		return "✓ proved"
 	case claims.Refuted:
@@ -49,154 +48,84 @@ func verdictMark(v string) string {
 	case claims.Undecided:
 		return "? undecided"
 	}
-	return "! " + strings.ToUpper(v)
+	return "! " + strings.ToUpper(string(v))
 }
 
-// where is the claim's place in its manifest.
-func (c GateClaim) where() string {
-	if c.Manifest != "" {
-		return fmt.Sprintf("%s:%d", c.Manifest, c.Line)
-	}
-	return fmt.Sprintf("manifest line %d", c.Line)
+// gateRow is one claim as the page shows it: the gate's line, and what the
+// report found of its certificates.
+type gateRow struct {
+	GateClaim
+	checked []CheckedCertificate
+	cmp     comparison
 }
 
-// claimed restates what the claim states, as far as the line says.
-func (c GateClaim) claimed() string {
-	if len(c.Set) == 0 && c.Quantity == "" && c.Claimed == "" {
-		return "not restated by the gate's line"
-	}
-	var b strings.Builder
-	if len(c.Set) > 0 {
-		fmt.Fprintf(&b, "{%s}: ", strings.Join(c.Set, ", "))
-	}
-	b.WriteString(quantitySymbol(c.Quantity))
-	if c.Quantity != "" && c.Claimed != "" {
-		b.WriteString(" = ")
-	}
-	b.WriteString(c.Claimed)
-	return b.String()
-}
-
-// quantitySymbol writes the usual quantities as symbols.
-func quantitySymbol(q string) string {
-	switch q {
-	case "lambda":
-		return "λ"
-	case "radius":
-		return "1/λ"
-	}
-	return q
-}
-
-// certifiedPart is one certified range a claim's row states: symbol ∈ [lo, hi].
-type certifiedPart struct {
-	symbol string // λ, 1/λ, λ(1324)
-	tex    string // the symbol in LaTeX math
-	lo, hi string // outward decimals
-}
-
-// certifiedOf is what the claim's re-checked certificates state: the
-// ranges of its quantity, and for form and order claims the class or the
-// order, in words; or why there is nothing.
-func (c GateClaim) certifiedOf() (parts []certifiedPart, words string) {
-	if len(c.Certificates) == 0 {
-		return nil, "no certificate: exact counts, not recomputed here"
-	}
-	var checked []*certify.Certificate
-	var missing []string
-	for _, ref := range c.Certificates {
-		if ref.Cert == nil {
-			missing = append(missing, ref.Path)
-			continue
+// rows are the page's rows, in the order of the lines.
+func (g *Gate) rows() []gateRow {
+	out := make([]gateRow, len(g.Claims))
+	for i, c := range g.Claims {
+		var checked []CheckedCertificate
+		if i < len(g.Checked) {
+			checked = g.Checked[i]
 		}
-		checked = append(checked, ref.Cert)
+		out[i] = gateRow{c, checked, compare(c, checked)}
 	}
-	if len(missing) > 0 {
-		return nil, fmt.Sprintf("not re-checked: certificate not found (%s)", strings.Join(missing, ", "))
-	}
-	switch claims.Kind(c.Kind) {
-	case claims.KindForm:
-		return nil, formShort(prove.FormOf(checked[0]))
-	case claims.KindOrder:
-		for _, cert := range checked {
-			set := strings.Join(cert.Statement.Patterns, ",")
-			lo, hi := rangeOf(cert.Statement.Lambda)
-			parts = append(parts, certifiedPart{"λ(" + set + ")", `\lambda(` + set + ")", lo, hi})
-		}
-		return parts, orderWords(checked)
-	}
-	st := checked[0].Statement
-	lam, rad := rangePart("λ", `\lambda`, st.Lambda), rangePart("1/λ", `1/\lambda`, st.Radius)
-	switch c.Quantity {
-	case "lambda":
-		return []certifiedPart{lam}, ""
-	case "radius":
-		return []certifiedPart{rad}, ""
-	}
-	return []certifiedPart{lam, rad}, ""
+	return out
 }
 
-func rangePart(symbol, tex string, x certify.Range) certifiedPart {
-	lo, hi := rangeOf(x)
-	return certifiedPart{symbol, tex, lo, hi}
-}
-
-// orderWords compares the certified ranges of an order claim's two sets.
-func orderWords(certs []*certify.Certificate) string {
-	if len(certs) != 2 {
-		return ""
+// where is the claim's place in its manifest, and its note.
+func (r gateRow) where() string {
+	w := fmt.Sprintf("manifest line %d", r.Line)
+	if r.Manifest != "" {
+		w = fmt.Sprintf("%s:%d", r.Manifest, r.Line)
 	}
-	a, b := certs[0].Statement, certs[1].Statement
-	name := func(s certify.Statement) string { return "λ(" + strings.Join(s.Patterns, ",") + ")" }
-	switch {
-	case above(b.Lambda, a.Lambda):
-		return fmt.Sprintf("disjoint: %s < %s", name(a), name(b))
-	case above(a.Lambda, b.Lambda):
-		return fmt.Sprintf("disjoint: %s > %s", name(a), name(b))
+	if r.Claim.Note != "" {
+		w += "; note: " + r.Claim.Note
 	}
-	return "the ranges overlap: not ordered at these digits"
+	return w
 }
 
-// above reports that range x lies wholly above range y.
-func above(x, y certify.Range) bool {
-	return x.Lo != nil && y.Hi != nil && x.Lo.Cmp(y.Hi) > 0
-}
-
-// formShort is a structure class in a few words.
-func formShort(f prove.Form) string {
-	switch f.Class {
-	case certify.ClassPrimitive:
-		return fmt.Sprintf("primitive (primitivity exponent %d)", f.Exponent)
-	case certify.ClassPeriodic:
-		return fmt.Sprintf("periodic, period %d", f.Period)
-	case certify.ClassReducible:
-		return fmt.Sprintf("reducible (%d blocks)", f.Blocks)
+// claimed is the claim as the line restates it, with the interval a
+// claimed decimal is read as.
+func (r gateRow) claimed() string {
+	st := r.Claim.Statement
+	if st == "" {
+		return "not restated by the gate's line (an earlier gate)"
 	}
-	return string(f.Class)
+	if e := r.Claim.Claimed; e != nil {
+		st += fmt.Sprintf(", read as [%s, %s]", endText(e.Lo, "−∞"), endText(e.Hi, "∞"))
+	}
+	return st
 }
 
-// certified is certifiedOf in plain text.
-func (c GateClaim) certified() string {
-	parts, words := c.certifiedOf()
+func endText(s *string, none string) string {
+	if s == nil {
+		return none
+	}
+	return *s
+}
+
+// certified is the comparison in plain text.
+func (r gateRow) certified() string {
 	var out []string
-	for _, p := range parts {
+	for _, p := range r.cmp.parts {
 		out = append(out, fmt.Sprintf("%s ∈ [%s, %s]", p.symbol, p.lo, p.hi))
 	}
-	if words != "" {
-		out = append(out, words)
+	if r.cmp.words != "" {
+		out = append(out, r.cmp.words)
 	}
 	return strings.Join(out, "; ")
 }
 
-// recheck is the commands that check the line's certificates again.
-func (c GateClaim) recheck() string {
+// recheck is the commands that check the line's certificates again, with
+// the paths where the report found them.
+func (r gateRow) recheck() string {
 	var parts []string
-	for _, ref := range c.Certificates {
+	for i, ref := range r.Certificates {
 		path := ref.Path
-		if ref.Found != "" {
-			path = ref.Found
+		if i < len(r.checked) && r.checked[i].Found != "" {
+			path = r.checked[i].Found
 		}
-		parts = append(parts, fmt.Sprintf("avoidcert check %s --expect %s", shellQuote(path), shellQuote(ref.Set)))
+		parts = append(parts, fmt.Sprintf("avoidcert check %s --expect %s", shellQuote(path), shellQuote(strings.Join(refPatterns(ref), ","))))
 	}
 	return strings.Join(parts, "; ")
 }
@@ -205,13 +134,9 @@ func (c GateClaim) recheck() string {
 var gateColumns = []string{"", "claim", "claimed", "certified (re-checked by this report)", "recorded verdict", "recorded evidence", "check the certificates with"}
 
 // cells are a claim's row, plain text, in the order of gateColumns.
-func (c GateClaim) cells() []string {
-	id := c.ID + " (" + c.where() + ")"
-	if c.Note != "" {
-		id += "; note: " + c.Note
-	}
-	mark, _, _ := strings.Cut(verdictMark(c.Verdict), " ")
-	return []string{mark, id, c.claimed(), c.certified(), verdictMark(c.Verdict), c.Evidence, c.recheck()}
+func (r gateRow) cells() []string {
+	mark, _, _ := strings.Cut(verdictMark(r.Verdict), " ")
+	return []string{mark, r.ID + " (" + r.where() + ")", r.claimed(), r.certified(), verdictMark(r.Verdict), r.Evidence, r.recheck()}
 }
 
 func (g *Gate) markdown() string {
@@ -221,11 +146,11 @@ func (g *Gate) markdown() string {
 		fmt.Fprintf(&b, "**%s**\n\n", r)
 	}
 	b.WriteString("| " + strings.Join(gateColumns, " | ") + " |\n|" + strings.Repeat("---|", len(gateColumns)) + "\n")
-	for _, c := range g.Claims {
-		cells := c.cells()
+	for _, r := range g.rows() {
+		cells := r.cells()
 		for i, s := range cells {
 			s = strings.ReplaceAll(s, "|", `\|`)
-			if c.Verdict == string(claims.Refuted) && (i == 0 || i == 4) {
+			if r.Verdict == claims.Refuted && (i == 0 || i == 4) {
 				s = "**" + s + "**"
 			}
 			cells[i] = s
@@ -251,32 +176,28 @@ func (g *Gate) html() string {
 		fmt.Fprintf(&b, "<th>%s</th>", html.EscapeString(h))
 	}
 	b.WriteString("</tr>\n")
-	for _, c := range g.Claims {
-		cells := c.cells()
-		if c.Verdict == string(claims.Refuted) {
+	for _, r := range g.rows() {
+		if r.Verdict == claims.Refuted {
 			b.WriteString(`<tr class="refuted">`)
 		} else {
 			b.WriteString("<tr>")
 		}
-		for i, s := range cells {
+		for i, s := range r.cells() {
 			v := html.EscapeString(s)
 			switch {
 			case i == 0:
 				fmt.Fprintf(&b, `<td class="mark">%s</td>`, v)
-				continue
+			case i == 4 && r.Verdict != claims.Proved:
+				fmt.Fprintf(&b, `<td class="verdict"><strong>%s</strong></td>`, v)
 			case i == 4:
-				if c.Verdict != string(claims.Proved) {
-					v = "<strong>" + v + "</strong>"
-				}
 				fmt.Fprintf(&b, `<td class="verdict">%s</td>`, v)
-				continue
 			case i == 2 || i == 3 || i == 5:
 				fmt.Fprintf(&b, `<td class="wrap">%s</td>`, v)
-				continue
 			case i == 6 && v != "":
-				v = "<code>" + v + "</code>"
+				fmt.Fprintf(&b, "<td><code>%s</code></td>", v)
+			default:
+				fmt.Fprintf(&b, "<td>%s</td>", v)
 			}
-			fmt.Fprintf(&b, "<td>%s</td>", v)
 		}
 		b.WriteString("</tr>\n")
 	}
@@ -294,31 +215,26 @@ func (g *Gate) tex() string {
 		fmt.Fprintf(&b, "\n\\noindent\\textbf{%s}\n", texWords(r))
 	}
 	b.WriteString("{\\raggedright\n\\begin{itemize}\n")
-	for _, c := range g.Claims {
-		verdict := texText(c.Verdict)
-		if c.Verdict != string(claims.Proved) {
-			verdict = "\\textbf{" + texText(strings.ToUpper(c.Verdict)) + "}"
-		}
-		where := c.where()
-		if c.Note != "" {
-			where += "; note: " + c.Note
+	for _, r := range g.rows() {
+		verdict := texText(string(r.Verdict))
+		if r.Verdict != claims.Proved {
+			verdict = "\\textbf{" + texText(strings.ToUpper(string(r.Verdict))) + "}"
 		}
 		fmt.Fprintf(&b, "\\item[%s] \\textbf{%s} (%s). Claimed: %s. Certified (re-checked by this report): %s. Recorded verdict: %s.\n",
-			texWords(strings.Fields(verdictMark(c.Verdict))[0]), texBreakable(c.ID), texWords(where), texWords(c.claimed()), c.texCertified(), verdict)
+			texWords(strings.Fields(verdictMark(r.Verdict))[0]), texBreakable(r.ID), texWords(r.where()), texWords(r.claimed()), r.texCertified(), verdict)
 	}
 	b.WriteString("\\end{itemize}\n\\par}\n")
 	return b.String()
 }
 
-// texCertified is certifiedOf in LaTeX, every number breakable.
-func (c GateClaim) texCertified() string {
-	parts, words := c.certifiedOf()
+// texCertified is the comparison in LaTeX, every number breakable.
+func (r gateRow) texCertified() string {
 	var out []string
-	for _, p := range parts {
+	for _, p := range r.cmp.parts {
 		out = append(out, fmt.Sprintf("$%s \\in [\\,%s,\\ %s\\,]$", p.tex, texNumber(p.lo), texNumber(p.hi)))
 	}
-	if words != "" {
-		out = append(out, texWords(words))
+	if r.cmp.words != "" {
+		out = append(out, texWords(r.cmp.words))
 	}
 	return strings.Join(out, "; ")
 }

@@ -59,14 +59,14 @@ func goldenDocument(t *testing.T) *Document {
 	return &Document{Certificates: load(t, "cert-1342.json", "cert-123.json"), Censuses: []*Census{cen}, Gates: loadGates(t, "gate.jsonl", "gate-restated.jsonl")}
 }
 
-// loadGates reads gate outputs in testdata: gate.jsonl is a real run of
-// 'avoidcert gate --json' on the demo's manifest with --certificates certs
-// (its certificates in testdata/certs); gate-restated.jsonl holds some of
-// its lines with the claim restated by hand (manifest, set, quantity,
-// claimed value, note), the form a gate that restates its claims writes,
-// one certificate moved to a path that does not exist, and a hand-written
-// count claim on a_60 of 123 (the value from 'avoidcert count 123 --from 60
-// --to 60').
+// loadGates reads gate outputs in testdata: gate.jsonl is a run of this
+// version's 'avoidcert gate --json' on the demo's manifest with
+// --certificates certs (its certificates in testdata/certs);
+// gate-restated.jsonl is a run of the gate that restates its claims
+// (format avoidcert-gate version 1, built from the branch that brings it)
+// on the demo's manifest and one claim more, a_60 of 123 (the count from
+// 'avoidcert count 123 --from 60 --to 60'), the same certificates, and one
+// edit by hand: claim 3a's certificate moved to a path that does not exist.
 func loadGates(t *testing.T, names ...string) []*Gate {
 	t.Helper()
 	var gs []*Gate

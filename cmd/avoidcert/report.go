@@ -34,9 +34,10 @@ a figure of lambda by class with the ranges as bars. A row that differs, a
 certificate of another class, or a path that leaves the folder stops the
 report (exit 1, naming the row and the field). For a gate: each claim as
 its line restates it, against what the certificates the line names certify
-(found at the recorded path or beside the gate's file, taken only with the
-recorded SHA-256 and re-checked; one that differs or that the checker
-refuses stops the report, exit 1), and the gate's verdicts and evidence as
+(looked for from the manifest's folder, the current one and the gate
+file's, taken only with the recorded SHA-256 and re-checked; one that
+differs, one the checker refuses, or a recorded verdict they contradict
+stops the report, exit 1), and the gate's verdicts and evidence as
 recorded, refuted claims marked; a line with a verdict or kind the gate
 never writes is refused (exit 2). For a series
 run: the observed count of each pattern against its exact mean, tails as
