@@ -84,10 +84,10 @@ func texBreakable(s string) string {
 }
 
 // texWords is texBreakable with the few symbols the plain-text pages use
-// set in math: λ, ∈, ≤, ≥, <, >, ~ (approximately), the marks of the
+// set in math: λ, ∈, ≤ (<=), ≥ (>=), <, >, ~ (approximately), the marks of the
 // verdicts (✓ ✗) and the ellipsis.
 func texWords(s string) string {
-	return strings.NewReplacer("λ", `$\lambda$`, "∈", `$\in$`, "≤", `$\le$`, "≥", `$\ge$`, "<", `$<$`, ">", `$>$`,
+	return strings.NewReplacer("λ", `$\lambda$`, "∈", `$\in$`, "≤", `$\le$`, "≥", `$\ge$`, "<=", `$\le$`, ">=", `$\ge$`, "<", `$<$`, ">", `$>$`,
 		`\~{}`, `$\approx$`, "✓", `$\surd$`, "✗", `$\times$`, "…", `\dots{}`).Replace(texBreakable(s))
 }
 
