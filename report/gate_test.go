@@ -160,7 +160,10 @@ func TestGateCertificatesRefused(t *testing.T) {
 		}
 	}
 	// another set: the certificate of 1324 named for 1342
-	other := strings.Replace(line3c, `"set":"1324"`, `"set":"1342"`, 1)
+	other := strings.NewReplacer(`"set":"1324"`, `"set":"1342"`, `{"patterns":["1324"],"path"`, `{"patterns":["1342"],"path"`).Replace(line3c)
+	if other == line3c {
+		t.Fatal("no certificate reference to alter")
+	}
 	if _, err := FromGate(context.Background(), name, []byte(other)); !IsRefused(err) || !strings.Contains(err.Error(), "checker refuses") {
 		t.Errorf("a certificate named for another set: %v, want a refusal by the checker", err)
 	}
