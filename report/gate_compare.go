@@ -38,11 +38,14 @@ func compare(c GateClaim, checked []CheckedCertificate) comparison {
 	var certs []*certify.Certificate
 	var missing []string
 	for i, ch := range checked {
-		if ch.Cert == nil {
+		switch {
+		case ch.Cert != nil:
+			certs = append(certs, ch.Cert)
+		case c.Certificates[i].Path == "":
+			return comparison{words: "not re-checked: the gate kept no certificate (run it with --certificates)"}
+		default:
 			missing = append(missing, c.Certificates[i].Path)
-			continue
 		}
-		certs = append(certs, ch.Cert)
 	}
 	if len(missing) > 0 {
 		return comparison{words: fmt.Sprintf("not re-checked: certificate not found (%s)", strings.Join(missing, ", "))}

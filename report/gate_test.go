@@ -180,3 +180,21 @@ func TestGateCertificatesRefused(t *testing.T) {
 		t.Errorf("a certificate with other bytes: %v, want a refusal naming the SHA-256", err)
 	}
 }
+
+// A certificate the gate kept nowhere (no --certificates, no cache) is
+// said to be so, with no command to check it.
+func TestGateCertificateNotKept(t *testing.T) {
+	g, err := FromGate(context.Background(), "g.jsonl", []byte(`{"format":"avoidcert-gate","version":1,"id":"g","kind":"growth","manifest":"m.toml","line":1,`+
+		`"claim":{"patterns":["123"],"quantity":"lambda","statement":"lambda(123) = 0.827 (rounded)","claimed":{"lo":"0.8265","hi":"0.8275"}},`+
+		`"verdict":"proved","evidence":"e","cached":false,"seconds":0,"certificates":[{"patterns":["123"],"sha256":"00"}]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := g.rows()[0]
+	if got := r.certified(); got != "not re-checked: the gate kept no certificate (run it with --certificates)" {
+		t.Errorf("certified %q", got)
+	}
+	if got := r.recheck(); got != "" {
+		t.Errorf("re-check %q for a certificate kept nowhere", got)
+	}
+}

@@ -121,6 +121,9 @@ func (r gateRow) certified() string {
 func (r gateRow) recheck() string {
 	var parts []string
 	for i, ref := range r.Certificates {
+		if ref.Path == "" {
+			continue // not kept: nothing to check
+		}
 		path := ref.Path
 		if i < len(r.checked) && r.checked[i].Found != "" {
 			path = r.checked[i].Found
