@@ -18,7 +18,7 @@ func FuzzFromGate(f *testing.F) {
 	f.Add([]byte("{}\n{"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		IsGateJSON(data)
-		g, err := FromGate("fuzz", data)
+		g, err := parseGate("fuzz", data)
 		if err != nil {
 			return
 		}

@@ -44,7 +44,13 @@ type jsonAllN struct {
 
 type jsonPoint struct {
 	N     int     `json:"n"`
-	Value float64 `json:"value"`
+	Log10 float64 `json:"log10"`
+}
+
+type jsonRatio struct {
+	N             int      `json:"n"`
+	Inside        bool     `json:"inside"`
+	Log10Distance *float64 `json:"log10_distance"`
 }
 
 type jsonCertificate struct {
@@ -64,10 +70,11 @@ type jsonCertificate struct {
 	Recheck             string   `json:"recheck"`
 	// The figures' data, recomputed with the engine while the report was
 	// made; WidthRate is an estimate.
-	Widths    []jsonPoint `json:"widths"`
-	WidthRate *float64    `json:"width_rate_estimate"`
-	Ratios    []jsonPoint `json:"ratio_distances"`
-	HalfWidth *float64    `json:"half_width"`
+	Widths         []jsonPoint `json:"widths"`
+	WidthRate      *float64    `json:"width_rate_estimate"`
+	RatioStep      int         `json:"ratio_step"`
+	Ratios         []jsonRatio `json:"ratio_distances"`
+	HalfWidthLog10 *float64    `json:"half_width_log10"`
 }
 
 type jsonCensus struct {
@@ -116,7 +123,7 @@ func (r *Certificate) json() jsonCertificate {
 		Lambda: endsOf(r.Lambda()), Radius: endsOf(r.Radius()), LambdaDigits: r.Digits,
 		StructureClass: string(r.Form.Class), AsymptoticForm: r.Asymptotics(),
 		AllN:    jsonAllN{N0: b.N0, AN0: st.AllN.AN0.String(), Lo: present(b.MuLo), Hi: present(b.MuHi)},
-		Recheck: r.Recheck(), Widths: points(r.Widths), Ratios: points(r.Ratios), HalfWidth: finite(r.HalfWidth)}
+		Recheck: r.Recheck(), Widths: points(r.Widths), RatioStep: r.RatioStep, Ratios: ratios(r.Ratios), HalfWidthLog10: finite(r.HalfWidth)}
 	switch r.Form.Class {
 	case certify.ClassPrimitive:
 		j.PrimitivityExponent = &r.Form.Exponent
@@ -155,12 +162,29 @@ func present(s string) *string {
 	return &s
 }
 
+// points are the widths as base-10 logarithms, those JSON can hold.
 func points(ps []Point) []jsonPoint {
 	out := []jsonPoint{}
 	for _, p := range ps {
-		if finite(p.Value) != nil {
-			out = append(out, jsonPoint{N: p.N, Value: p.Value})
+		if finite(p.Log10) != nil {
+			out = append(out, jsonPoint{N: p.N, Log10: p.Log10})
 		}
+	}
+	return out
+}
+
+// ratios are the ratios' distances from lambda^d as base-10 logarithms,
+// null for a ratio inside the certified range.
+func ratios(rs []Ratio) []jsonRatio {
+	out := []jsonRatio{}
+	for _, r := range rs {
+		j := jsonRatio{N: r.N, Inside: r.Inside}
+		if !r.Inside {
+			if j.Log10Distance = finite(r.Log10); j.Log10Distance == nil {
+				continue
+			}
+		}
+		out = append(out, j)
 	}
 	return out
 }

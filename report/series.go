@@ -217,15 +217,19 @@ func (s *Series) html() (string, error) {
 func (s *Series) tex() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "\n\\paragraph{%s.}\n%s\n", texText(s.title()), texText(seriesNote))
-	b.WriteString("\\begin{center}\n\\begin{tabular}{lrrrrllll}\npattern & windows & observed & mean & sd & $P(X \\le x)$ & $P(X \\ge x)$ & tails & 95\\% range\\\\\n\\hline\n")
+	// two tables of five columns each: nine side by side do not fit a page
+	var counts, tails [][]string
 	for _, row := range s.rows() {
 		cells := make([]string, len(row))
 		for i, c := range row {
-			cells[i] = texText(c)
+			cells[i] = texWords(c)
 		}
-		b.WriteString(strings.Join(cells, " & ") + "\\\\\n")
+		counts = append(counts, cells[:5])
+		tails = append(tails, append([]string{cells[0]}, cells[5:]...))
 	}
-	b.WriteString("\\end{tabular}\n\\end{center}\n")
+	b.WriteString(texTable("lrrrr", []string{"pattern", "windows", "observed", "mean", "sd"}, counts, false))
+	b.WriteString(texTable(`@{}p{0.12\linewidth}p{0.22\linewidth}p{0.22\linewidth}p{0.14\linewidth}p{0.16\linewidth}@{}`,
+		[]string{"pattern", "$P(X \\le x)$", "$P(X \\ge x)$", "tails", "95\\% range"}, tails, true))
 	for _, l := range s.avoidanceLines() {
 		fmt.Fprintf(&b, "\\noindent %s.\n\n", texText(l))
 	}
@@ -302,17 +306,9 @@ func (s *Series) figure() (*plot.Plot, error) {
 	sc.GlyphStyle.Color = color.RGBA{R: 20, G: 20, B: 20, A: 255}
 	p.Add(sc)
 	p.Legend.Add("exact mean", sc)
-	switch {
-	case len(items) <= 12:
-		p.NominalX(names...)
-	case len(items) <= 60:
-		p.NominalX(names...)
-		p.X.Tick.Label.Rotation = math.Pi / 2
-		p.X.Tick.Label.XAlign, p.X.Tick.Label.YAlign = draw.XRight, draw.YCenter
-	default:
+	if !nameAxis(p, names) {
 		p.X.Label.Text = "pattern, by lexicographic rank (names in the table)"
 	}
-	// room above the bars for the legend
 	top := 0.0
 	for i, it := range items {
 		top = math.Max(top, math.Max(observed[i], means[i].Y))
@@ -320,8 +316,7 @@ func (s *Series) figure() (*plot.Plot, error) {
 			top = math.Max(top, float64(c.Hi))
 		}
 	}
-	p.Y.Min, p.Y.Max = 0, math.Max(1, top*1.35)
-	p.Legend.Top = true
+	p.Y.Min, p.Y.Max = 0, math.Max(1, top*1.05)
 	p.Add(plotter.NewGrid())
 	return p, nil
 }

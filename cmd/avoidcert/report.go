@@ -36,10 +36,14 @@ certificate's, its counts the checker's own, and the order and count groups
 are derived again; then the classes by lambda, the groups and the order, and
 a figure of lambda by class with the ranges as bars. A row that differs, a
 certificate of another class, or a path that leaves the folder stops the
-report (exit 1, naming the row and the field). For a gate: its verdicts
-restated as recorded, not re-checked (the lines hold no claimed values to
-judge again), with the commands that check its certificates; a line with a
-verdict or kind the gate never writes is refused (exit 2). For a series
+report (exit 1, naming the row and the field). For a gate: each claim as
+its line restates it, against what the certificates the line names certify
+(looked for from the manifest's folder, the current one and the gate
+file's, taken only with the recorded SHA-256 and re-checked; one that
+differs, one the checker refuses, or a recorded verdict they contradict
+stops the report, exit 1), and the gate's verdicts and evidence as
+recorded, refuted claims marked; a line with a verdict or kind the gate
+never writes is refused (exit 2). For a series
 run: the observed count of each pattern against its exact mean, tails as
 recorded, the exact means and variances recomputed (a run whose recorded ones
 differ is refused), avoidance probabilities derived again, and in HTML a
@@ -52,9 +56,11 @@ the report (exit 1).
   md    Markdown, with the figures' data as tables
   html  a standalone page (inline SVG figures, nothing fetched from the
         network): the width of the certified bracket against n (log scale)
-        with the observed rate, and a_(n+1)/((n+1) a_n) against n with the
-        certified lambda
-  tex   a LaTeX fragment to \input: one theorem per certificate
+        with the observed rate, and the distance of a_(n+1)/((n+1) a_n)
+        from lambda against n, to the bracket's last n, with half the
+        width of the certified range
+  tex   a LaTeX fragment to \input: one theorem per certificate; long
+        numbers in groups of five digits that break across lines
 
 The figures are recomputed with the engine (a certificate keeps only its
 final brackets) and the page says so.
@@ -157,7 +163,7 @@ func addInput(ctx context.Context, doc *report.Document, path string) error {
 		return nil
 	}
 	if report.IsGateJSON(data) {
-		g, err := report.FromGate(path, data)
+		g, err := report.FromGate(ctx, path, data)
 		if err != nil {
 			return err
 		}
