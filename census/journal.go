@@ -241,7 +241,10 @@ func decodeJSON(data []byte, v any) error {
 	if err := input.CheckJSON(data); err != nil {
 		return err
 	}
-	return json.Unmarshal(data, v)
+	if err := json.Unmarshal(data, v); err != nil {
+		return errors.New(input.JSONProblem(err))
+	}
+	return nil
 }
 
 // marshal is the one JSON layout of every file the census writes:

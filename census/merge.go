@@ -183,7 +183,7 @@ func readReport(ctx context.Context, f *folder) (*Report, error) {
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(&rep); err != nil {
-		return nil, inputErrorf("%s is not a census file: %v", filepath.Join(dir, JSONFile), err)
+		return nil, inputErrorf("%s is not a census file: %s", filepath.Join(dir, JSONFile), input.JSONProblem(err))
 	}
 	if rep.Format != ReportFormat || rep.Version != ReportVersion {
 		return nil, inputErrorf("%s is %q version %d; this version merges %q version %d only",

@@ -29,6 +29,13 @@
 //     replaced, and the evidence says so.
 //   - Equal counts up to n = N are reported as evidence of c-Wilf
 //     equivalence, never as its proof.
+//   - The reports (WriteJSON, JUnit) restate each claim as the manifest
+//     states it (Claim.Statement, Quantity, the claimed interval exactly,
+//     the note), where it is written (file and line), the checked
+//     enclosures a growth or order verdict was read from, and the
+//     certificates' paths relative to the manifest's folder (absolute
+//     outside it), never to the folder the gate ran in. Manifest faults
+//     that the TOML library finds are stated in this package's words.
 //
 // Run judges claims one after another; it is safe to run several Runs at
 // once only with different cache and certificate folders.

@@ -6,6 +6,7 @@ import (
 	"math/big"
 	"regexp"
 	"slices"
+	"strconv"
 	"strings"
 	"time"
 
@@ -211,12 +212,12 @@ func Parse(file string, data []byte) (*Manifest, error) {
 	var raw rawManifest
 	md, err := toml.Decode(string(data), &raw)
 	if err != nil {
-		e := &Error{File: file, Msg: cut(strings.TrimPrefix(err.Error(), "toml: "))}
+		e := &Error{File: file, Msg: "not a TOML file this version can read; see docs/claims.md for the form of a manifest"}
 		if pe, ok := err.(toml.ParseError); ok {
-			e.Line, e.Msg = pe.Position.Line, cut(pe.Message)
-			if pe.LastKey != "" {
-				e.Field = pe.LastKey
-			}
+			e.Line, e.Field, e.Msg = pe.Position.Line, pe.LastKey, tomlProblem(pe.Message, pe.Position.Col)
+		} else if sub := tomlDecodeError.FindStringSubmatch(err.Error()); sub != nil {
+			e.Line, _ = strconv.Atoi(sub[1])
+			e.Field, e.Msg = sub[2], tomlProblem(sub[3], 0)
 		}
 		return nil, e
 	}
@@ -272,15 +273,45 @@ func Parse(file string, data []byte) (*Manifest, error) {
 	return m, nil
 }
 
-// cut keeps the first line of a parser's message, shortened to a few
-// dozen characters more than brief.Most: the library quotes keys and
-// values whole.
-func cut(msg string) string {
-	msg, _, _ = strings.Cut(msg, "\n")
-	if len(msg) > 2*brief.Most {
-		return brief.Quote(msg)
+// tomlFaults says in our words what the TOML library's messages mean,
+// by the words they contain (first match wins); the library's own wording
+// never reaches the user.
+var tomlFaults = []struct{ has, says string }{
+	{"already been defined", "given twice: keep one (a second claim starts with its own [[claim]] line)"},
+	{"already created", "given twice, once as a table and once as a value: keep one"},
+	{"is not a table", "used both as a value and as a table: keep one"},
+	{"newlines", "a string is not closed on its line: end it with a double quote"},
+	{"NULL bytes", "not UTF-8 text (saved as UTF-16?): save the manifest as UTF-8"},
+	{"out of range", "a number too large for TOML: write counts as strings in quotes, e.g. \"74207209\""},
+	{"delimiter", "a table name TOML cannot read: write [run], [defaults] or [[claim]]"},
+	{"incompatible types", "a value of the wrong type: counts and decimals go in quotes, n, from and to are whole numbers, patterns a list of strings"},
+	{"nteger", "not a number TOML reads: write whole numbers without leading zeros, and counts and decimals as strings in quotes"},
+	{"loat", "not a number TOML reads: write decimals as strings in quotes, e.g. \"0.9546\""},
+	{"escape", "a backslash TOML cannot read inside a string"},
+	{"UTF-8", "a character that is not UTF-8 text"},
+	{"end of file", "the file ends inside a value or a table name: close it"},
+	{"EOF", "the file ends inside a value or a table name: close it"},
+	{"expected value", "a value is missing or not written as TOML: strings in double quotes, lists in [ ]"},
+	{"table name", "a table name TOML cannot read: write [run], [defaults] or [[claim]]"},
+	{"key", "a key TOML cannot read: write name = value, one a line"},
+}
+
+// tomlDecodeError is how the TOML library reports a value of the wrong
+// type: not a ParseError, but the line and key in its text.
+var tomlDecodeError = regexp.MustCompile(`^toml: line ([0-9]+) \(last key "([^"]*)"\): (.*)$`)
+
+// tomlProblem states a TOML fault (the library's message, and the column
+// where known, else 0) in our own words.
+func tomlProblem(msg string, col int) string {
+	for _, f := range tomlFaults {
+		if strings.Contains(msg, f.has) {
+			return f.says
+		}
 	}
-	return msg
+	if col > 0 {
+		return fmt.Sprintf("not valid TOML at column %d; see docs/claims.md for the form of a manifest", col)
+	}
+	return "not valid TOML here; see docs/claims.md for the form of a manifest"
 }
 
 // fieldError is a fault in one field, located by Parse.

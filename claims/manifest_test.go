@@ -128,7 +128,12 @@ func TestParseErrors(t *testing.T) {
 		{"bad reading", head + "kind = \"growth\"\npatterns = [\"123\"]\nvalue = \"0.9\"\nreading = \"cut\"\n", 6, "reading", "truncated"},
 		{"bad budget", head + "kind = \"growth\"\npatterns = [\"123\"]\nvalue = \"0.9\"\nmax_k = 5000\n", 6, "max_k", "checker's limit"},
 		{"bad default", "[defaults]\ntimeout = \"soon\"\n" + head, 2, "defaults.timeout", "duration"},
-		{"syntax", head + "kind = \"form\npatterns = []\n", 3, "claim.kind", "newlines"},
+		{"syntax", head + "kind = \"form\npatterns = []\n", 3, "claim.kind", "a string is not closed on its line"},
+		// the TOML library's words stay out of the message
+		{"key twice", head + "kind = \"count\"\npatterns = [\"123\"]\nn = 3\nn = 4\n", 6, "claim.n", "given twice: keep one"},
+		{"bad integer", head + "kind = \"count\"\npatterns = [\"123\"]\nn = 03\n", 5, "claim.n", "not a number TOML reads"},
+		{"unclosed list", head + "kind = \"count\"\npatterns = [\"123\"", 4, "claim.patterns", "ends inside a value"},
+		{"wrong type", head + "kind = \"count\"\npatterns = [\"123\"]\nn = \"3\"\ncount = \"1\"\n", 5, "claim.n", "wrong type"},
 		{"no claims", "title = \"x\"\n", 0, "claim", "no [[claim]]"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

@@ -1,7 +1,6 @@
 package claims
 
 import (
-	"encoding/json"
 	"encoding/xml"
 	"fmt"
 	"io"
@@ -55,34 +54,6 @@ func WriteTable(w io.Writer, results []Result) error {
 	return tw.Flush()
 }
 
-// jsonResult is the JSON form of a Result.
-type jsonResult struct {
-	ID           string           `json:"id"`
-	Kind         Kind             `json:"kind"`
-	Line         int              `json:"line"`
-	Verdict      Verdict          `json:"verdict"`
-	Evidence     string           `json:"evidence"`
-	Cached       bool             `json:"cached"`
-	Seconds      float64          `json:"seconds"`
-	Certificates []CertificateRef `json:"certificates"`
-}
-
-// WriteJSON writes one JSON object per claim, one per line.
-func WriteJSON(w io.Writer, results []Result) error {
-	enc := json.NewEncoder(w)
-	enc.SetEscapeHTML(false)
-	for _, r := range results {
-		certs := r.Certificates
-		if certs == nil {
-			certs = []CertificateRef{}
-		}
-		if err := enc.Encode(jsonResult{r.ID, r.Kind, r.Line, r.Verdict, r.Evidence, r.Cached, r.Elapsed.Seconds(), certs}); err != nil {
-			return err
-		}
-	}
-	return nil
-}
-
 // The JUnit XML elements written by JUnit.
 type (
 	junitSuites struct {
@@ -107,6 +78,8 @@ type (
 	junitCase struct {
 		Name      string        `xml:"name,attr"`
 		Classname string        `xml:"classname,attr"`
+		File      string        `xml:"file,attr,omitempty"`
+		Line      int           `xml:"line,attr,omitempty"`
 		Time      string        `xml:"time,attr"`
 		Failure   *junitMessage `xml:"failure,omitempty"`
 		Error     *junitMessage `xml:"error,omitempty"`
@@ -121,20 +94,31 @@ type (
 )
 
 // JUnit renders the results as JUnit XML: one test suite named after the
-// manifest, one test case per claim; a refuted claim is a failure, an
-// undecided one is skipped with the reason, a claim the tool failed on is
-// an error.
+// manifest, one test case per claim, named by its id and the claim
+// restated ("g-1342: lambda(1342) = 0.954612 (rounded)"), with the
+// manifest's file and line; a refuted claim is a failure whose message
+// gives the claim and the evidence, an undecided one is skipped with the
+// reason, a claim the tool failed on is an error. Certificate paths are
+// as in WriteJSON.
 func JUnit(suite string, results []Result) ([]byte, error) {
 	s := Summarize(results)
 	var total float64
 	js := junitSuite{Name: suite, Tests: len(results), Failures: s.Refuted, Errors: s.Failed, Skipped: s.Undecided}
 	for _, r := range results {
 		total += r.Elapsed.Seconds()
-		jc := junitCase{Name: r.ID, Classname: "claims." + string(r.Kind), Time: seconds(r.Elapsed.Seconds())}
+		jc := junitCase{Name: r.ID, Classname: "claims." + string(r.Kind), File: r.Manifest, Line: r.Line, Time: seconds(r.Elapsed.Seconds())}
+		stated := ""
+		if r.Claim.ID != "" {
+			stated = r.Claim.Statement()
+			jc.Name += ": " + stated
+		}
 		msg := &junitMessage{Message: r.Evidence}
 		switch r.Verdict {
 		case Refuted:
 			msg.Type, msg.Text = "refuted", r.Evidence
+			if stated != "" {
+				msg.Message = "claimed " + stated + "; " + r.Evidence
+			}
 			jc.Failure = msg
 		case Undecided:
 			jc.Skipped = msg
@@ -143,9 +127,15 @@ func JUnit(suite string, results []Result) ([]byte, error) {
 			jc.Error = msg
 		}
 		var out strings.Builder
+		if stated != "" {
+			fmt.Fprintf(&out, "claim: %s (%s line %d)\n", stated, r.Manifest, r.Line)
+		}
+		if r.Claim.Note != "" {
+			fmt.Fprintf(&out, "note: %s\n", r.Claim.Note)
+		}
 		fmt.Fprintf(&out, "%s: %s\n", r.Verdict, r.Evidence)
 		for _, c := range r.Certificates {
-			fmt.Fprintf(&out, "certificate for %s: %s sha256 %s\n", c.Set, c.Path, c.SHA256)
+			fmt.Fprintf(&out, "certificate for %s: %s sha256 %s\n", strings.Join(c.Patterns, ","), shownPath(r.Manifest, c.Path), c.SHA256)
 		}
 		jc.SystemOut = out.String()
 		js.Cases = append(js.Cases, jc)

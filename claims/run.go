@@ -11,6 +11,7 @@ import (
 	"strings"
 	"time"
 
+	"avoidcert/bounds"
 	"avoidcert/certify"
 	"avoidcert/pattern"
 	"avoidcert/prove"
@@ -38,9 +39,9 @@ type Options struct {
 
 // CertificateRef names a certificate a verdict rests on.
 type CertificateRef struct {
-	Set    string `json:"set"`            // the pattern set it is for
-	Path   string `json:"path,omitempty"` // where it is kept ("" when neither kept nor cached)
-	SHA256 string `json:"sha256"`         // of the file's bytes
+	Patterns []string // the pattern set it is for
+	Path     string   // where it was written ("" when neither kept nor cached)
+	SHA256   string   // of the file's bytes
 }
 
 // Result is the outcome of one claim.
@@ -48,8 +49,14 @@ type Result struct {
 	ID       string
 	Kind     Kind
 	Line     int
+	Manifest string // the manifest's file, as given to Parse
+	Claim    Claim  // the claim judged, as the manifest states it
 	Verdict  Verdict
 	Evidence string // in a few words
+	// Certified are the checked enclosures a growth claim (of its
+	// quantity) or an order claim (of lambda of each set) was judged on;
+	// nil for the other kinds and when no certificate was made.
+	Certified []bounds.Enclosure
 	// Certificates are the checked certificates the verdict rests on
 	// (growth, form and order claims).
 	Certificates []CertificateRef
@@ -87,6 +94,7 @@ func Run(ctx context.Context, m *Manifest, opts Options) ([]Result, error) {
 			c.Budget.MaxMemory = min(c.Budget.MaxMemory, memCap)
 		}
 		r := judge(runCtx, c, opts)
+		r.Manifest = m.File
 		if err := ctx.Err(); err != nil {
 			return results, err
 		}
@@ -107,7 +115,7 @@ func judge(runCtx context.Context, c Claim, opts Options) Result {
 		defer cancel()
 	}
 	po := prove.Options{MaxK: c.Budget.MaxK, MaxMemory: c.Budget.MaxMemory, Tool: opts.Tool, Typed: c.Typed}
-	r := Result{ID: c.ID, Kind: c.Kind, Line: c.Line}
+	r := Result{ID: c.ID, Kind: c.Kind, Line: c.Line, Claim: c}
 	var o outcome
 	err := ctx.Err()
 	if err == nil {
@@ -115,7 +123,7 @@ func judge(runCtx context.Context, c Claim, opts Options) Result {
 		case KindCount, KindEqualCounts, KindProbability:
 			o, err = judgeCounts(ctx, c, po)
 		default:
-			o, r.Certificates, r.Cached, err = judgeCertified(ctx, c, po, opts)
+			o, r.Certificates, r.Certified, r.Cached, err = judgeCertified(ctx, c, po, opts)
 		}
 	}
 	if err != nil {
@@ -130,8 +138,10 @@ func judge(runCtx context.Context, c Claim, opts Options) Result {
 }
 
 // judgeCertified decides a claim from certificates: cached ones that the
-// checker accepts again when they decide it, otherwise fresh ones.
-func judgeCertified(ctx context.Context, c Claim, po prove.Options, opts Options) (outcome, []CertificateRef, bool, error) {
+// checker accepts again when they decide it, otherwise fresh ones. It
+// returns the certificates' references and the enclosures the verdict was
+// read from (enclosures).
+func judgeCertified(ctx context.Context, c Claim, po prove.Options, opts Options) (outcome, []CertificateRef, []bounds.Enclosure, bool, error) {
 	cf := certifiedFor(c)
 	note := ""
 	if opts.CacheDir != "" {
@@ -141,22 +151,35 @@ func judgeCertified(ctx context.Context, c Claim, po prove.Options, opts Options
 			if o := cf.decide(certs); o.verdict != Undecided {
 				refs, err := keep(c, cf.sets, certs, opts, false)
 				o.evidence = "re-checked cached certificate: " + o.evidence
-				return o, refs, true, err
+				return o, refs, enclosures(c, certs), true, err
 			}
 		case errors.Is(err, fs.ErrNotExist):
 		case ctx.Err() != nil:
-			return outcome{}, nil, false, err
+			return outcome{}, nil, nil, false, err
 		default:
 			note = fmt.Sprintf("cached certificate refused (%v), recomputed; ", err)
 		}
 	}
 	certs, o, err := cf.compute(ctx, po)
 	if err != nil {
-		return outcome{}, nil, false, err
+		return outcome{}, nil, nil, false, err
 	}
 	refs, err := keep(c, cf.sets, certs, opts, true)
 	o.evidence = note + o.evidence
-	return o, refs, false, err
+	return o, refs, enclosures(c, certs), false, err
+}
+
+// enclosures are what a verdict was read from: the checked enclosure of a
+// growth claim's quantity, of lambda of both sets of an order claim; nil
+// for a form claim.
+func enclosures(c Claim, certs []*certify.Certificate) []bounds.Enclosure {
+	switch c.Kind {
+	case KindGrowth:
+		return []bounds.Enclosure{prove.Enclosure(certs[0], c.Of)}
+	case KindOrder:
+		return []bounds.Enclosure{prove.Enclosure(certs[0], bounds.QuantityLambda), prove.Enclosure(certs[1], bounds.QuantityLambda)}
+	}
+	return nil
 }
 
 // loadChecked reads cached certificates and has the checker accept each
@@ -186,7 +209,7 @@ func keep(c Claim, sets []pattern.Set, certs []*certify.Certificate, opts Option
 		cached = cachePaths(opts.CacheDir, c, len(certs))
 	}
 	for i, cert := range certs {
-		ref := CertificateRef{Set: sets[i].String()}
+		ref := CertificateRef{Patterns: sets[i].Strings()}
 		var err error
 		if ref.SHA256, err = prove.Digest(cert); err != nil {
 			return nil, err

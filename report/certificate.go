@@ -17,10 +17,26 @@ import (
 	"avoidcert/transfer"
 )
 
-// Point is one point of a figure.
+// Point is one point of a figure: a positive quantity at n, kept as its
+// base-10 logarithm, since a certificate's widths reach 10^-995, far
+// below the smallest float64.
 type Point struct {
 	N     int
-	Value float64
+	Log10 float64
+}
+
+// Ratio compares one ratio of exact counts with the certified range: the
+// ratio r_n = a_(n+d)·n!/((n+d)!·a_n), d the ratio's step, against the
+// certified range of lambda^d.
+type Ratio struct {
+	N int
+	// Inside reports that r_n lies in the certified range of lambda^d: its
+	// distance from lambda^d is then below what the certificate resolves.
+	Inside bool
+	// Log10 is log10 |r_n - m|, m the midpoint of the certified range of
+	// lambda^d, when r_n lies outside that range (then the distance is
+	// above the range's half-width); 0 when Inside.
+	Log10 float64
 }
 
 // Certificate is what a report states about one checked certificate.
@@ -35,21 +51,26 @@ type Certificate struct {
 	// Rate is the observed factor per unit of n by which the width shrinks
 	// (a least-squares fit of log width against n): an estimate.
 	Rate float64
-	// Ratios are |a_(n+1)/((n+1) a_n) - lambda| from exact counts, lambda
-	// the midpoint of the certified range (computed exactly, then rounded
-	// to float64 for the figure; zero differences are left out). The
-	// ratios tend to lambda for primitive sets.
-	Ratios []Point
-	// HalfWidth is half the width of the certified range of lambda.
+	// RatioStep is the step d of the ratios: the period of a periodic
+	// set (whose one-step ratios need not converge), else 1.
+	RatioStep int
+	// Ratios are the ratios of exact counts at n = 1, 2, ... up to the
+	// last n of the recomputed bracket run (fewer when the counts would
+	// take more than ratioMemory, or a_n = 0 from some n on). For
+	// primitive sets (and periodic ones, with their step) they tend to
+	// lambda^d.
+	Ratios []Ratio
+	// HalfWidth is log10 of half the width of the certified range of
+	// lambda^d (lambda for d = 1); NaN when the range has no upper end.
 	HalfWidth float64
 	// Digits is the number of leading digits the certified ends share.
 	Digits int
 }
 
-// ratioN is the last n of the ratio figure, and ratioMemory the memory the
-// counts may take; the figure stops earlier for large systems.
+// The ratios run to the last n of the bracket run, at least minRatioN, and
+// stop earlier when the counts would take more than ratioMemory.
 const (
-	ratioN      = 60
+	minRatioN   = 20
 	ratioMemory = 256 << 20
 )
 
@@ -76,7 +97,8 @@ func FromCertificate(ctx context.Context, name string, data []byte) (*Certificat
 func checked(ctx context.Context, name string, data []byte) (*certify.Certificate, error) {
 	c, err := certify.Read(bytes.NewReader(data))
 	if err != nil {
-		return nil, fmt.Errorf("%s: %v", name, err)
+		// the reader's "certificate: " prefix names its package, not the file
+		return nil, fmt.Errorf("%s: not a certificate the checker can read: %s", name, strings.TrimPrefix(err.Error(), "certificate: "))
 	}
 	if err := prove.Recheck(ctx, c, pattern.Set{}, prove.Options{Typed: c.Statement.Given}); err != nil {
 		switch {
@@ -96,8 +118,8 @@ func (r *Certificate) recompute(ctx context.Context, set pattern.Set) error {
 		if e.Bracket == nil || !e.Lambda.Finite() {
 			return
 		}
-		if w, _ := e.Lambda.Width().Float64(); w > 0 {
-			widths = append(widths, Point{N: e.N, Value: w})
+		if w := e.Lambda.Width(); w.Sign() > 0 {
+			widths = append(widths, Point{N: e.N, Log10: log10Rat(w)})
 		}
 	}
 	digits := max(r.Cert.Statement.Lambda.Digits-3, 1)
@@ -105,36 +127,76 @@ func (r *Certificate) recompute(ctx context.Context, set pattern.Set) error {
 		return err
 	}
 	r.Widths, r.Rate = widths, fitRate(widths)
-	M := ratioN
-	for M > 10 && transfer.CountsFootprint(set, M) > ratioMemory {
-		M -= 10
+	r.RatioStep = 1
+	if r.Form.Class == certify.ClassPeriodic && r.Form.Period > 1 {
+		r.RatioStep = r.Form.Period
+	}
+	r.HalfWidth = math.NaN()
+	lam := r.Cert.Statement.Lambda
+	if lam.Lo == nil || lam.Hi == nil {
+		return nil
+	}
+	r.Digits = interval.CommonDigits(lam.Lo, lam.Hi)
+	last := minRatioN
+	for _, w := range widths {
+		last = max(last, w.N)
+	}
+	return r.ratios(ctx, set, last)
+}
+
+// ratios fills Ratios for n = 1..last (or less, within ratioMemory) and
+// HalfWidth, from exact counts and the certified range of lambda^d.
+func (r *Certificate) ratios(ctx context.Context, set pattern.Set, last int) error {
+	d := r.RatioStep
+	M := last + d
+	for M > minRatioN && transfer.CountsFootprint(set, M) > ratioMemory {
+		M -= max(M/10, 1)
 	}
 	counts, err := transfer.Counts(ctx, set, M, nil)
 	if err != nil {
 		return err
 	}
 	lam := r.Cert.Statement.Lambda
-	if lam.Lo == nil || lam.Hi == nil {
-		return nil
-	}
-	mid := new(big.Rat).Add(lam.Lo, lam.Hi)
+	lo, hi := ratPow(lam.Lo, d), ratPow(lam.Hi, d)
+	mid := new(big.Rat).Add(lo, hi)
 	mid.Quo(mid, big.NewRat(2, 1))
-	r.HalfWidth, _ = new(big.Rat).Sub(lam.Hi, mid).Float64()
-	r.Digits = interval.CommonDigits(lam.Lo, lam.Hi)
-	for n := 1; n < M; n++ {
+	if hw := new(big.Rat).Sub(hi, mid); hw.Sign() > 0 {
+		r.HalfWidth = log10Rat(hw)
+	}
+	for n := 1; n+d <= M; n++ {
 		if counts[n].Sign() == 0 {
 			break
 		}
-		q := new(big.Rat).SetFrac(counts[n+1], new(big.Int).Mul(counts[n], big.NewInt(int64(n+1))))
-		f, _ := q.Sub(q, mid).Abs(q).Float64()
-		if f > 0 {
-			r.Ratios = append(r.Ratios, Point{N: n, Value: f})
+		// r_n = a_(n+d) / (a_n·(n+1)···(n+d))
+		q := new(big.Rat).SetFrac(counts[n+d], new(big.Int).Mul(counts[n], new(big.Int).MulRange(int64(n+1), int64(n+d))))
+		if q.Cmp(lo) >= 0 && q.Cmp(hi) <= 0 {
+			r.Ratios = append(r.Ratios, Ratio{N: n, Inside: true})
+			continue
 		}
+		r.Ratios = append(r.Ratios, Ratio{N: n, Log10: log10Rat(q.Sub(q, mid).Abs(q))})
 	}
 	return nil
 }
 
-// fitRate fits log(width) = a + n log(rate) by least squares over the
+// ratPow is x^d, a fresh value.
+func ratPow(x *big.Rat, d int) *big.Rat {
+	p := big.NewRat(1, 1)
+	for range d {
+		p.Mul(p, x)
+	}
+	return p
+}
+
+// log10Rat is log10 of x > 0 to about float64 precision, for any size of
+// x: x = m·2^e with m in [1/2, 1), so log10 x = log10 m + e·log10 2.
+func log10Rat(x *big.Rat) float64 {
+	var m big.Float
+	e := new(big.Float).SetPrec(64).SetRat(x).MantExp(&m)
+	f, _ := m.Float64()
+	return math.Log10(f) + float64(e)*math.Log10(2)
+}
+
+// fitRate fits log10(width) = a + n log10(rate) by least squares over the
 // second half of the points (the first brackets are far from the limit).
 func fitRate(ps []Point) float64 {
 	ps = ps[len(ps)/2:]
@@ -143,7 +205,7 @@ func fitRate(ps []Point) float64 {
 	}
 	var sx, sy, sxx, sxy float64
 	for _, p := range ps {
-		x, y := float64(p.N), math.Log(p.Value)
+		x, y := float64(p.N), p.Log10
 		sx, sy, sxx, sxy = sx+x, sy+y, sxx+x*x, sxy+x*y
 	}
 	k := float64(len(ps))
@@ -151,7 +213,17 @@ func fitRate(ps []Point) float64 {
 	if den == 0 {
 		return math.NaN()
 	}
-	return math.Exp((k*sxy - sx*sy) / den)
+	return math.Pow(10, (k*sxy-sx*sy)/den)
+}
+
+// FirstInside is the least n from which every ratio lies inside the
+// certified range, or 0 when the last one does not.
+func (r *Certificate) FirstInside() int {
+	first := 0
+	for i := len(r.Ratios) - 1; i >= 0 && r.Ratios[i].Inside; i-- {
+		first = r.Ratios[i].N
+	}
+	return first
 }
 
 // Patterns is the irredundant set as the certificate states it.

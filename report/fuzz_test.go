@@ -1,6 +1,7 @@
 package report
 
 import (
+	"io"
 	"os"
 	"path/filepath"
 	"testing"
@@ -13,10 +14,11 @@ func FuzzFromGate(f *testing.F) {
 		f.Add(data)
 	}
 	f.Add([]byte(`{"id":"a","kind":"count","verdict":"proved"}`))
+	f.Add([]byte(`{"format":"avoidcert-gate","version":1,"id":"a","kind":"count","verdict":"proved","claim":{"patterns":["1"]}}`))
 	f.Add([]byte("{}\n{"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		IsGateJSON(data)
-		g, err := FromGate("fuzz", data)
+		g, err := parseGate("fuzz", data)
 		if err != nil {
 			return
 		}
@@ -24,6 +26,9 @@ func FuzzFromGate(f *testing.F) {
 			if c.ID == "" || c.Verdict == "" {
 				t.Fatalf("accepted a claim without id or verdict: %+v", c)
 			}
+		}
+		if err := JSON(io.Discard, &Document{Gates: []*Gate{g}}); err != nil {
+			t.Fatalf("an accepted gate output does not restate as JSON: %v", err)
 		}
 	})
 }

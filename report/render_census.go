@@ -7,7 +7,6 @@ import (
 	"strings"
 
 	"avoidcert/census"
-	"avoidcert/claims"
 )
 
 // censusChecked says what the report verified of a census.
@@ -69,10 +68,12 @@ func (c *Census) html() (string, error) {
 		return "", err
 	}
 	fmt.Fprintf(&b, "<h2>Census of length %d (%s)</h2>\n<p>%s</p>\n<p>%s</p>\n", r.Params.Length, html.EscapeString(c.Dir), html.EscapeString(c.summary()), censusChecked)
-	fmt.Fprintf(&b, "<figure>%s<figcaption>λ of each class against its rank; the bars are the certified ranges (at %d digits narrower than the markers); classes of one count group (equal a_0..a_%d, candidate c-Wilf equivalence) share a colour.</figcaption></figure>\n", fig, r.Params.Digits, r.Params.To)
+	if fig != nil {
+		b.WriteString(figure(fig.SVG, c.figureCaption(fig), ""))
+	}
 	b.WriteString("<table>\n<tr><th>rank</th><th>class (members)</th><th>count group</th><th>λ</th><th>1/λ</th><th>structure</th><th>certificate SHA-256</th></tr>\n")
 	for i, row := range r.Rows {
-		fmt.Fprintf(&b, "<tr><td>%d</td><td>%s</td><td>%d</td><td>[%s, %s]</td><td>[%s, %s]</td><td>%s</td><td><code>%s</code></td></tr>\n", i+1,
+		fmt.Fprintf(&b, "<tr><td>%d</td><td>%s</td><td>%d</td><td class=\"wrap\">[%s, %s]</td><td class=\"wrap\">[%s, %s]</td><td>%s</td><td><code>%s</code></td></tr>\n", i+1,
 			html.EscapeString(strings.Join(row.Members, ", ")), row.Group, row.Lambda.Lo, row.Lambda.Hi, row.Radius.Lo, row.Radius.Hi, html.EscapeString(row.Class), row.CertificateSHA256)
 	}
 	b.WriteString("</table>\n<ul>\n")
@@ -86,70 +87,39 @@ func (c *Census) html() (string, error) {
 	return b.String(), nil
 }
 
+// figureCaption says what the census figure shows, bars included or not.
+func (c *Census) figureCaption(f *CensusFigure) string {
+	r := c.Report
+	var bars string
+	switch {
+	case f.Widest == "":
+		bars = "every certified range is a single value"
+	case f.Bars:
+		bars = fmt.Sprintf("the bars are the certified ranges (at most %s wide at %d digits)", f.Widest, r.Params.Digits)
+	case f.ZoomBars:
+		bars = fmt.Sprintf("the certified ranges (at most %s wide at %d digits) are narrower than the markers above, and drawn as bars in the zoom below", f.Widest, r.Params.Digits)
+	default:
+		bars = fmt.Sprintf("no bars are drawn: every certified range (at most %s wide at %d digits) is narrower than its marker, so the markers' size, not the ranges, limits what the eye can tell apart", f.Widest, r.Params.Digits)
+	}
+	zoom := ""
+	if f.ZoomFrom > 0 {
+		zoom = fmt.Sprintf(" The lower panel shows ranks %d to %d, the middle 90%% of the classes, on their own scale: above, a few extreme classes squeeze them flat.", f.ZoomFrom, f.ZoomTo)
+	}
+	return fmt.Sprintf("λ of each class against its rank; %s.%s Classes of one count group (equal a_0..a_%d, candidate c-Wilf equivalence) share a marker; the legend below the plot says which.", bars, zoom, r.Params.To)
+}
+
 func (c *Census) tex() string {
 	var b strings.Builder
 	r := c.Report
-	fmt.Fprintf(&b, "\n\\begin{theorem}[certified by avoidcert]\nFor each single consecutive pattern $\\sigma$ of length %d, up to reversal and complement, the growth rate $\\lambda(\\sigma) = \\lim_{n\\to\\infty}(a_n(\\sigma)/n!)^{1/n}$ lies in the range below. The %d classes fall into %d groups by their counts $a_0,\\dots,a_{%d}$, so there are at least %d c-Wilf classes.\n\\end{theorem}\n",
+	fmt.Fprintf(&b, "\n\\begin{theorem}[certified by avoidcert]\nFor each single consecutive pattern $\\sigma$ of length %d, up to reversal and complement, the growth rate\n\\[ \\lambda(\\sigma) = \\lim_{n\\to\\infty}(a_n(\\sigma)/n!)^{1/n} \\]\nlies in the range below. The %d classes fall into %d groups by their counts $a_0$ to $a_{%d}$, so there are at least %d c-Wilf classes.\n\\end{theorem}\n",
 		r.Params.Length, r.Classes, len(r.Groups), r.Params.To, len(r.Groups))
-	b.WriteString("\\begin{center}\n\\begin{tabular}{rllr}\nrank & class & $\\lambda$ & group\\\\\n\\hline\n")
+	var rows [][]string
 	for i, row := range r.Rows {
-		fmt.Fprintf(&b, "%d & %s & $[%s,\\ %s]$ & %d\\\\\n", i+1, strings.Join(row.Members, ", "), row.Lambda.Lo, row.Lambda.Hi, row.Group)
+		rows = append(rows, []string{fmt.Sprint(i + 1), texBreakable(strings.Join(row.Members, ", ")),
+			fmt.Sprintf("$[\\,%s,\\ %s\\,]$", texNumber(row.Lambda.Lo), texNumber(row.Lambda.Hi)), fmt.Sprint(row.Group)})
 	}
-	b.WriteString("\\end{tabular}\n\\end{center}\n")
-	fmt.Fprintf(&b, "\\noindent Certificates in \\texttt{\\detokenize{%s/certificates}} (SHA-256 in \\texttt{census.json}); re-check one with \\texttt{\\detokenize{%s}}.\n", filepath.ToSlash(c.Dir), c.recheck(r.Rows[0].Representative))
-	return b.String()
-}
-
-// gateNote says what the report did not do with a gate's output.
-const gateNote = "Recorded, not re-checked: the gate's own record, restated as it is in the file. This report " +
-	"did not judge these claims or check these certificates (the lines hold no claimed values), so nothing " +
-	"here is a verdict of this report. To verify, run the gate on the manifest again, or check each " +
-	"certificate with the command shown."
-
-// heading is the title of a gate's section, plain text.
-func (g *Gate) heading() string {
-	return fmt.Sprintf("Claims gate (%s), recorded, not re-checked: %s", g.Name, g.tally())
-}
-
-func (g *Gate) certificates(c GateClaim) string {
-	var parts []string
-	for _, ref := range c.Certificates {
-		parts = append(parts, fmt.Sprintf("avoidcert check %s --expect %s", shellQuote(ref.Path), shellQuote(ref.Set)))
-	}
-	return strings.Join(parts, "; ")
-}
-
-func (g *Gate) markdown() string {
-	var b strings.Builder
-	fmt.Fprintf(&b, "## %s\n\n%s\n\n| claim | kind | line | recorded verdict | recorded evidence | check the certificates with |\n|---|---|---:|---|---|---|\n", g.heading(), gateNote)
-	for _, c := range g.Claims {
-		fmt.Fprintf(&b, "| %s | %s | %d | %s | %s | %s |\n", c.ID, c.Kind, c.Line, c.Verdict, strings.ReplaceAll(c.Evidence, "|", `\|`), strings.ReplaceAll(g.certificates(c), "|", `\|`))
-	}
-	b.WriteString("\n")
-	return b.String()
-}
-
-func (g *Gate) html() string {
-	var b strings.Builder
-	fmt.Fprintf(&b, "<h2>%s</h2>\n<p>%s</p>\n<table>\n<tr><th>claim</th><th>kind</th><th>line</th><th>recorded verdict</th><th>recorded evidence</th><th>check the certificates with</th></tr>\n",
-		html.EscapeString(g.heading()), html.EscapeString(gateNote))
-	for _, c := range g.Claims {
-		v := html.EscapeString(c.Verdict)
-		if c.Verdict != string(claims.Proved) {
-			v = "<strong>" + v + "</strong>"
-		}
-		fmt.Fprintf(&b, "<tr><td>%s</td><td>%s</td><td>%d</td><td>%s</td><td>%s</td><td>%s</td></tr>\n", html.EscapeString(c.ID), html.EscapeString(c.Kind), c.Line, v, html.EscapeString(c.Evidence), html.EscapeString(g.certificates(c)))
-	}
-	b.WriteString("</table>\n")
-	return b.String()
-}
-
-func (g *Gate) tex() string {
-	var b strings.Builder
-	fmt.Fprintf(&b, "\n\\noindent %s. %s\n\\begin{center}\n\\begin{tabular}{lll}\nclaim & kind & recorded verdict\\\\\n\\hline\n", texText(g.heading()), texText(gateNote))
-	for _, c := range g.Claims {
-		fmt.Fprintf(&b, "%s & %s & %s\\\\\n", texText(c.ID), texText(c.Kind), texText(c.Verdict))
-	}
-	b.WriteString("\\end{tabular}\n\\end{center}\n")
+	b.WriteString(texTable(`@{}p{0.06\linewidth}p{0.28\linewidth}p{0.46\linewidth}p{0.08\linewidth}@{}`,
+		[]string{"rank", "class", "$\\lambda$", "group"}, rows, true))
+	fmt.Fprintf(&b, "{\\raggedright\\noindent Certificates in %s (SHA-256 in \\texttt{census.json}); re-check one with %s.\\par}\n", texCommand(filepath.ToSlash(c.Dir)+"/certificates"), texCommand(c.recheck(r.Rows[0].Representative)))
 	return b.String()
 }

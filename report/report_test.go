@@ -10,6 +10,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"strings"
+	"sync"
 	"testing"
 
 	"avoidcert/interval"
@@ -20,12 +21,18 @@ import (
 var update = flag.Bool("update", false, "rewrite the golden files")
 
 // load builds the reports of the test certificates (made with
-// "avoidcert bound 1342 --digits 12" and "... 123 --digits 12"), named as a
-// user in testdata/ would name them.
+// "avoidcert bound 1342 --digits 12", "... 123 --digits 12" and "... 1342
+// --digits 50"), named as a user in testdata/ would name them. Each is
+// built once per test binary (the figures' data take seconds to
+// recompute); tests only read them.
 func load(t *testing.T, names ...string) []*Certificate {
 	t.Helper()
 	var rs []*Certificate
 	for _, n := range names {
+		if r, ok := loaded.Load(n); ok {
+			rs = append(rs, r.(*Certificate))
+			continue
+		}
 		data, err := os.ReadFile(filepath.Join("testdata", n))
 		if err != nil {
 			t.Fatal(err)
@@ -34,10 +41,13 @@ func load(t *testing.T, names ...string) []*Certificate {
 		if err != nil {
 			t.Fatal(err)
 		}
+		loaded.Store(n, r)
 		rs = append(rs, r)
 	}
 	return rs
 }
+
+var loaded sync.Map // name -> *Certificate
 
 // goldenDocument is the test certificates, census and gate output.
 func goldenDocument(t *testing.T) *Document {
@@ -46,15 +56,32 @@ func goldenDocument(t *testing.T) *Document {
 	if err != nil {
 		t.Fatal(err)
 	}
-	gateData, err := os.ReadFile(filepath.Join("testdata", "gate.jsonl"))
-	if err != nil {
-		t.Fatal(err)
+	return &Document{Certificates: load(t, "cert-1342.json", "cert-123.json"), Censuses: []*Census{cen}, Gates: loadGates(t, "gate.jsonl", "gate-restated.jsonl")}
+}
+
+// loadGates reads gate outputs in testdata: gate.jsonl is a run of this
+// version's 'avoidcert gate --json' on the demo's manifest with
+// --certificates certs (its certificates in testdata/certs);
+// gate-restated.jsonl is a run of the gate that restates its claims
+// (format avoidcert-gate version 1, built from the branch that brings it)
+// on the demo's manifest and one claim more, a_60 of 123 (the count from
+// 'avoidcert count 123 --from 60 --to 60'), the same certificates, and one
+// edit by hand: claim 3a's certificate moved to a path that does not exist.
+func loadGates(t *testing.T, names ...string) []*Gate {
+	t.Helper()
+	var gs []*Gate
+	for _, n := range names {
+		data, err := os.ReadFile(filepath.Join("testdata", n))
+		if err != nil {
+			t.Fatal(err)
+		}
+		g, err := FromGate(context.Background(), filepath.Join("testdata", n), data)
+		if err != nil {
+			t.Fatal(err)
+		}
+		gs = append(gs, g)
 	}
-	gate, err := FromGate("gate.jsonl", gateData)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return &Document{Certificates: load(t, "cert-1342.json", "cert-123.json"), Censuses: []*Census{cen}, Gates: []*Gate{gate}}
+	return gs
 }
 
 func TestGolden(t *testing.T) {
@@ -137,15 +164,29 @@ func TestRefusesAlteredCertificate(t *testing.T) {
 }
 
 // The LaTeX fragment (every kind of input) compiles inside a minimal
-// document (no packages) when a TeX engine is installed.
+// document (no packages) when a TeX engine is installed, and everything
+// fits the page: the log has no "Overfull \hbox" (a line too wide) nor
+// "Overfull \vbox" (a table too tall for a page), although the document
+// holds a certificate to 50 digits (set whole in display math, its range
+// of lambda ran 82 mm off the page and its bound for every n 300 mm), a
+// census of 32 classes (a table longer than a page), a gate's lines with a
+// claimed count of 78 digits and a series run (nine columns ran 50 mm
+// off). CI has no TeX, so there this test skips; install
+// texlive-latex-base to run it.
 func TestTeXCompiles(t *testing.T) {
 	engine := findTool("pdflatex", "lualatex", "xelatex")
 	if engine == "" {
-		t.Skip("no TeX engine (pdflatex, lualatex, xelatex) on PATH: the LaTeX fragment is not compiled")
+		t.Skip("no TeX engine (pdflatex, lualatex, xelatex) on PATH: the LaTeX fragment is not compiled (apt-get install texlive-latex-base)")
 	}
 	dir := t.TempDir()
 	var b bytes.Buffer
 	all := goldenDocument(t)
+	all.Certificates = append(all.Certificates, load(t, "cert-1342-50.json")...)
+	cen5, err := FromCensus(context.Background(), "testdata/census-5")
+	if err != nil {
+		t.Fatal(err)
+	}
+	all.Censuses = append(all.Censuses, cen5)
 	all.Series = loadSeries(t, "series-levels.json", "series-levels-3.json")
 	if err := TeX(&b, all); err != nil {
 		t.Fatal(err)
@@ -157,6 +198,21 @@ func TestTeXCompiles(t *testing.T) {
 	cmd.Dir = dir
 	if out, err := cmd.CombinedOutput(); err != nil {
 		t.Fatalf("%s: %v\n%s", engine, err, out)
+	}
+	log, err := os.ReadFile(filepath.Join(dir, "doc.log"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, block := range strings.Split(string(log), "\n\n") {
+		if strings.Contains(block, "Overfull \\") {
+			t.Errorf("something runs off the page:\n%s", block)
+		}
+	}
+	if *update {
+		// keep the PDF beside the golden files' output, to look at
+		if pdf, err := os.ReadFile(filepath.Join(dir, "doc.pdf")); err == nil {
+			os.WriteFile(filepath.Join(os.TempDir(), "avoidcert-report-fragment.pdf"), pdf, 0o644)
+		}
 	}
 }
 
@@ -194,18 +250,22 @@ func TestCensusAndGateInputs(t *testing.T) {
 	if IsGateJSON(data) {
 		t.Error("a certificate taken for a gate's output")
 	}
-	bad := []byte(`{"id":"x","kind":"count","verdict":"proved","extra":1}`)
+	bad := []byte(`{"format":"avoidcert-gate","version":1,"id":"x","kind":"count","verdict":"proved","extra":1}`)
 	if !IsGateJSON(bad) {
 		t.Error("a gate line not recognised")
 	}
-	if _, err := FromGate("bad.jsonl", bad); err == nil {
-		t.Error("a gate line with an unknown field accepted")
+	if _, err := FromGate(context.Background(), "bad.jsonl", bad); err == nil || !strings.Contains(err.Error(), `a member "extra" that this format does not have`) {
+		t.Errorf("a gate line with an unknown field: %v", err)
+	}
+	if _, err := FromGate(context.Background(), "old.jsonl", []byte(`{"id":"x","kind":"count","verdict":"proved"}`)); err == nil || !strings.Contains(err.Error(), "an earlier gate") {
+		t.Errorf("a line of an earlier gate, without format: %v", err)
 	}
 	for _, line := range []string{
-		`{"id":"x","kind":"count","verdict":"PROVED!!"}`,
-		`{"id":"x","kind":"theorem","verdict":"proved"}`,
+		`{"format":"avoidcert-gate","version":1,"id":"x","kind":"count","verdict":"PROVED!!"}`,
+		`{"format":"avoidcert-gate","version":1,"id":"x","kind":"theorem","verdict":"proved"}`,
+		`{"format":"avoidcert-gate","version":2,"id":"x","kind":"count","verdict":"proved"}`,
 	} {
-		if _, err := FromGate("forged.jsonl", []byte(line)); err == nil {
+		if _, err := FromGate(context.Background(), "forged.jsonl", []byte(line)); err == nil {
 			t.Errorf("a gate line with a verdict or kind the gate never writes accepted: %s", line)
 		}
 	}

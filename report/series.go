@@ -15,6 +15,7 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
+	"avoidcert/internal/input"
 	"avoidcert/interval"
 	"avoidcert/pattern"
 	"avoidcert/prob"
@@ -42,8 +43,10 @@ type Series struct {
 	Run  series.Run
 	// Avoidance[i] is item i's avoidance probability derived here (exact,
 	// or from a certificate the checker accepted while the report was
-	// made), "" for items seen at least once.
+	// made), "" for items seen at least once; Derived[i] the same as data
+	// (nil for those items).
 	Avoidance []string
+	Derived   []*series.Avoidance
 }
 
 // IsSeriesJSON reports whether data is the JSON of 'avoidcert series'.
@@ -70,7 +73,7 @@ func FromSeries(ctx context.Context, name string, data []byte) (*Series, error) 
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(&s.Run); err != nil {
-		return nil, fmt.Errorf("%s: not the JSON of 'avoidcert series': %v", name, err)
+		return nil, fmt.Errorf("%s: not the JSON of 'avoidcert series': %s", name, input.JSONProblem(err))
 	}
 	r := &s.Run
 	switch {
@@ -81,7 +84,7 @@ func FromSeries(ctx context.Context, name string, data []byte) (*Series, error) 
 	}
 	lengths := prob.Interleave(int(r.Input.Values), r.Delay)
 	for _, it := range r.Items {
-		set, err := pattern.ParseSet(it.Members)
+		set, err := pattern.ParseSet(it.Patterns)
 		if err != nil {
 			return nil, fmt.Errorf("%s: pattern %s: %v", name, it.Pattern, err)
 		}
@@ -90,6 +93,7 @@ func FromSeries(ctx context.Context, name string, data []byte) (*Series, error) 
 			return nil, fmt.Errorf("%s: pattern %s: the recorded mean %s and variance %s are not those of %d values with delay %d (%s and %s): edited, or from another version",
 				name, it.Pattern, it.Mean, it.Variance, r.Input.Values, r.Delay, m.Mean.RatString(), m.Variance.RatString())
 		}
+		var d *series.Avoidance
 		av := ""
 		if it.Observed == 0 && it.Avoidance != nil {
 			a, err := prob.AvoidAll(ctx, set, lengths, prob.ExactMemory, 1e-6, prove.Options{})
@@ -97,12 +101,15 @@ func FromSeries(ctx context.Context, name string, data []byte) (*Series, error) 
 				return nil, fmt.Errorf("%s: pattern %s: %v", name, it.Pattern, err)
 			}
 			if a.Exact != nil {
-				av = fmt.Sprintf("[%s, %s], exact (counted by the engine and the checker, agreeing)", interval.DecimalDown(a.Exact, seriesDigits), interval.DecimalUp(a.Exact, seriesDigits))
+				d = &series.Avoidance{Method: "exact", Lo: interval.DecimalDown(a.Exact, seriesDigits), Hi: interval.DecimalUp(a.Exact, seriesDigits),
+					Note: "counted by the engine and the checker, agreeing"}
 			} else {
-				av = fmt.Sprintf("[%s, %s], certified (from a certificate the checker accepted while this report was made)", a.Interval.Lo.Decimal(seriesDigits, false), a.Interval.Hi.Decimal(seriesDigits, true))
+				d = &series.Avoidance{Method: "certified", Lo: a.Interval.Lo.Decimal(seriesDigits, false), Hi: a.Interval.Hi.Decimal(seriesDigits, true),
+					Note: "from a certificate the checker accepted while this report was made"}
 			}
+			av = fmt.Sprintf("[%s, %s], %s (%s)", d.Lo, d.Hi, d.Method, d.Note)
 		}
-		s.Avoidance = append(s.Avoidance, av)
+		s.Avoidance, s.Derived = append(s.Avoidance, av), append(s.Derived, d)
 	}
 	return s, nil
 }
@@ -210,15 +217,19 @@ func (s *Series) html() (string, error) {
 func (s *Series) tex() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "\n\\paragraph{%s.}\n%s\n", texText(s.title()), texText(seriesNote))
-	b.WriteString("\\begin{center}\n\\begin{tabular}{lrrrrllll}\npattern & windows & observed & mean & sd & $P(X \\le x)$ & $P(X \\ge x)$ & tails & 95\\% range\\\\\n\\hline\n")
+	// two tables of five columns each: nine side by side do not fit a page
+	var counts, tails [][]string
 	for _, row := range s.rows() {
 		cells := make([]string, len(row))
 		for i, c := range row {
-			cells[i] = texText(c)
+			cells[i] = texWords(c)
 		}
-		b.WriteString(strings.Join(cells, " & ") + "\\\\\n")
+		counts = append(counts, cells[:5])
+		tails = append(tails, append([]string{cells[0]}, cells[5:]...))
 	}
-	b.WriteString("\\end{tabular}\n\\end{center}\n")
+	b.WriteString(texTable("lrrrr", []string{"pattern", "windows", "observed", "mean", "sd"}, counts, false))
+	b.WriteString(texTable(`@{}p{0.12\linewidth}p{0.22\linewidth}p{0.22\linewidth}p{0.14\linewidth}p{0.16\linewidth}@{}`,
+		[]string{"pattern", "$P(X \\le x)$", "$P(X \\ge x)$", "tails", "95\\% range"}, tails, true))
 	for _, l := range s.avoidanceLines() {
 		fmt.Fprintf(&b, "\\noindent %s.\n\n", texText(l))
 	}
@@ -295,17 +306,9 @@ func (s *Series) figure() (*plot.Plot, error) {
 	sc.GlyphStyle.Color = color.RGBA{R: 20, G: 20, B: 20, A: 255}
 	p.Add(sc)
 	p.Legend.Add("exact mean", sc)
-	switch {
-	case len(items) <= 12:
-		p.NominalX(names...)
-	case len(items) <= 60:
-		p.NominalX(names...)
-		p.X.Tick.Label.Rotation = math.Pi / 2
-		p.X.Tick.Label.XAlign, p.X.Tick.Label.YAlign = draw.XRight, draw.YCenter
-	default:
+	if !nameAxis(p, names) {
 		p.X.Label.Text = "pattern, by lexicographic rank (names in the table)"
 	}
-	// room above the bars for the legend
 	top := 0.0
 	for i, it := range items {
 		top = math.Max(top, math.Max(observed[i], means[i].Y))
@@ -313,8 +316,7 @@ func (s *Series) figure() (*plot.Plot, error) {
 			top = math.Max(top, float64(c.Hi))
 		}
 	}
-	p.Y.Min, p.Y.Max = 0, math.Max(1, top*1.35)
-	p.Legend.Top = true
+	p.Y.Min, p.Y.Max = 0, math.Max(1, top*1.05)
 	p.Add(plotter.NewGrid())
 	return p, nil
 }

@@ -50,7 +50,8 @@ func TestSeriesRefused(t *testing.T) {
 	for _, tc := range []struct{ old, new, want string }{
 		{`"mean":"5/6"`, `"mean":"6/7"`, "edited, or from another version"},
 		{`"values":7`, `"values":8`, "edited, or from another version"},
-		{`"version":1`, `"version":2`, "version 2"},
+		{`"version":2`, `"version":1`, "version 1"},
+		{`"version":2`, `"version":3`, "version 3"},
 		{`"delay":1`, `"delay":1,"extra":true`, "not the JSON of"},
 	} {
 		bad := strings.Replace(string(data), tc.old, tc.new, 1)

@@ -7,7 +7,7 @@ package series
 // RunFormat and RunVersion name the JSON of a series run.
 const (
 	RunFormat  = "avoidcert-series"
-	RunVersion = 1
+	RunVersion = 2 // 2: an item's set is "patterns" (was "members")
 )
 
 // Run is one run: the input, the ties, one Item per pattern, the notes.
@@ -50,7 +50,7 @@ type TiedLines struct {
 // Item is one pattern (or set) of a run.
 type Item struct {
 	Pattern     string     `json:"pattern"`
-	Members     []string   `json:"members"`
+	Patterns    []string   `json:"patterns"` // the set's patterns
 	Windows     int64      `json:"windows"`
 	Observed    int64      `json:"observed"`
 	Mean        string     `json:"mean"`     // exact fraction

@@ -42,19 +42,23 @@ Flags:
   --width W           absolute width target instead, e.g. 1e-20 (not with --digits)
   --out FILE          certificate path (default avoidcert-SET.json); see below
   --no-certificate    write no certificate
-  --json              {"patterns":[...],"class":...,"primitivity_exponent":k,
-                      "period":p,"finite_from":N1,"lambda":{"lo","hi"},"radius":{...},"k":K,"digits":D,
-                      "all_n":{"n0","a_n0","lo","hi"},"estimates":{"note":
-                      "estimate, not certified",...},"stop":...,"certificate":PATH}
+  --json              {"format":"avoidcert-bound","version":1,"patterns":[...],
+                      "structure_class":...,"primitivity_exponent":k,"period":p,
+                      "finite_from":N1,"lambda":{"lo","hi"},"radius":{...},"k":K,
+                      "lambda_digits":D,"all_n":{"n0","a_n0","lo","hi"},
+                      "estimates":{"note":"estimate, not certified",...},
+                      "stop":...,"certificate":PATH} (docs/json.md)
   --max-k K           stop at this k (default 1000, the checker's limit)
   --max-memory B      stop before a step that would need more (default 8G)
   --timeout T         stop the bracket after this long, e.g. 90s or 10m, and
-                      certify the best one (default none)
+                      certify the best one (default none; 0s is refused)
   --progress          one line per bracket on stderr (for logs)
-  --quiet             no live progress bar (shown on a terminal by default)
+  --quiet             no live progress bar (shown on a terminal by default);
+                      not with --progress
 
 The certificate file: a regular file is replaced atomically (temp file
-.NAME.avoidcert-tmp-PID-DIGITS beside it, then a rename); a symbolic link is
+.NAME.avoidcert-tmp-PID-DIGITS beside it, then a rename), a new one is
+created in an existing folder (a missing folder is refused); a symbolic link is
 written through to its target, which must be a regular file or missing in an
 existing folder; a folder, device, FIFO or socket is refused before any work.
 A temp file left by a killed run is removed by a later write of that NAME
@@ -115,8 +119,8 @@ func (b *budget) validate(cmd string) error {
 		return usagef("%s: --max-k must be at least 1", cmd)
 	case b.maxK > certify.MaxN:
 		return usagef("%s: --max-k %d is over %d, the largest k a certificate checker accepts", cmd, b.maxK, certify.MaxN)
-	case b.timeout < 0:
-		return usagef("%s: --timeout must not be negative", cmd)
+	case b.progress && b.quiet:
+		return usagef("%s: give --progress (lines for logs) or --quiet (no progress at all), not both", cmd)
 	}
 	return nil
 }
@@ -392,15 +396,16 @@ func digitWords(x bounds.Enclosure, digits int) string {
 
 // boundJSON is the --json output of bound.
 type boundJSON struct {
+	jsonHead
 	Patterns    []string       `json:"patterns"`
-	Class       string         `json:"class"`
+	Class       string         `json:"structure_class"`
 	Exponent    *int           `json:"primitivity_exponent"`
 	Period      *int           `json:"period"`
 	FiniteFrom  *int           `json:"finite_from"`
 	Lambda      endsJSON       `json:"lambda"`
 	Radius      endsJSON       `json:"radius"`
 	K           int            `json:"k"`
-	Digits      int            `json:"digits"`
+	Digits      int            `json:"lambda_digits"`
 	AllN        *allNJSON      `json:"all_n"`
 	Estimates   *estimatesJSON `json:"estimates"`
 	Stop        string         `json:"stop"`
@@ -445,7 +450,7 @@ func ends(x bounds.Enclosure, digits int) endsJSON {
 func writeBoundJSON(w io.Writer, r *prove.Result, dest *outFile) {
 	res := r.Bracket
 	lambda, radius, digits, agreed := certified(r.Certificate)
-	out := boundJSON{Patterns: r.Set.Strings(), Class: string(prove.FormOf(r.Certificate).Class),
+	out := boundJSON{jsonHead: headOf("bound"), Patterns: r.Set.Strings(), Class: string(prove.FormOf(r.Certificate).Class),
 		Lambda: ends(lambda, digits), Radius: ends(radius, digits), K: r.K(), Digits: min(agreed, 1000),
 		Stop: string(res.Stop), Seconds: res.Elapsed.Seconds()}
 	out.Exponent, out.Period, out.FiniteFrom = classNumbers(r.Certificate.Structure)

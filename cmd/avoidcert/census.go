@@ -54,7 +54,8 @@ Flags:
   --digits D         significant digits of lambda to certify (default 10)
   --refine-digits R  the most digits a class is bracketed at to order its
                      group (default 2D; R = D orders at D digits only)
-  --out DIR          output folder (default census-K, or census-K-shard-I-of-N)
+  --out DIR          output folder (default census-K, or census-K-shard-I-of-N),
+                     created if missing in an existing folder
   --jobs J           classes certified at once (default: the number of CPUs)
   --shard I/N        only the I-th of N slices of the classes (1 <= I <= N),
                      for a cluster job array; merge the N folders afterwards
@@ -63,6 +64,8 @@ Flags:
                      class's counting, structure test, bracket and check are
                      held to B/J
   --quiet            no progress bar (it is shown only when stderr is a terminal)
+  --json             print the census (the content of DIR/census.json, format
+                     avoidcert-census; docs/json.md) instead of the summary
 
 merge combines the folders of all N shards of one census into DIR (default
 census-K), refines the order of the groups as an unsharded run does, and
@@ -75,7 +78,7 @@ order and groups what its rows give; otherwise the merge is refused (exit
 1, naming the shard, the row and the field) and nothing is written. It
 refuses shards of different parameters and a missing or duplicated shard or
 class (exit 2). Merge flags: --out DIR, --jobs J (certificates checked and
-classes refined at once), --max-memory B, --quiet.
+classes refined at once), --max-memory B, --quiet, --json.
 
 A journal is untrusted too: a continued run re-checks the certificate of
 every class in the journal and does a class again whose record its
@@ -105,6 +108,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	jobs := fs.Int("jobs", runtime.NumCPU(), "")
 	shardFlag := fs.String("shard", "", "")
 	quiet := fs.Bool("quiet", false, "")
+	asJSON := fs.Bool("json", false, "")
 	maxMemory := byteSize(8 << 30)
 	fs.Var(&maxMemory, "max-memory", "")
 	pos, err := parseArgs(fs, args)
@@ -117,7 +121,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	params := census.Params{Length: *length, To: *to, Digits: *digits, RefineDigits: *refineDigits}
 	switch {
 	case len(pos) > 0:
-		return failure(e, usagef("census: unexpected argument %q; the census takes flags only (or 'census merge DIR...')", pos[0]))
+		return failure(e, usagef("census: %s is not a flag; the census takes flags only (or 'census merge DIR...')", quote(pos[0])))
 	case *length == 0:
 		return failure(e, usagef("census: --length is required, e.g. 'avoidcert census --length 5'"))
 	case *jobs < 1:
@@ -141,6 +145,9 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 			dir += fmt.Sprintf("-shard-%d-of-%d", shard.Index, shard.Of)
 		}
 	}
+	if err := openOutDir("census", "--out", dir, false); err != nil {
+		return failure(e, err)
+	}
 	limitMemory(int64(maxMemory))
 	worker := int64(maxMemory) / int64(*jobs)
 	plan := census.EstimateRun(params, shard, *jobs, worker)
@@ -148,6 +155,9 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 		fmt.Fprintf(e.stderr, "avoidcert: census: undecided: class %s: %s needs %s, over the memory budget of one worker (%s: --max-memory %s shared by --jobs %d); raise --max-memory, lower --jobs or --to; nothing was done\n",
 			class, what, bytesize.About(need), bytesize.Format(worker), bytesize.Format(int64(maxMemory)), *jobs)
 		return exitUndecided
+	}
+	if err := openOutDir("census", "--out", dir, true); err != nil {
+		return failure(e, err)
 	}
 	fmt.Fprintf(e.stderr, "avoidcert: census of length %d, %d classes in %s: %s\n", *length, len(plan.Classes), dir, plan.Summary())
 	bar := newCensusBar(ctx, e, *quiet)
@@ -172,7 +182,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return censusFailure(e, dir, err)
 	}
-	writeCensusSummary(e, dir, rep)
+	writeCensusSummary(e, dir, rep, *asJSON)
 	return exitOK
 }
 
@@ -220,8 +230,8 @@ func censusFailure(e *env, dir string, err error) int {
 		fmt.Fprintf(e.stderr, "avoidcert: census interrupted; finished classes are kept in %s: run the same command again to continue\n",
 			filepath.Join(dir, "journal"))
 	default:
-		fmt.Fprintf(e.stderr, "avoidcert: census: %v\nfinished classes are kept in %s: run the same command again to continue\n",
-			err, filepath.Join(dir, "journal"))
+		fmt.Fprintf(e.stderr, "avoidcert: census: %s; finished classes are kept in %s: run the same command again to continue\n",
+			ownWords(err.Error()), filepath.Join(dir, "journal"))
 	}
 	return exitAborted
 }
@@ -231,6 +241,7 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	out := fs.String("out", "", "")
 	jobs := fs.Int("jobs", runtime.NumCPU(), "")
 	quiet := fs.Bool("quiet", false, "")
+	asJSON := fs.Bool("json", false, "")
 	maxMemory := byteSize(8 << 30)
 	fs.Var(&maxMemory, "max-memory", "")
 	dirs, err := parseArgs(fs, args)
@@ -251,6 +262,9 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 		}
 		dir = "census-" + strconv.Itoa(rep.Params.Length)
 	}
+	if err := openOutDir("census merge", "--out", dir, false); err != nil {
+		return failure(e, err)
+	}
 	limitMemory(int64(maxMemory))
 	worker := int64(maxMemory) / int64(*jobs)
 	bar := newCensusBar(ctx, e, *quiet)
@@ -264,7 +278,7 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return censusMergeFailure(e, err)
 	}
-	writeCensusSummary(e, dir, rep)
+	writeCensusSummary(e, dir, rep, *asJSON)
 	return exitOK
 }
 
@@ -278,7 +292,7 @@ func censusMergeFailure(e *env, err error) int {
 	case errors.As(err, &in):
 		return failure(e, usagef("census merge: %v", err))
 	case errors.As(err, &refused):
-		fmt.Fprintf(e.stderr, "avoidcert: census merge: refused: %v; nothing was written\n", err)
+		fmt.Fprintf(e.stderr, "avoidcert: census merge: refused: %s; nothing was written\n", ownWords(err.Error()))
 		return exitFailed
 	case errors.Is(err, prove.ErrBudget):
 		fmt.Fprintf(e.stderr, "avoidcert: census merge: undecided: %v; raise --max-memory (shared by the --jobs workers) or lower --jobs\n", err)
@@ -287,7 +301,14 @@ func censusMergeFailure(e *env, err error) int {
 	return failure(e, err)
 }
 
-func writeCensusSummary(e *env, dir string, rep *census.Report) {
+// writeCensusSummary says what the census holds and where, or with
+// asJSON prints the census itself: the content of DIR/census.json, on one
+// line.
+func writeCensusSummary(e *env, dir string, rep *census.Report, asJSON bool) {
+	if asJSON {
+		writeJSON(e.stdout, rep)
+		return
+	}
 	strict, proved, digits := 0, 0, 0
 	for _, s := range rep.Order {
 		if s.Relation == ">" {

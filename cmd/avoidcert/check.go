@@ -31,13 +31,16 @@ Flags:
                       123 321 after the flag); a certificate for any other
                       set is invalid. Repeating the flag adds to the set:
                       --expect 123 --expect 321 is {123, 321}. Without it,
-                      any set is accepted: say which set you expect
+                      any set is accepted, and check says so on stderr (and
+                      in the JSON's "warning"): say which set you expect
                       whenever you know it.
-  --json              {"verdict":"valid"|"invalid"|"undecided","reason":...,
-                      "patterns":[...],"class":...,"primitivity_exponent":k,
-                      "period":p,"finite_from":N1,"blocks":[[...]],
-                      "lambda_status":...,"lambda":{"lo","hi"},"radius":{...},"n":[...],
-                      "all_n":{"n0","a_n0","lo","hi"}}
+  --json              {"format":"avoidcert-check","version":1,"verdict":"valid"|
+                      "invalid"|"undecided","reason":...,"expected":[...]|null,
+                      "warning":...,"patterns":[...],"structure_class":...,
+                      "primitivity_exponent":k,"period":p,"finite_from":N1,
+                      "blocks":[[...]],"lambda_status":...,"cyclic_avoider":...,
+                      "lambda":{"lo","hi"},"radius":{...},"brackets":[{"n",
+                      "statement"}],"all_n":{"n0","a_n0","lo","hi"}} (docs/json.md)
   --max-work N        refuse certificates whose recomputation is estimated
                       above N coefficient operations (default 1e12; the
                       memory limit is what binds in practice); values from
@@ -82,15 +85,19 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
+	if *progress && *quiet {
+		return failure(e, usagef("check: give --progress (lines for logs) or --quiet (no progress at all), not both"))
+	}
 	// "check FILE --expect 123 321": patterns after the file belong to --expect.
 	if len(pos) == 0 || (len(pos) > 1 && len(expect) == 0) {
 		return failure(e, usagef("check: name exactly one certificate file, e.g. 'avoidcert check avoidcert-1342.json'"))
 	}
 	var opts certify.CheckOptions
+	var expected []string // the expected set as the checker reads it
 	if len(expect) > 0 {
 		// The expected set is read by the checker's parser alone.
 		given := append(expect, pos[1:]...)
-		if _, err := certify.ParsePatterns(given); err != nil {
+		if expected, err = certify.ParsePatterns(given); err != nil {
 			return failure(e, usagef("check: --expect: %v", err))
 		}
 		opts.Expect = given
@@ -103,9 +110,13 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
+	if opts.Expect == nil {
+		fmt.Fprintf(e.stderr, "avoidcert: check: %s\n", unbound)
+	}
+	out := checkOutput{asJSON: *asJSON, expect: expected}
 	cert, err := certify.Read(bytes.NewReader(data))
 	if err != nil {
-		return checkVerdict(e, *asJSON, nil, err)
+		return out.verdict(e, nil, err)
 	}
 	var bar *liveBar // drawn from the first report on: a refusal before the work draws nothing
 	switch {
@@ -132,10 +143,13 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 		if limit.Resource == "memory" {
 			flag, now = "--max-memory", bytesize.Format(opts.MaxMemory)
 		}
-		return checkUndecided(e, *asJSON, cert, fmt.Sprintf("%v; raise %s (now %s) to check it", err, flag, now))
+		return out.undecided(e, cert, fmt.Sprintf("%v; raise %s (now %s) to check it", err, flag, now))
 	}
-	return checkVerdict(e, *asJSON, cert, err)
+	return out.verdict(e, cert, err)
 }
+
+// unbound says what a check without --expect leaves out.
+const unbound = "not bound to a set: without --expect, a valid certificate for any set passes; add --expect PATTERN... with the set you expect"
 
 // workLimit converts --max-work to the checker's count of operations. A
 // value above the largest count (about 9.2e18, "inf" included) is clamped
@@ -167,10 +181,29 @@ func readCertificateInput(ctx context.Context, path string) ([]byte, error) {
 	return data, err
 }
 
-// checkUndecided reports a certificate over the limits: exit 3.
-func checkUndecided(e *env, asJSON bool, cert *certify.Certificate, reason string) int {
-	if asJSON {
-		writeJSON(e.stdout, checkJSON{Verdict: "undecided", Reason: reason, Patterns: cert.Statement.Patterns})
+// checkOutput is how check reports: text or JSON, and the set --expect
+// named, as the checker's parser reads it (nil without --expect).
+type checkOutput struct {
+	asJSON bool
+	expect []string
+}
+
+// head starts the JSON output: the format, the verdict, and the set the
+// check was bound to, or a warning that it was bound to none.
+func (o checkOutput) head(verdict, reason string) checkJSON {
+	j := checkJSON{jsonHead: headOf("check"), Verdict: verdict, Reason: reason, Expected: o.expect}
+	if o.expect == nil {
+		j.Warning = unbound
+	}
+	return j
+}
+
+// undecided reports a certificate over the limits: exit 3.
+func (o checkOutput) undecided(e *env, cert *certify.Certificate, reason string) int {
+	if o.asJSON {
+		j := o.head("undecided", reason)
+		j.Patterns = cert.Statement.Patterns
+		writeJSON(e.stdout, j)
 	} else {
 		fmt.Fprintf(e.stdout, "undecided: %s\n", reason)
 	}
@@ -178,30 +211,42 @@ func checkUndecided(e *env, asJSON bool, cert *certify.Certificate, reason strin
 }
 
 // checkJSON is the --json output of check: the verdict and, when valid,
-// what the certificate proves.
+// what the certificate proves, every value from certify.Summarize (the
+// checker's own statement of the accepted certificate).
 type checkJSON struct {
-	Verdict  string    `json:"verdict"`
-	Reason   string    `json:"reason,omitempty"`
-	Patterns []string  `json:"patterns"`
-	Class    *string   `json:"class"`
-	Exponent *int      `json:"primitivity_exponent"`
-	Period   *int      `json:"period"`
-	N1       *int      `json:"finite_from"`
-	Blocks   [][]int   `json:"blocks"`
-	LambdaSt *string   `json:"lambda_status"`
-	Lambda   *endsJSON `json:"lambda"`
-	Radius   *endsJSON `json:"radius"`
-	N        []int     `json:"n"`
-	AllN     *allNJSON `json:"all_n"`
+	jsonHead
+	Verdict  string        `json:"verdict"`
+	Reason   string        `json:"reason,omitempty"`
+	Expected []string      `json:"expected"`
+	Warning  string        `json:"warning,omitempty"`
+	Patterns []string      `json:"patterns"`
+	Class    *string       `json:"structure_class"`
+	Exponent *int          `json:"primitivity_exponent"`
+	Period   *int          `json:"period"`
+	N1       *int          `json:"finite_from"`
+	Blocks   [][]int       `json:"blocks"`
+	LambdaSt *string       `json:"lambda_status"`
+	Avoider  *string       `json:"cyclic_avoider"`
+	Lambda   *endsJSON     `json:"lambda"`
+	Radius   *endsJSON     `json:"radius"`
+	Brackets []bracketJSON `json:"brackets"`
+	AllN     *allNJSON     `json:"all_n"`
 }
 
-// checkVerdict prints valid (with what was verified) or invalid. Every
+// bracketJSON is one verified bracket: its n and the checker's statement
+// of it.
+type bracketJSON struct {
+	N         int    `json:"n"`
+	Statement string `json:"statement"`
+}
+
+// verdict prints valid (with what was verified) or invalid. Every
 // statement printed as verified is the checker's own (certify.Summarize
 // of the accepted certificate).
-func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int {
+func (o checkOutput) verdict(e *env, cert *certify.Certificate, err error) int {
 	if err != nil {
-		if asJSON {
-			out := checkJSON{Verdict: "invalid", Reason: err.Error()}
+		if o.asJSON {
+			out := o.head("invalid", err.Error())
 			if cert != nil {
 				out.Patterns = cert.Statement.Patterns
 			}
@@ -212,19 +257,18 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 		return exitFailed
 	}
 	v := certify.Summarize(cert)
-	if !asJSON {
+	if !o.asJSON {
 		fmt.Fprintln(e.stdout, "valid")
 		for _, line := range v.Lines() {
 			fmt.Fprintln(e.stdout, "verified: "+line)
 		}
 		return exitOK
 	}
-	out := checkJSON{Verdict: "valid", Patterns: v.Patterns, N: v.N,
-		Lambda: &endsJSON{Lo: nonEmpty(v.Lambda[0]), Hi: nonEmpty(v.Lambda[1])},
-		Radius: &endsJSON{Lo: nonEmpty(v.Radius[0]), Hi: nonEmpty(v.Radius[1])}}
-	if v.Class != "" {
-		out.Class = &v.Class
-	}
+	out := o.head("valid", "")
+	out.Patterns = v.Patterns
+	out.Lambda = &endsJSON{Lo: nonEmpty(v.Lambda[0]), Hi: nonEmpty(v.Lambda[1])}
+	out.Radius = &endsJSON{Lo: nonEmpty(v.Radius[0]), Hi: nonEmpty(v.Radius[1])}
+	out.Class, out.LambdaSt, out.Avoider = nonEmpty(v.Class), nonEmpty(v.LambdaStatus), nonEmpty(v.CyclicAvoider)
 	if v.Exponent > 0 {
 		out.Exponent = &v.Exponent
 	}
@@ -235,8 +279,8 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 		out.N1 = &v.N1
 	}
 	out.Blocks = v.Blocks
-	if v.LambdaStatus != "" {
-		out.LambdaSt = &v.LambdaStatus
+	for i, n := range v.N {
+		out.Brackets = append(out.Brackets, bracketJSON{N: n, Statement: v.Brackets[i]})
 	}
 	if a := v.AllN; a != nil {
 		out.AllN = &allNJSON{N0: a.N0, AN0: a.AN0, Lo: nonEmpty(a.Lo), Hi: nonEmpty(a.Hi)}

@@ -33,9 +33,10 @@ Flags:
   --value X        a claimed decimal
   --truncated      read --value as truncated, not rounded
   --interval L,H   a claimed closed interval
-  --json           {"patterns":[...],"class":...,"quantity":...,"claim":{"lo","hi"},
+  --json           {"format":"avoidcert-claim","version":1,"patterns":[...],
+                   "structure_class":...,"quantity":...,"claimed":{"lo","hi"},
                    "certified":{"lo","hi"},"k":K,"verdict":"proved"|"refuted"|
-                   "undecided","reason":...,"seconds":S}
+                   "undecided","evidence":...,"seconds":S} (docs/json.md)
   --max-k K, --max-memory B, --timeout T   budgets, as for bound
   --progress, --quiet                       progress, as for bound
 
@@ -91,16 +92,17 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	verdict, reason, _ := strings.Cut(words, ":")
 	if *asJSON {
 		writeJSON(e.stdout, struct {
+			jsonHead
 			Patterns  []string `json:"patterns"`
-			Class     string   `json:"class"`
+			Class     string   `json:"structure_class"`
 			Quantity  string   `json:"quantity"`
-			Claim     endsJSON `json:"claim"`
+			Claimed   endsJSON `json:"claimed"`
 			Certified endsJSON `json:"certified"`
 			K         int      `json:"k"`
 			Verdict   string   `json:"verdict"`
-			Reason    string   `json:"reason"`
+			Evidence  string   `json:"evidence"`
 			Seconds   float64  `json:"seconds"`
-		}{set.Strings(), string(prove.FormOf(j.Certificate).Class), string(quantity),
+		}{headOf("claim"), set.Strings(), string(prove.FormOf(j.Certificate).Class), string(quantity),
 			ends(bounds.Enclosure{Lo: claimed.Lo, Hi: claimed.Hi}, digits), ends(j.Certified, digits),
 			j.K(), verdict, strings.TrimSpace(reason), res.Elapsed.Seconds()})
 		return code

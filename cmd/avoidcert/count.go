@@ -16,7 +16,7 @@ import (
 func init() {
 	commands["count"] = command{
 		summary: "exact counts a_n and probabilities a_n/n!",
-		usage: `Usage: avoidcert count [--from N] [--to N] [--format text|csv|json] PATTERN...
+		usage: `Usage: avoidcert count [--from N] [--to N] [--format text|csv|json | --json] PATTERN...
 
 Prints, for n = from..to, the number a_n of permutations of 1..n that avoid
 every pattern consecutively, and a_n/n!: the probability that n i.i.d.
@@ -28,7 +28,8 @@ Flags:
   --format F        text (a table; a_n/n! rounded to 10 significant digits),
                     csv (header n,count,probability; probability as an exact
                     fraction p/q) or json (counts as decimal strings,
-                    probability as an exact fraction)
+                    probability as an exact fraction; docs/json.md)
+  --json            the same as --format json
   --max-memory B    refuse runs estimated to need more memory (default 8G)
   --progress        report each iterate on stderr
   --verbose         say which patterns were dropped as duplicates or redundant
@@ -45,6 +46,7 @@ func runCount(ctx context.Context, e *env, args []string) int {
 	from := fs.Int("from", 0, "")
 	to := fs.Int("to", 20, "")
 	format := fs.String("format", "text", "")
+	asJSON := fs.Bool("json", false, "")
 	maxMem := byteSize(8 << 30)
 	fs.Var(&maxMem, "max-memory", "")
 	progress := fs.Bool("progress", false, "")
@@ -56,6 +58,12 @@ func runCount(ctx context.Context, e *env, args []string) int {
 	set, err := parsePatterns("count", pos)
 	if err != nil {
 		return failure(e, err)
+	}
+	if *asJSON {
+		if *format != "text" && *format != "json" {
+			return failure(e, usagef("count: give --json or --format %s, not both", quote(*format)))
+		}
+		*format = "json"
 	}
 	switch {
 	case *from < 0 || *to < 0:
@@ -138,10 +146,11 @@ func writeCountsJSON(e *env, s pattern.Set, rows []countRow) {
 		Probability string `json:"probability"`
 	}
 	out := struct {
+		jsonHead
 		Patterns []string `json:"patterns"`
 		Window   int      `json:"window"`
 		Counts   []entry  `json:"counts"`
-	}{Patterns: s.Strings(), Window: s.Window(), Counts: []entry{}}
+	}{jsonHead: headOf("count"), Patterns: s.Strings(), Window: s.Window(), Counts: []entry{}}
 	for _, r := range rows {
 		out.Counts = append(out.Counts, entry{N: r.n, Count: r.count.String(), Probability: r.prob.RatString()})
 	}

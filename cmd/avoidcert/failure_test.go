@@ -80,3 +80,21 @@ func TestCancellable(t *testing.T) {
 		t.Fatalf("a panic in the work: exit %d, %q", code, stderr.String())
 	}
 }
+
+// Messages lose the prefixes of internal packages, and keep the command's
+// name where a command shares a package's name.
+func TestOwnWords(t *testing.T) {
+	for in, want := range map[string]string{
+		"prove: the certificate built for 123 did not pass the checker": "the certificate built for 123 did not pass the checker",
+		"claim: --value: interval: cannot read \"x\" as a decimal":      "claim: --value: cannot read \"x\" as a decimal",
+		"census: cannot create the census folder x":                     "census: cannot create the census folder x",
+		"report: a.json: bounds: stopped before the first bracket":      "report: a.json: stopped before the first bracket",
+		"census merge: shard x: census: not a census file":              "census merge: shard x: not a census file",
+		"structure: bounds: prove: over the budget":                     "structure: over the budget",
+		"lambda.lo: 0.5, but its checked certificate states 0.6":        "lambda.lo: 0.5, but its checked certificate states 0.6",
+	} {
+		if got := ownWords(in); got != want {
+			t.Errorf("ownWords(%q) = %q, want %q", in, got, want)
+		}
+	}
+}

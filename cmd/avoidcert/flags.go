@@ -28,7 +28,7 @@ func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 	var positional []string
 	for {
 		if err := fs.Parse(args); err != nil {
-			return nil, usagef("%s: %s; run 'avoidcert help %s'", fs.Name(), asTyped(fs, err.Error(), args), fs.Name())
+			return nil, usagef("%s: %s; run 'avoidcert help %s'", fs.Name(), flagProblem(fs, err, args), fs.Name())
 		}
 		rest := fs.Args()
 		if len(rest) == 0 {
@@ -77,58 +77,100 @@ type byteSize int64
 
 func (b *byteSize) String() string { return strconv.FormatInt(int64(*b), 10) }
 
+// Set reads a memory size and refuses one larger than the memory this
+// process can have (machineMemory): such a budget would promise what the
+// machine cannot give, and the run would fail on it instead of stopping
+// within it.
 func (b *byteSize) Set(s string) error {
 	v, err := bytesize.Parse(s)
 	if err != nil {
 		return err
 	}
+	if have, what, ok := machineMemory(); ok && v > have {
+		return fmt.Errorf("more than %s (%s); give at most %s", what, bytesize.Format(have), sizeFlag(have))
+	}
 	*b = byteSize(v)
 	return nil
 }
 
-// flagInMessage finds the flag name in the flag package's messages, which
-// always write it with one dash ("flag provided but not defined: -to").
-var flagInMessage = regexp.MustCompile(`(flag(?: provided but not defined:| needs an argument:)? |value .* for )-([A-Za-z0-9][A-Za-z0-9-]*)`)
+// sizeFlag writes n bytes as a --max-memory value, rounded down to whole
+// MiB or GiB.
+func sizeFlag(n int64) string {
+	if n >= 1<<30 {
+		return strconv.FormatInt(n>>30, 10) + "G"
+	}
+	return strconv.FormatInt(max(n>>20, 1), 10) + "M"
+}
 
-// valueInMessage finds the value the flag package quotes in full.
-var valueInMessage = regexp.MustCompile(`^invalid value (".*") for `)
+// The flag package's messages, read so that the command can say the same
+// in its own words: the flag named as the user typed it ("--to", where
+// the package writes "-to"), the value quoted short, what the flag wants.
+var (
+	undefinedFlag = regexp.MustCompile(`^flag provided but not defined: -(.*)$`)
+	missingValue  = regexp.MustCompile(`^flag needs an argument: -(.*)$`)
+	badValue      = regexp.MustCompile(`^invalid (?:boolean )?value ("(?:[^"\\]|\\.)*") for (?:flag )?-([A-Za-z0-9][A-Za-z0-9-]*): (.*)$`)
+	badSyntax     = regexp.MustCompile(`^bad flag syntax: (.*)$`)
+)
 
-// asTyped rewrites a flag error to name the flag as the user typed it
-// ("--to" rather than the flag package's "-to"), found in args, to cut the
-// value quoted to a few dozen characters, and to say what a number flag
-// wants instead of "parse error".
-func asTyped(fs *flag.FlagSet, msg string, args []string) string {
-	if sub := flagInMessage.FindStringSubmatch(msg); sub != nil && strings.HasSuffix(msg, ": parse error") {
-		if f := fs.Lookup(sub[2]); f != nil {
-			want := "a number"
+// flagProblem turns an error of the flag package into a message in the
+// tool's own words. The flag named is written as the user typed it
+// (found in args), a value is quoted short, and a number flag says what
+// it wants.
+func flagProblem(fs *flag.FlagSet, err error, args []string) string {
+	msg := err.Error()
+	if sub := undefinedFlag.FindStringSubmatch(msg); sub != nil {
+		return fmt.Sprintf("%s is not a flag of %s", quoteArg(typedFlag(sub[1], args)), fs.Name())
+	}
+	if sub := missingValue.FindStringSubmatch(msg); sub != nil {
+		return fmt.Sprintf("%s needs a value after it", typedFlag(sub[1], args))
+	}
+	if sub := badSyntax.FindStringSubmatch(msg); sub != nil {
+		return fmt.Sprintf("%s is not a flag: write --NAME or --NAME=VALUE", quote(sub[1]))
+	}
+	sub := badValue.FindStringSubmatch(msg)
+	if sub == nil {
+		return "cannot read the flags" // every message of the flag package is matched above
+	}
+	value, uerr := strconv.Unquote(sub[1])
+	if uerr != nil {
+		value = sub[1]
+	}
+	name, reason := typedFlag(sub[2], args), sub[3]
+	f := fs.Lookup(sub[2])
+	switch {
+	case f != nil && isBoolFlag(f):
+		return fmt.Sprintf("%s takes no value (it is on when given), not %s", name, quote(value))
+	case reason == "parse error" || reason == "value out of range":
+		want := "a number, such as 1e12"
+		if f != nil {
 			if _, err := strconv.Atoi(f.DefValue); err == nil {
 				want = "a whole number"
 			}
-			msg = strings.TrimSuffix(msg, "parse error") + "not " + want
+		}
+		if reason == "value out of range" {
+			return fmt.Sprintf("%s %s is far too large; give %s of sensible size", name, quote(value), want)
+		}
+		return fmt.Sprintf("%s %s is not %s", name, quote(value), want)
+	}
+	return fmt.Sprintf("%s %s: %s", name, quote(value), reason) // our own flag types' reasons
+}
+
+func isBoolFlag(f *flag.Flag) bool {
+	b, ok := f.Value.(interface{ IsBoolFlag() bool })
+	return ok && b.IsBoolFlag()
+}
+
+// typedFlag is the flag name as the user typed it: "--to" or "-to".
+func typedFlag(name string, args []string) string {
+	for _, a := range args {
+		if a == "--" {
+			break
+		}
+		if a == "--"+name || strings.HasPrefix(a, "--"+name+"=") {
+			return "--" + name
 		}
 	}
-	msg = valueInMessage.ReplaceAllStringFunc(msg, func(m string) string {
-		v, err := strconv.Unquote(valueInMessage.FindStringSubmatch(m)[1])
-		if err != nil {
-			return m
-		}
-		return "invalid value " + quote(v) + " for "
-	})
-	return flagInMessage.ReplaceAllStringFunc(msg, func(m string) string {
-		sub := flagInMessage.FindStringSubmatch(m)
-		name := sub[2]
-		typed := "-" + name
-		for _, a := range args {
-			if a == "--" {
-				break
-			}
-			if a == "--"+name || strings.HasPrefix(a, "--"+name+"=") {
-				typed = "--" + name
-				break
-			}
-		}
-		return sub[1] + quoteArg(typed)
-	})
+	return "-" + name
 }
 
 // quoteArg cuts a user's argument to a few dozen characters for a message.
@@ -151,6 +193,9 @@ func (d *duration) Set(s string) error {
 			return fmt.Errorf("%s has no unit; write e.g. %ss, 90s or 10m", quote(s), s)
 		}
 		return errors.New("not a duration; write e.g. 90s, 10m or 1h30m")
+	}
+	if v <= 0 {
+		return fmt.Errorf("%s is no time at all; give a positive duration such as 90s, or leave the flag out for no limit", quote(s))
 	}
 	*d = duration(v)
 	return nil

@@ -34,8 +34,8 @@ Flags:
   --junit FILE         also write JUnit XML (one test case per claim;
                        refuted = failure, undecided = skipped with the reason)
   --certificates DIR   keep every certificate there, named after the claim id
-                       (the folder is created, and locked for the run: a
-                       second gate on it is refused)
+                       (created if missing in an existing folder, and locked
+                       for the run: a second gate on it is refused)
   --cache DIR          certificates kept between runs and re-checked by the
                        checker instead of recomputed (default: .avoidcert-cache
                        beside FILE; "off" for none; locked for the run)
@@ -54,11 +54,12 @@ gate), 4 interrupted (Ctrl-C, SIGTERM), out of space or an internal error.
 
 // gateRun is one judged manifest and where its reports go.
 type gateRun struct {
-	manifest *claims.Manifest
-	opts     claims.Options
-	junit    string // "" for none
-	progress bool
-	release  []func() // the folder locks prepare took
+	manifest  *claims.Manifest
+	opts      claims.Options
+	junitPath string   // --junit, "" for none
+	junit     *outFile // where the JUnit XML goes, once prepared
+	progress  bool
+	release   []func() // the folder locks prepare took
 }
 
 // lockName is the lock file a gate holds in its --certificates and
@@ -71,7 +72,8 @@ func runGate(ctx context.Context, e *env, args []string) int {
 	junit := fs.String("junit", "", "")
 	certs := fs.String("certificates", "", "")
 	cache := fs.String("cache", "", "")
-	timeout := fs.Duration("timeout", 0, "")
+	var timeout duration
+	fs.Var(&timeout, "timeout", "")
 	var mem byteSize
 	fs.Var(&mem, "max-memory", "")
 	progress := fs.Bool("progress", false, "")
@@ -81,9 +83,6 @@ func runGate(ctx context.Context, e *env, args []string) int {
 	}
 	if len(pos) != 1 {
 		return failure(e, usagef("gate: name one manifest file, e.g. 'avoidcert gate claims.toml'"))
-	}
-	if *timeout < 0 {
-		return failure(e, usagef("gate: --timeout must not be negative"))
 	}
 	m, err := readManifest(ctx, "gate", pos[0])
 	if err != nil {
@@ -95,8 +94,8 @@ func runGate(ctx context.Context, e *env, args []string) int {
 	if *cache == "off" {
 		*cache = ""
 	}
-	g := &gateRun{manifest: m, junit: *junit, progress: *progress,
-		opts: claims.Options{CacheDir: *cache, CertDir: *certs, Timeout: *timeout, MaxMemory: int64(mem), Tool: "avoidcert " + version}}
+	g := &gateRun{manifest: m, junitPath: *junit, progress: *progress,
+		opts: claims.Options{CacheDir: *cache, CertDir: *certs, Timeout: time.Duration(timeout), MaxMemory: int64(mem), Tool: "avoidcert " + version}}
 	if err := g.prepare("gate"); err != nil {
 		return failure(e, err)
 	}
@@ -153,8 +152,8 @@ func (g *gateRun) prepare(cmd string) (err error) {
 		if d.dir == "" || slices.ContainsFunc(locked, func(l string) bool { return sameFolder(l, d.dir) }) {
 			continue
 		}
-		if err := os.MkdirAll(d.dir, 0o755); err != nil {
-			return usagef("%s: cannot create the folder %s: %w", cmd, quote(d.dir), err)
+		if err := openOutDir(cmd, d.flag, d.dir, true); err != nil {
+			return err
 		}
 		release, err := filelock.Lock(filepath.Join(d.dir, lockName))
 		if errors.Is(err, filelock.ErrHeld) {
@@ -176,12 +175,9 @@ func (g *gateRun) prepare(cmd string) (err error) {
 				cmd, quote(path), input.TypeName(info.Mode()))
 		}
 	}
-	if g.junit != "" {
-		if info, err := os.Stat(filepath.Dir(g.junit)); err != nil || !info.IsDir() {
-			return usagef("%s: cannot write %s: folder %s does not exist", cmd, g.junit, filepath.Dir(g.junit))
-		}
-		if info, err := os.Stat(g.junit); err == nil && !info.Mode().IsRegular() {
-			return usagef("%s: %s exists and is not a regular file; choose another --junit", cmd, g.junit)
+	if g.junitPath != "" {
+		if g.junit, err = openOut(cmd, "--junit", g.junitPath, false); err != nil {
+			return err
 		}
 	}
 	return nil
@@ -224,10 +220,10 @@ func (g *gateRun) run(ctx context.Context, e *env) ([]claims.Result, int) {
 			len(results), len(g.manifest.Claims), time.Since(start).Seconds())
 		return nil, exitAborted
 	}
-	if g.junit != "" {
+	if g.junit != nil {
 		data, err := claims.JUnit(filepath.Base(g.manifest.File), results)
 		if err == nil {
-			err = atomicfile.WriteFile(g.junit, data, 0o644)
+			err = g.junit.write(e.stdout, data)
 		}
 		if err != nil {
 			return nil, failure(e, fmt.Errorf("cannot write the JUnit file: %w", err))

@@ -12,8 +12,10 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
+	"regexp"
 	"runtime/debug"
 	"sort"
+	"strings"
 	"syscall"
 
 	"avoidcert/bounds"
@@ -60,15 +62,20 @@ func main() {
 // context: every command then stops and exits 4 with a message. A panic
 // is an internal error, exit 4, never the usage code 2 (which is also
 // what the Go runtime gives a crash it cannot recover).
-func runProcess() int {
+func runProcess() int { return runProcessTo(os.Stderr) }
+
+// runProcessTo is runProcess with its messages written to stderr (the
+// tests copy them into a log that they scan for wording that is not the
+// tool's own).
+func runProcessTo(stderr io.Writer) int {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 	stdout := &checkedWriter{w: os.Stdout}
-	code := guarded(os.Stderr, func() int {
-		return run(ctx, &env{stdout: stdout, stderr: os.Stderr, progress: progressWanted(os.Stderr)}, os.Args[1:])
+	code := guarded(stderr, func() int {
+		return run(ctx, &env{stdout: stdout, stderr: stderr, progress: progressWanted(os.Stderr)}, os.Args[1:])
 	})
 	if stdout.err != nil && code != exitAborted {
-		return writeFailure(os.Stderr, "standard output", stdout.err, "the output is incomplete")
+		return writeFailure(stderr, "standard output", stdout.err, "the output is incomplete")
 	}
 	return code
 }
@@ -212,7 +219,25 @@ func run(ctx context.Context, e *env, args []string) int {
 		fmt.Fprintf(e.stderr, "avoidcert: no command %s; run 'avoidcert help' for the list\n", quote(name))
 		return exitUsage
 	}
+	if asksHelp(args[1:]) {
+		fmt.Fprint(e.stdout, c.usage)
+		return exitOK
+	}
 	return c.run(ctx, e, args[1:])
+}
+
+// asksHelp reports whether a command's arguments ask for its help (-h,
+// -help or --help before any "--").
+func asksHelp(args []string) bool {
+	for _, a := range args {
+		switch a {
+		case "--":
+			return false
+		case "-h", "-help", "--help":
+			return true
+		}
+	}
+	return false
 }
 
 // version is the producing tool's version, written into certificates.
@@ -264,11 +289,12 @@ func failure(e *env, err error) int {
 	var ue usageError
 	var be *bounds.BudgetError
 	var sbe *structure.BudgetError
+	msg := ownWords(err.Error())
 	switch {
 	case outOfSpace(err):
 		return writeFailure(e.stderr, writtenWhere(err), err, "nothing was replaced")
 	case errors.As(err, &ue):
-		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)
+		fmt.Fprintf(e.stderr, "avoidcert: %s\n", msg)
 		return exitUsage
 	case errors.Is(err, context.Canceled):
 		return interrupted(e)
@@ -276,24 +302,48 @@ func failure(e *env, err error) int {
 		fmt.Fprintln(e.stderr, "avoidcert: undecided: --timeout ran out before a first result; nothing was written; raise --timeout")
 		return exitUndecided
 	case errors.As(err, &be) && be.Stop == bounds.StopMemory:
-		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v: raise --max-memory; nothing was written\n", be)
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %s: raise --max-memory; nothing was written\n", ownWords(be.Error()))
 		return exitUndecided
 	case errors.As(err, &be):
 		raise := map[bounds.StopReason]string{bounds.StopMaxN: "--max-k", bounds.StopTimeout: "--timeout"}[be.Stop]
 		if raise == "" {
 			raise = "the budget"
 		}
-		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise %s\n", be, raise)
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %s; nothing was written; raise %s\n", ownWords(be.Error()), raise)
 		return exitUndecided
 	case errors.As(err, &sbe):
-		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise --max-memory\n", sbe)
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %s; nothing was written; raise --max-memory\n", ownWords(sbe.Error()))
 		return exitUndecided
 	case errors.Is(err, prove.ErrBudget):
-		fmt.Fprintf(e.stderr, "avoidcert: undecided: %v; nothing was written; raise the budget\n", err)
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %s; nothing was written; raise the budget\n", msg)
 		return exitUndecided
 	default:
-		fmt.Fprintf(e.stderr, "avoidcert: %v\n", err)
+		fmt.Fprintf(e.stderr, "avoidcert: %s\n", msg)
 		return exitAborted
+	}
+}
+
+// packagePrefix is the "name: " an internal package puts before its
+// errors. A user reads the command's name, the input and the fault, not
+// which package found it.
+var packagePrefix = regexp.MustCompile(`(^|: )(?:prove|bounds|transfer|structure|interval|pattern|certify|census|claims|prob|series|input|report): `)
+
+// ownWords is a message without the prefixes of internal packages; a
+// first word that names the command (census, report, series, structure,
+// prob) stays.
+func ownWords(msg string) string {
+	head := ""
+	if cmd, rest, ok := strings.Cut(msg, ": "); ok {
+		if _, isCommand := commands[cmd]; isCommand || cmd == "census merge" {
+			head, msg = cmd+": ", rest
+		}
+	}
+	for {
+		plain := packagePrefix.ReplaceAllString(msg, "$1")
+		if plain == msg {
+			return head + msg
+		}
+		msg = plain
 	}
 }
 
@@ -321,6 +371,18 @@ func interrupted(e *env) int {
 	fmt.Fprintln(e.stderr, "avoidcert: interrupted; nothing was written")
 	return exitAborted
 }
+
+// jsonHead starts every JSON object the command line prints: the output's
+// format, "avoidcert-" and its name, and the version of that format
+// (docs/json.md; a schema per format in docs/schema/).
+type jsonHead struct {
+	Format  string `json:"format"`
+	Version int    `json:"version"`
+}
+
+// headOf is the head of a command's JSON output; every one of them is at
+// version 1.
+func headOf(name string) jsonHead { return jsonHead{Format: "avoidcert-" + name, Version: 1} }
 
 // writeJSON prints v as one line of JSON, without HTML escaping ("<" stays
 // "<": the explanations compare numbers).

@@ -14,6 +14,13 @@ import (
 	"avoidcert/internal/input"
 )
 
+// The one rule of every flag that names where a command writes, a file
+// (outFile: bound --out, report --out, gate --junit) or a folder
+// (openOutDir: census --out, census merge --out, gate --certificates and
+// --cache, demo --out): the file or folder itself is created when
+// missing, but the folder it goes in must exist; no command creates a
+// chain of missing folders. Everything is checked before any work.
+
 // outFile is where a command writes a file it produces: a path, standard
 // output ("-"), or nowhere (the zero value with skip set).
 //
@@ -70,15 +77,16 @@ func (o *outFile) resolve() error {
 		}
 		info, err := os.Lstat(p)
 		switch {
-		case errors.Is(err, fs.ErrNotExist):
-			dir := filepath.Dir(p)
-			if d, derr := os.Stat(dir); derr != nil || !d.IsDir() {
-				return fmt.Errorf("folder %s does not exist", quote(dir))
+		case err != nil:
+			// a folder on the way that is missing or a file is named as such
+			if perr := parentExists(p); perr != nil {
+				return perr
+			}
+			if !errors.Is(err, fs.ErrNotExist) {
+				return errors.New(osReason(err))
 			}
 			o.target = p
 			return nil
-		case err != nil:
-			return err
 		case info.Mode()&fs.ModeSymlink != 0:
 			link, err := os.Readlink(p)
 			if err != nil {
@@ -97,6 +105,50 @@ func (o *outFile) resolve() error {
 			return nil
 		}
 	}
+}
+
+// parentExists checks that the folder a new file or folder goes in
+// exists: commands create the last part of a path, never a chain.
+func parentExists(p string) error {
+	dir := filepath.Dir(p)
+	d, err := os.Stat(dir)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return fmt.Errorf("the folder %s does not exist: create it first (a command creates the last part of a path only)", quote(dir))
+	case err != nil:
+		return fmt.Errorf("the folder %s cannot be reached (%s)", quote(dir), osReason(err))
+	case !d.IsDir():
+		return fmt.Errorf("%s is not a folder", quote(dir))
+	}
+	return nil
+}
+
+// openOutDir makes sure a folder a command writes into is usable before
+// any work: an existing folder (or a link to one) is used, a missing one
+// may be made when the folder it goes in exists (now when create is set,
+// else by the writer when it has something to write), anything else is
+// refused. The error is a usageError naming the flag.
+func openOutDir(cmd, flag, dir string, create bool) error {
+	info, err := os.Stat(dir)
+	switch {
+	case err == nil && info.IsDir():
+		return nil
+	case err == nil:
+		return usagef("%s: %s is a %s, not a folder; choose another %s", cmd, quote(dir), input.TypeName(info.Mode()), flag)
+	}
+	if perr := parentExists(dir); perr != nil {
+		return usagef("%s: cannot create the folder %s: %v; or choose another %s", cmd, quote(dir), perr, flag)
+	}
+	if !errors.Is(err, fs.ErrNotExist) {
+		return usagef("%s: cannot use the folder %s (%s); choose another %s", cmd, quote(dir), osReason(err), flag)
+	}
+	if !create {
+		return nil
+	}
+	if err := os.Mkdir(dir, 0o755); err != nil && !errors.Is(err, fs.ErrExist) {
+		return usagef("%s: cannot create the folder %s (%s); choose another %s", cmd, quote(dir), osReason(err), flag)
+	}
+	return nil
 }
 
 // describe says where the file went, for the command's report.

@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"flag"
 	"fmt"
 	"math/big"
 	"strconv"
@@ -42,15 +43,17 @@ mean").
 
 Flags:
   --n N             the number of draws, 0..1000000000 (required)
-  --json            one JSON object instead of text
+  --json            one JSON object instead of text (docs/json.md)
   --occurrences J   also the distribution of the number of matches, j <= J
   --max-work W      largest estimated work of --occurrences, in word additions
-                    (default 5e10, about a minute on two cores)
+                    (default 5e10, about a minute on two cores; only with
+                    --occurrences)
   --rel-width W     target relative width of a certified interval (default 1e-6)
   --max-memory B    largest estimated memory of an exact count (default 1G);
                     over it the certified interval answers; also the limit
                     of --occurrences
-  --timeout T       stop tightening the bracket after this long (e.g. 90s)
+  --timeout T       stop tightening the bracket after this long (e.g. 90s;
+                    a positive duration: leave it out for no limit)
   --digits D        significant digits of printed decimals (default 15)
 
 Exit codes: 0 success, 2 bad input, 3 the relative width is still above
@@ -81,6 +84,8 @@ func runProb(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
+	given := map[string]bool{}
+	fs.Visit(func(f *flag.Flag) { given[f.Name] = true })
 	switch {
 	case *n < 0:
 		return failure(e, usagef("prob: give the number of draws with --n N (0 to %d)", prob.MaxN))
@@ -90,10 +95,14 @@ func runProb(ctx context.Context, e *env, args []string) int {
 		return failure(e, usagef("prob: --rel-width must lie strictly between 0 and 1"))
 	case *digits < 1 || *digits > 100:
 		return failure(e, usagef("prob: --digits must be 1 to 100"))
-	case timeout < 0:
-		return failure(e, usagef("prob: --timeout must not be negative"))
+	case given["occurrences"] && *occ < 0:
+		return failure(e, usagef("prob: --occurrences %d: give the largest number of matching windows to tabulate, 0 or more", *occ))
+	case given["max-work"] && !given["occurrences"]:
+		return failure(e, usagef("prob: --max-work bounds the work of --occurrences only; give --occurrences J, or leave --max-work out"))
+	case !(*maxWork > 0):
+		return failure(e, usagef("prob: --max-work must be a positive number of word additions, such as 5e10"))
 	}
-	out := probOutput{Patterns: set.Strings(), N: *n}
+	out := probOutput{jsonHead: headOf("prob"), Patterns: set.Strings(), N: *n}
 	code := exitOK
 	exact, need := prob.InExactRange(set, *n, int64(maxMem))
 	if *occ >= 0 {
@@ -128,12 +137,13 @@ func runProb(ctx context.Context, e *env, args []string) int {
 		if w := c.Interval.RelativeWidth(); w != nil {
 			out.RelativeWidth = interval.DecimalUp(w, 3)
 		}
-		out.AllN = &probAllN{N0: all.N0, LambdaDigits: c.Digits}
+		_, _, certDigits, agreed := certified(c.Result.Certificate)
+		out.AllN, out.LambdaDigits = allNJSONOf(all, certDigits), &agreed
 		why := "N is past 500"
 		if *n <= prob.MaxExactN {
 			why = fmt.Sprintf("an exact count would need %s, over --max-memory %s", bytesize.About(need), bytesize.Format(int64(maxMem)))
 		}
-		out.Note = fmt.Sprintf("%s; from the checked certificate's bound for every n >= %d (lambda bracketed to %d digits)", why, all.N0, c.Digits)
+		out.Note = fmt.Sprintf("%s; from the checked certificate's bound for every n >= %d (lambda bracketed to %d digits; its certified ends agree to %d)", why, all.N0, c.Digits, agreed)
 		narrow := c.Narrow
 		out.Narrow = &narrow
 		switch {
@@ -187,11 +197,6 @@ func roundedDecimal(p *big.Rat) string {
 	return new(big.Float).SetPrec(96).SetRat(p).Text('g', 10)
 }
 
-type probAllN struct {
-	N0           int `json:"n0"`
-	LambdaDigits int `json:"lambda_digits"`
-}
-
 type probOccurrence struct {
 	J           int    `json:"j"`
 	Count       string `json:"count"`
@@ -200,6 +205,7 @@ type probOccurrence struct {
 }
 
 type probOutput struct {
+	jsonHead
 	Patterns      []string         `json:"patterns"`
 	N             int              `json:"n"`
 	Method        string           `json:"method"`
@@ -209,7 +215,8 @@ type probOutput struct {
 	Hi            string           `json:"hi"`
 	RelativeWidth string           `json:"relative_width,omitempty"`
 	Narrow        *bool            `json:"narrow,omitempty"`
-	AllN          *probAllN        `json:"all_n,omitempty"`
+	LambdaDigits  *int             `json:"lambda_digits,omitempty"`
+	AllN          *allNJSON        `json:"all_n,omitempty"`
 	Note          string           `json:"note"`
 	Occurrences   []probOccurrence `json:"occurrences,omitempty"`
 	MoreThanJ     string           `json:"more_than_j,omitempty"`

@@ -3,11 +3,15 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 
+	"avoidcert/census"
 	"avoidcert/internal/input"
 	"avoidcert/prove"
 	"avoidcert/report"
@@ -16,7 +20,7 @@ import (
 func init() {
 	commands["report"] = command{
 		summary: "a page for readers from certificates: Markdown, HTML or LaTeX",
-		usage: `Usage: avoidcert report [--format md|html|tex] [--out FILE] INPUT...
+		usage: `Usage: avoidcert report [--format md|html|tex | --json] [--out FILE] INPUT...
 
 Each INPUT is a certificate (format version 4), the output of
 'avoidcert gate --json' (one JSON object per line), the output of
@@ -32,10 +36,14 @@ certificate's, its counts the checker's own, and the order and count groups
 are derived again; then the classes by lambda, the groups and the order, and
 a figure of lambda by class with the ranges as bars. A row that differs, a
 certificate of another class, or a path that leaves the folder stops the
-report (exit 1, naming the row and the field). For a gate: its verdicts
-restated as recorded, not re-checked (the lines hold no claimed values to
-judge again), with the commands that check its certificates; a line with a
-verdict or kind the gate never writes is refused (exit 2). For a series
+report (exit 1, naming the row and the field). For a gate: each claim as
+its line restates it, against what the certificates the line names certify
+(looked for from the manifest's folder, the current one and the gate
+file's, taken only with the recorded SHA-256 and re-checked; one that
+differs, one the checker refuses, or a recorded verdict they contradict
+stops the report, exit 1), and the gate's verdicts and evidence as
+recorded, refuted claims marked; a line with a verdict or kind the gate
+never writes is refused (exit 2). For a series
 run: the observed count of each pattern against its exact mean, tails as
 recorded, the exact means and variances recomputed (a run whose recorded ones
 differ is refused), avoidance probabilities derived again, and in HTML a
@@ -48,17 +56,23 @@ the report (exit 1).
   md    Markdown, with the figures' data as tables
   html  a standalone page (inline SVG figures, nothing fetched from the
         network): the width of the certified bracket against n (log scale)
-        with the observed rate, and a_(n+1)/((n+1) a_n) against n with the
-        certified lambda
-  tex   a LaTeX fragment to \input: one theorem per certificate
+        with the observed rate, and the distance of a_(n+1)/((n+1) a_n)
+        from lambda against n, to the bracket's last n, with half the
+        width of the certified range
+  tex   a LaTeX fragment to \input: one theorem per certificate; long
+        numbers in groups of five digits that break across lines
 
 The figures are recomputed with the engine (a certificate keeps only its
 final brackets) and the page says so.
 
 Flags:
   --format F   md (default), html or tex
-  --out FILE   write there (atomically; a folder, device or FIFO is
-               refused) instead of standard output
+  --json       the same content as data instead, one JSON object
+               (docs/json.md): the certified values, the verified census
+               tables, the gate's lines as recorded, the series runs with
+               their avoidance derived again, the figures' data
+  --out FILE   write there (atomically, in an existing folder; a folder,
+               device or FIFO is refused) instead of standard output
 
 Exit codes: 0 success, 1 a certificate the checker refuses or a census row
 it does not support, 2 bad input (a file that cannot be read, is no
@@ -74,15 +88,24 @@ space.
 func runReport(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("report")
 	format := fs.String("format", "md", "")
+	asJSON := fs.Bool("json", false, "")
 	outPath := fs.String("out", "-", "")
 	files, err := parseArgs(fs, args)
 	if err != nil {
 		return failure(e, err)
 	}
-	render := map[string]func(io.Writer, *report.Document) error{"md": report.Markdown, "html": report.HTML, "tex": report.TeX}[*format]
+	formatGiven := false
+	fs.Visit(func(f *flag.Flag) { formatGiven = formatGiven || f.Name == "format" })
+	if *asJSON {
+		if formatGiven {
+			return failure(e, usagef("report: give --json or --format %s, not both", quote(*format)))
+		}
+		*format = "json"
+	}
+	render := map[string]func(io.Writer, *report.Document) error{"md": report.Markdown, "html": report.HTML, "tex": report.TeX, "json": report.JSON}[*format]
 	switch {
 	case render == nil:
-		return failure(e, usagef("report: --format %s is not one of md, html, tex", quote(*format)))
+		return failure(e, usagef("report: --format %s is not one of md, html, tex (or --json)", quote(*format)))
 	case len(files) == 0:
 		return failure(e, usagef("report: give at least one certificate file"))
 	}
@@ -98,7 +121,7 @@ func runReport(ctx context.Context, e *env, args []string) int {
 		case ctx.Err() != nil:
 			return interrupted(e)
 		case report.IsRefused(err):
-			fmt.Fprintf(e.stderr, "avoidcert: report: %v\n", err)
+			fmt.Fprintf(e.stderr, "avoidcert: report: %s\n", ownWords(err.Error()))
 			return exitFailed
 		case errors.Is(err, prove.ErrBudget):
 			return failure(e, fmt.Errorf("report: %w", err))
@@ -140,17 +163,44 @@ func addInput(ctx context.Context, doc *report.Document, path string) error {
 		return nil
 	}
 	if report.IsGateJSON(data) {
-		g, err := report.FromGate(path, data)
+		g, err := report.FromGate(ctx, path, data)
 		if err != nil {
 			return err
 		}
 		doc.Gates = append(doc.Gates, g)
 		return nil
 	}
+	if err := looksLikeCertificate(path, data); err != nil {
+		return err
+	}
 	r, err := report.FromCertificate(ctx, path, data)
 	if err != nil {
 		return err
 	}
 	doc.Certificates = append(doc.Certificates, r)
+	return nil
+}
+
+// looksLikeCertificate refuses, with what to do instead, a file that is
+// none of report's inputs, before it is read as a certificate (whose
+// reader would only say what a certificate lacks).
+func looksLikeCertificate(path string, data []byte) error {
+	var probe struct {
+		Content *struct {
+			Format string `json:"format"`
+		} `json:"content"`
+		Format string `json:"format"`
+	}
+	trimmed := bytes.TrimSpace(data)
+	switch {
+	case len(trimmed) == 0 || trimmed[0] != '{':
+		return fmt.Errorf("%s is not JSON: report reads certificates, census folders and the JSON of 'gate --json' and 'series --json' (a claims manifest goes to 'avoidcert gate FILE --json', whose output report reads)", quote(path))
+	case json.Unmarshal(trimmed, &probe) != nil:
+		return nil // damaged: the certificate reader says where
+	case probe.Format == census.ReportFormat:
+		return fmt.Errorf("%s is a census table: give report the census folder, %s, so that every row is checked against its certificate", quote(path), quote(filepath.Dir(path)))
+	case probe.Content == nil:
+		return fmt.Errorf("%s is JSON but none of report's inputs (a certificate, the JSON of 'gate --json' or 'series --json', a census folder)", quote(path))
+	}
 	return nil
 }

@@ -27,14 +27,31 @@ import (
 func TestMain(m *testing.M) {
 	if os.Getenv("AVOIDCERT_TEST_AS_COMMAND") == "1" {
 		injectFault()
-		os.Exit(runProcess())
+		os.Exit(runLogged())
 	}
 	testscript.Main(m, map[string]func(){
 		"avoidcert": func() {
 			injectFault()
-			os.Exit(runProcess())
+			os.Exit(runLogged())
 		},
 	})
+}
+
+// runLogged runs the command as a script runs it: its messages go to
+// stderr and, when the script asks for it (stderrLog), into a log that
+// the script's end scans for wording that is not the tool's own. On a
+// terminal (where live bars are drawn) nothing is logged.
+func runLogged() int {
+	path := os.Getenv(stderrLog)
+	if path == "" || progressWanted(os.Stderr) {
+		return runProcess() // a live bar needs the terminal itself
+	}
+	log, err := os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_APPEND, 0o644)
+	if err != nil {
+		panic(err)
+	}
+	defer log.Close()
+	return runProcessTo(io.MultiWriter(os.Stderr, log))
 }
 
 // injectFault gives the command, in tests only, the fault that
@@ -64,7 +81,8 @@ func injectFault() {
 // lines, their exit codes and the expected output.
 func TestScripts(t *testing.T) {
 	testscript.Run(t, testscript.Params{
-		Dir: "testdata/script",
+		Dir:   "testdata/script",
+		Setup: scanScriptStderr,
 		Cmds: map[string]func(ts *testscript.TestScript, neg bool, args []string){
 			"replace":   replaceCmd,
 			"exits":     exitsCmd,
@@ -145,6 +163,7 @@ func signalCmd(sig os.Signal) func(ts *testscript.TestScript, neg bool, args []s
 		ts.Check(err)
 		cmd := exec.Command(args[2], args[3:]...)
 		cmd.Dir = ts.MkAbs(".")
+		cmd.Env = append(os.Environ(), stderrLog+"="+ts.Getenv(stderrLog))
 		var stdout, stderr strings.Builder
 		cmd.Stdout, cmd.Stderr = &stdout, &stderr
 		ts.Check(cmd.Start())

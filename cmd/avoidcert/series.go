@@ -5,6 +5,7 @@ import (
 	crand "crypto/rand"
 	"encoding/binary"
 	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"math"
@@ -76,8 +77,9 @@ Flags:
   --exact           exit 3 rather than approximate when an exact law is over
                     the budget
   --rel-width W     relative width of a certified avoidance probability
-                    (default 1e-6)
+                    (default 1e-6; not with --length)
   --timeout T       stop tightening a certified bracket after this long
+                    (not with --length)
   --digits D        significant digits of printed probabilities (default 4)
 
 Exit codes: 0 success, 2 bad input (a file that cannot be read, a value that
@@ -98,6 +100,7 @@ type seriesFlags struct {
 	maxWork, relWidth       float64
 	maxMem                  byteSize
 	timeout                 duration
+	given                   map[string]bool // the flags on the command line
 }
 
 func runSeries(ctx context.Context, e *env, args []string) int {
@@ -122,6 +125,8 @@ func runSeries(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
+	f.given = map[string]bool{}
+	fs.Visit(func(fl *flag.Flag) { f.given[fl.Name] = true })
 	if len(pos) == 0 {
 		return failure(e, usagef("series: give the file of values first, e.g. 'avoidcert series data.txt 132'"))
 	}
@@ -260,8 +265,8 @@ func seriesOptions(f *seriesFlags, lengths []int) (series.Options, error) {
 		return o, usagef("series: --rel-width must lie strictly between 0 and 1")
 	case f.digits < 1 || f.digits > 100:
 		return o, usagef("series: --digits must be 1 to 100")
-	case f.timeout < 0:
-		return o, usagef("series: --timeout must not be negative")
+	case f.length != 0 && (f.given["rel-width"] || f.given["timeout"]):
+		return o, usagef("series: --rel-width and --timeout bound the avoidance probability of a pattern seen 0 times, which --length does not give; leave them out")
 	}
 	return o, nil
 }
@@ -357,7 +362,7 @@ func seriesAssess(ctx context.Context, e *env, out *series.Run, f *seriesFlags, 
 	lengths := prob.Interleave(int(t.Values), f.delay)
 	obs := make([]prob.Observation, len(items))
 	for i, s := range items {
-		it := series.Item{Pattern: s.String(), Members: s.Strings()}
+		it := series.Item{Pattern: s.String(), Patterns: s.Strings()}
 		seen := map[int]bool{}
 		for _, m := range s.Patterns() {
 			it.Observed += t.Patterns[len(m)][pattern.Rank(m)]

@@ -36,9 +36,10 @@ Nothing is printed until the independent checker has recomputed the
 structure section of a certificate built for the set and accepted it.
 
 Flags:
-  --json          {"patterns":[...],"class":...,"primitivity_exponent":k,
-                  "period":p,"finite_from":N1,"blocks":[[...]],
-                  "lambda_status":...,...}; what does not apply is null
+  --json          {"format":"avoidcert-structure","version":1,"patterns":[...],
+                  "structure_class":...,"primitivity_exponent":k,"period":p,
+                  "finite_from":N1,"blocks":[[...]],"lambda_status":...,...};
+                  what does not apply is null (docs/json.md)
   --witnesses     for a primitive set, one permutation per configuration of
                   the joint test: it avoids the set, starts in the start
                   state and ends, k moves later, in the current state with
@@ -161,8 +162,9 @@ func countWord(n int, noun string) string {
 // class, numbers and lambda status, the states by number (names in
 // "states"), and the test's explanation.
 type structureJSON struct {
+	jsonHead
 	Patterns            []string        `json:"patterns"`
-	Class               string          `json:"class"`
+	Class               string          `json:"structure_class"`
 	PrimitivityExponent *int            `json:"primitivity_exponent"`
 	Period              *int            `json:"period"`
 	FiniteFrom          *int            `json:"finite_from"`
@@ -191,7 +193,7 @@ type witnessJSON struct {
 
 func writeStructureJSON(w io.Writer, r *prove.Result, witnesses bool) {
 	cs, rep := r.Certificate.Structure, r.Report
-	out := structureJSON{Patterns: r.Set.Strings(), Class: string(cs.Class), LambdaStatus: string(cs.Lambda),
+	out := structureJSON{jsonHead: headOf("structure"), Patterns: r.Set.Strings(), Class: string(cs.Class), LambdaStatus: string(cs.Lambda),
 		Blocks: nonNil(rep.Blocks), RecurrentStates: nonNil(rep.Recurrent), TransientStates: nonNil(rep.Transient),
 		JointSetSizes: nonNil(rep.Sizes), Explanation: rep.Explanation}
 	out.PrimitivityExponent, out.Period, out.FiniteFrom = classNumbers(cs)

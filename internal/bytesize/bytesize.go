@@ -18,14 +18,17 @@ func Parse(s string) (int64, error) {
 	if n := len(t); n > 0 && strings.ContainsAny(t[n-1:], "KMGT") {
 		unit, t = t[n-1:], t[:n-1]
 	}
+	if len(s) > 40 { // quote a few dozen characters at most
+		s = s[:40] + "..."
+	}
 	v, err := strconv.ParseFloat(t, 64)
 	if err != nil || v <= 0 {
-		if len(s) > 40 { // quote a few dozen characters at most
-			s = s[:40] + "..."
-		}
 		return 0, fmt.Errorf("%q is not a memory size; write e.g. 8G, 512M or 2000000000", s)
 	}
-	return int64(v * float64(units[unit])), nil
+	if n := v * float64(units[unit]); n < 1<<63 {
+		return int64(n), nil
+	}
+	return 0, fmt.Errorf("%q is larger than any memory; write e.g. 8G, 512M or 2000000000", s)
 }
 
 // Beyond is the size at which estimates stop being exact: the engine

@@ -56,3 +56,15 @@ func TestAbout(t *testing.T) {
 		}
 	}
 }
+
+// A size past the int64 range is refused, not wrapped around.
+func TestParseTooLarge(t *testing.T) {
+	for _, s := range []string{"99999999999999999999999", "9000000T", "1e300"} {
+		if v, err := Parse(s); err == nil {
+			t.Errorf("Parse(%q) = %d, want a refusal", s, v)
+		}
+	}
+	if v, err := Parse("8E6T"); err != nil || v != 8e6*(1<<40) { // just below 2^63
+		t.Errorf("Parse(8E6T) = %d, %v", v, err)
+	}
+}

@@ -214,6 +214,8 @@ func TypeName(m fs.FileMode) string {
 	switch {
 	case m.IsDir():
 		return "folder"
+	case m.IsRegular():
+		return "file"
 	case m&fs.ModeNamedPipe != 0:
 		return "FIFO (named pipe)"
 	case m&fs.ModeSocket != 0:
