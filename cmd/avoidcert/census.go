@@ -223,8 +223,8 @@ func censusFailure(e *env, dir string, err error) int {
 	case errors.As(err, &in):
 		return failure(e, usagef("census: %v", err))
 	case errors.Is(err, prove.ErrBudget):
-		fmt.Fprintf(e.stderr, "avoidcert: census: undecided: %v; raise --max-memory (shared by the --jobs workers) or lower --jobs; finished classes are kept in %s\n",
-			err, filepath.Join(dir, "journal"))
+		fmt.Fprintf(e.stderr, "avoidcert: census: undecided: %s; raise --max-memory (shared by the --jobs workers) or lower --jobs; finished classes are kept in %s\n",
+			ownWords(err.Error()), filepath.Join(dir, "journal"))
 		return exitUndecided
 	case errors.Is(err, context.Canceled):
 		fmt.Fprintf(e.stderr, "avoidcert: census interrupted; finished classes are kept in %s: run the same command again to continue\n",
@@ -295,7 +295,7 @@ func censusMergeFailure(e *env, err error) int {
 		fmt.Fprintf(e.stderr, "avoidcert: census merge: refused: %s; nothing was written\n", ownWords(err.Error()))
 		return exitFailed
 	case errors.Is(err, prove.ErrBudget):
-		fmt.Fprintf(e.stderr, "avoidcert: census merge: undecided: %v; raise --max-memory (shared by the --jobs workers) or lower --jobs\n", err)
+		fmt.Fprintf(e.stderr, "avoidcert: census merge: undecided: %s; raise --max-memory (shared by the --jobs workers) or lower --jobs\n", ownWords(err.Error()))
 		return exitUndecided
 	}
 	return failure(e, err)

@@ -10,6 +10,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"sync"
 	"testing"
@@ -368,12 +369,12 @@ func TestCensusLength8ShardMatchesSingleCommands(t *testing.T) {
 			}
 		}
 		var st struct {
-			Class    string `json:"class"`
+			Class    string `json:"structure_class"`
 			Exponent *int   `json:"primitivity_exponent"`
 		}
 		runJSON(t, &st, "structure", r.Representative, "--json")
 		if st.Class != r.Class || st.Exponent == nil || r.Exponent == nil || *st.Exponent != *r.Exponent {
-			t.Errorf("%s: structure %s, exponent %v; the census states %s, %v", r.Representative, st.Class, st.Exponent, r.Class, r.Exponent)
+			t.Errorf("%s: structure %s, exponent %s; the census states %s, %s", r.Representative, st.Class, exponentText(st.Exponent), r.Class, exponentText(r.Exponent))
 		}
 		file := filepath.Join(t.TempDir(), "cert.json")
 		var b struct {
@@ -389,6 +390,13 @@ func TestCensusLength8ShardMatchesSingleCommands(t *testing.T) {
 			t.Errorf("%s: bound's certificate differs from the census's (%v, %v)", r.Representative, err1, err2)
 		}
 	}
+}
+
+func exponentText(e *int) string {
+	if e == nil {
+		return "none"
+	}
+	return strconv.Itoa(*e)
 }
 
 // runJSON runs the command in process and decodes its standard output.
