@@ -18,6 +18,7 @@ import (
 	"avoidcert/internal/atomicfile"
 	"avoidcert/internal/input"
 	"avoidcert/pattern"
+	"avoidcert/prove"
 )
 
 // refinedDir holds the certificates of classes bracketed again at more
@@ -158,8 +159,8 @@ func midpoint(r Range) *big.Rat {
 
 // round brackets the classes of targets again, r.jobs at once, and sets
 // their rows' refinements. A class whose new certificate does not improve
-// on its best range, falls short of the digits asked for (a budget) or
-// reaches the cap is done.
+// on its best range, falls short of the digits asked for or is refused
+// (a budget), or reaches the cap is done.
 func (r *refiner) round(ctx context.Context, round int, rows []Row, targets map[string]int, done map[string]bool) error {
 	reps := make([]string, 0, len(targets))
 	for rep := range targets {
@@ -187,6 +188,11 @@ func (r *refiner) round(ctx context.Context, round int, rows []Row, targets map[
 		}
 		var found bool
 		results[i], found, errs[i] = r.refineClass(ctx, reps[i], targets[reps[i]])
+		if errors.Is(errs[i], prove.ErrBudget) {
+			// The worker's budget cannot hold this bracket: the class
+			// keeps its ranges, and its pairs stay unresolved.
+			results[i], errs[i] = nil, nil
+		}
 		mu.Lock()
 		defer mu.Unlock()
 		if errs[i] != nil {
@@ -212,6 +218,10 @@ func (r *refiner) round(ctx context.Context, round int, rows []Row, targets map[
 	}
 	for i, rep := range reps {
 		row := &rows[index[rep]]
+		if results[i] == nil {
+			done[rep] = true
+			continue
+		}
 		got := commonDigits(results[i].Lambda)
 		better := got > row.Digits()
 		if better {

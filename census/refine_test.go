@@ -3,11 +3,15 @@ package census
 import (
 	"context"
 	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
 	"slices"
 	"strings"
 	"testing"
+
+	"avoidcert/pattern"
+	"avoidcert/prove"
 )
 
 // refineValues are made-up growth rates for the length-4 classes (1342
@@ -245,5 +249,30 @@ func TestNextDigits(t *testing.T) {
 		if got := nextDigits(c.have, c.a, c.b, c.floor, c.limit); got != c.want {
 			t.Errorf("nextDigits(%d, %v, %v, %d, %d) = %d, want %d", c.have, c.a, c.b, c.floor, c.limit, got, c.want)
 		}
+	}
+}
+
+// A class whose refinement the budget refuses keeps its ranges; the census
+// finishes, and its pair stays unresolved and named.
+func TestRefineBudgetLeavesThePairUnresolved(t *testing.T) {
+	dir := t.TempDir()
+	f := &fakeCertifier{}
+	opts := refineOptions(dir, f)
+	certify := opts.Certify
+	opts.Certify = func(ctx context.Context, set pattern.Set, digits int) (Certified, error) {
+		if set.String() == "1423" && digits > 5 {
+			return Certified{}, fmt.Errorf("%w: made up", prove.ErrBudget)
+		}
+		return certify(ctx, set, digits)
+	}
+	rep, err := Run(context.Background(), opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s := rep.GroupOrder[4]; s.Relation != "unresolved" || rowOf(t, rep, "1423").Refined != nil {
+		t.Errorf("1423 refused a refinement, yet its step is %+v and its row %+v", s, rowOf(t, rep, "1423").Refined)
+	}
+	if _, err := Verify(context.Background(), dir, fakeCheck, 2); err != nil {
+		t.Error(err)
 	}
 }
