@@ -15,8 +15,9 @@ import (
 // Defaults of Options.
 const (
 	// DefaultMaxMemory caps the engine's and the checker's estimated
-	// memory when Options.MaxMemory is 0.
-	DefaultMaxMemory = 8 << 30
+	// memory when Options.MaxMemory is 0: the checker's own default, the
+	// one default memory budget of every command.
+	DefaultMaxMemory = certify.DefaultMaxMemory
 	// DefaultCheckWork caps the checker's estimated work when
 	// Options.CheckWork is 0: the checker's own default (also that of
 	// 'avoidcert check'), so whatever Certify builds within its memory
