@@ -76,7 +76,9 @@ func FromCertificate(ctx context.Context, name string, data []byte) (*Certificat
 func checked(ctx context.Context, name string, data []byte) (*certify.Certificate, error) {
 	c, err := certify.Read(bytes.NewReader(data))
 	if err != nil {
-		return nil, fmt.Errorf("%s: %v", name, err)
+		// as 'check' says: a file that does not read as a certificate is
+		// an invalid certificate (exit 1), not unreadable input (exit 2)
+		return nil, refused{fmt.Errorf("%s: the checker refuses the certificate: %v", name, err)}
 	}
 	if err := prove.Recheck(ctx, c, pattern.Set{}, prove.Options{Typed: c.Statement.Given}); err != nil {
 		switch {

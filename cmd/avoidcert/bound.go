@@ -47,7 +47,7 @@ Flags:
                       "all_n":{"n0","a_n0","lo","hi"},"estimates":{"note":
                       "estimate, not certified",...},"stop":...,"certificate":PATH}
   --max-k K           stop at this k (default 1000, the checker's limit)
-  --max-memory B      stop before a step that would need more (default 8G)
+  --max-memory B      stop before a step that would need more (default 4G)
   --timeout T         stop the bracket after this long, e.g. 90s or 10m, and
                       certify the best one (default none)
   --progress          one line per bracket on stderr (for logs)
@@ -84,7 +84,7 @@ type budget struct {
 }
 
 func (b *budget) register(fs *flag.FlagSet) {
-	b.maxMemory = 8 << 30
+	b.maxMemory = defaultMemory
 	fs.IntVar(&b.maxK, "max-k", certify.MaxN, "")
 	fs.Var(&b.maxMemory, "max-memory", "")
 	fs.Var(&b.timeout, "timeout", "")
@@ -126,7 +126,7 @@ func (b *budget) validate(cmd string) error {
 // pattern arguments as typed, which bind the checker.
 func (b *budget) options() prove.Options {
 	limitMemory(int64(b.maxMemory))
-	opts := prove.Options{MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Tool: "avoidcert " + version, Typed: b.typed}
+	opts := prove.Options{MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Tool: toolName(), Typed: b.typed}
 	if b.timeout > 0 {
 		opts.Deadline = time.Now().Add(time.Duration(b.timeout))
 	}
@@ -156,14 +156,18 @@ func (b *budget) watch(e *env, opts *prove.Options, wanted int) (done func()) {
 	}
 	switch {
 	case b.progress:
+		log := newProgressLog(e.stderr)
 		opts.Progress = func(ev prove.Event) {
-			if ev.Bracket != nil {
-				d := agreed(ev.Lambda)
-				fmt.Fprintf(e.stderr, "%s: lambda in %s (%d of %d digits agreed)\n", where(ev), ev.Lambda.String(max(d+3, 8)), d, wanted)
+			if ev.Bracket == nil {
+				log.doing(fmt.Sprintf("%s, iterating towards the bracket at n=%d", where(ev), ev.NextN))
+				return
 			}
+			d := agreed(ev.Lambda)
+			log.doing(fmt.Sprintf("%s, the bracket taken; iterating on, or certifying the best bracket", where(ev)))
+			log.printf("%s: lambda in %s (%d of %d digits agreed)", where(ev), ev.Lambda.String(max(d+3, 8)), d, wanted)
 		}
-		opts.CheckProgress = checkLines(e.stderr)
-		return func() {}
+		opts.CheckProgress = checkLines(log)
+		return log.close
 	case e.progress && !b.quiet:
 		bar := newLiveBar(e.stderr, int64(wanted), "digits")
 		opts.Progress = func(ev prove.Event) {
@@ -273,18 +277,19 @@ func wantedDigits(opts prove.Options) int {
 	return max(1, int(math.Ceil(-math.Log10(w))))
 }
 
-func stopWords(res *bounds.Result) string {
-	switch res.Stop {
+// stopWords says why the bracket run ended: its goal, or the budget that
+// stopped it, named by its flag, with what more it would need.
+func stopWords(r *prove.Result) string {
+	switch r.Bracket.Stop {
 	case bounds.StopTarget:
 		return "target met"
 	case bounds.StopExact:
 		return "lambda known exactly (a bracket of zero width)"
-	default:
-		if res.Detail != "" {
-			return fmt.Sprintf("budget stop (%s): %s", res.Stop, res.Detail)
-		}
-		return fmt.Sprintf("budget stop (%s)", res.Stop)
 	}
+	if over := r.Stopped(); over != nil {
+		return "budget stop: " + over.Explain(flagOf)
+	}
+	return "decided"
 }
 
 // certified returns the lambda and radius intervals the checked
@@ -309,7 +314,11 @@ func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
 		fmt.Fprintln(w, "lambda = 0 (proved by the structure test: no cyclic avoider of any length)")
 	}
 	fmt.Fprintf(w, "lambda   in %s  (%s)\n", lambda.String(digits), digitWords(lambda, agreed))
-	fmt.Fprintf(w, "1/lambda in %s\n", radius.String(digits))
+	if prove.LambdaZero(r.Certificate) {
+		fmt.Fprintln(w, "1/lambda: "+noRadius)
+	} else {
+		fmt.Fprintf(w, "1/lambda in %s\n", radius.String(digits))
+	}
 	for _, br := range res.Brackets {
 		fmt.Fprintf(w, "bracket: n = %d, step %d, start %s, on %d of %d prefix states\n", br.N, br.Step, br.Start, len(br.States), r.States.Len())
 	}
@@ -330,10 +339,14 @@ func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
 		fmt.Fprintf(w, "stopped: upper bound taken at k = %d (lambda = 0 is proved; the bracket only bounds the decay) after %.1f s\n",
 			r.K(), res.Elapsed.Seconds())
 	} else {
-		fmt.Fprintf(w, "stopped: %s after %.1f s\n", stopWords(res), res.Elapsed.Seconds())
+		fmt.Fprintf(w, "stopped: %s after %.1f s\n", stopWords(r), res.Elapsed.Seconds())
 	}
 	fmt.Fprintf(w, "certificate: %s\n", dest.describe())
 }
+
+// noRadius is what bound, claim and check say of 1/lambda when the
+// checked certificate proves lambda = 0 (JSON: "radius": null).
+const noRadius = "none (lambda = 0)"
 
 // allNLine prints the certificate's explicit bound, valid for every
 // n >= n0 (the checker verifies it). A is shown rounded to nearest, for
@@ -398,7 +411,7 @@ type boundJSON struct {
 	Period      *int           `json:"period"`
 	FiniteFrom  *int           `json:"finite_from"`
 	Lambda      endsJSON       `json:"lambda"`
-	Radius      endsJSON       `json:"radius"`
+	Radius      *endsJSON      `json:"radius"`
 	K           int            `json:"k"`
 	Digits      int            `json:"digits"`
 	AllN        *allNJSON      `json:"all_n"`
@@ -446,8 +459,12 @@ func writeBoundJSON(w io.Writer, r *prove.Result, dest *outFile) {
 	res := r.Bracket
 	lambda, radius, digits, agreed := certified(r.Certificate)
 	out := boundJSON{Patterns: r.Set.Strings(), Class: string(prove.FormOf(r.Certificate).Class),
-		Lambda: ends(lambda, digits), Radius: ends(radius, digits), K: r.K(), Digits: min(agreed, 1000),
+		Lambda: ends(lambda, digits), K: r.K(), Digits: min(agreed, 1000),
 		Stop: string(res.Stop), Seconds: res.Elapsed.Seconds()}
+	if !prove.LambdaZero(r.Certificate) {
+		rad := ends(radius, digits)
+		out.Radius = &rad // null when lambda = 0: 1/lambda has no value
+	}
 	out.Exponent, out.Period, out.FiniteFrom = classNumbers(r.Certificate.Structure)
 	out.AllN = allNJSONOf(r.Certificate.Statement.AllN, digits)
 	est := &estimatesJSON{Note: "estimate, not certified", CPhases: r.Estimates.ByResidue}

@@ -43,7 +43,7 @@ Flags:
                       memory limit is what binds in practice); values from
                       9.2e18 up ("inf" too) mean 9.2e18, no limit in practice
   --max-memory B      refuse certificates whose recomputation is estimated
-                      to need more memory (default 8G)
+                      to need more memory (default 4G)
   --progress          a line on stderr per percent of the work (for logs)
   --quiet             no live progress bar (shown on a terminal by default)
 
@@ -73,7 +73,7 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	var expect patternList
 	flags.Var(&expect, "expect", "")
 	maxWork := flags.Float64("max-work", checkWork, "")
-	maxMem := byteSize(8 << 30)
+	maxMem := byteSize(defaultMemory)
 	flags.Var(&maxMem, "max-memory", "")
 	asJSON := flags.Bool("json", false, "")
 	progress := flags.Bool("progress", false, "")
@@ -99,6 +99,7 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 		return failure(e, err)
 	}
 	opts.MaxMemory = int64(maxMem)
+	limitMemory(opts.MaxMemory)
 	data, err := readCertificateInput(ctx, pos[0])
 	if err != nil {
 		return failure(e, err)
@@ -108,9 +109,11 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 		return checkVerdict(e, *asJSON, nil, err)
 	}
 	var bar *liveBar // drawn from the first report on: a refusal before the work draws nothing
+	var log *progressLog
 	switch {
 	case *progress:
-		opts.Progress = checkLines(e.stderr)
+		log = newProgressLog(e.stderr)
+		opts.Progress = checkLines(log)
 	case e.progress && !*quiet:
 		opts.Progress = func(done, total int64) {
 			if bar == nil {
@@ -122,6 +125,9 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	err = certify.Check(ctx, cert, opts)
 	if bar != nil {
 		bar.finish()
+	}
+	if log != nil {
+		log.close()
 	}
 	if ctx.Err() != nil {
 		return interrupted(e)
@@ -220,8 +226,10 @@ func checkVerdict(e *env, asJSON bool, cert *certify.Certificate, err error) int
 		return exitOK
 	}
 	out := checkJSON{Verdict: "valid", Patterns: v.Patterns, N: v.N,
-		Lambda: &endsJSON{Lo: nonEmpty(v.Lambda[0]), Hi: nonEmpty(v.Lambda[1])},
-		Radius: &endsJSON{Lo: nonEmpty(v.Radius[0]), Hi: nonEmpty(v.Radius[1])}}
+		Lambda: &endsJSON{Lo: nonEmpty(v.Lambda[0]), Hi: nonEmpty(v.Lambda[1])}}
+	if !v.LambdaZero() { // null when lambda = 0: 1/lambda has no value
+		out.Radius = &endsJSON{Lo: nonEmpty(v.Radius[0]), Hi: nonEmpty(v.Radius[1])}
+	}
 	if v.Class != "" {
 		out.Class = &v.Class
 	}

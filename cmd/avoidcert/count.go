@@ -29,7 +29,7 @@ Flags:
                     csv (header n,count,probability; probability as an exact
                     fraction p/q) or json (counts as decimal strings,
                     probability as an exact fraction)
-  --max-memory B    refuse runs estimated to need more memory (default 8G)
+  --max-memory B    refuse runs estimated to need more memory (default 4G)
   --progress        report each iterate on stderr
   --verbose         say which patterns were dropped as duplicates or redundant
 
@@ -45,7 +45,7 @@ func runCount(ctx context.Context, e *env, args []string) int {
 	from := fs.Int("from", 0, "")
 	to := fs.Int("to", 20, "")
 	format := fs.String("format", "text", "")
-	maxMem := byteSize(8 << 30)
+	maxMem := byteSize(defaultMemory)
 	fs.Var(&maxMem, "max-memory", "")
 	progress := fs.Bool("progress", false, "")
 	verbose := fs.Bool("verbose", false, "")

@@ -61,7 +61,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 		return failure(e, usagef("demo: cannot make a folder for the results: %w; choose another --out", err))
 	}
 	g := &gateRun{manifest: m, junit: filepath.Join(dir, "junit.xml"),
-		opts: claims.Options{CertDir: filepath.Join(dir, "certificates"), Tool: "avoidcert " + version}}
+		opts: claims.Options{CertDir: filepath.Join(dir, "certificates"), Tool: toolName()}}
 	if err := g.prepare("demo"); err != nil {
 		return failure(e, err)
 	}

@@ -47,7 +47,7 @@ Flags:
   --max-work W      largest estimated work of --occurrences, in word additions
                     (default 5e10, about a minute on two cores)
   --rel-width W     target relative width of a certified interval (default 1e-6)
-  --max-memory B    largest estimated memory of an exact count (default 1G);
+  --max-memory B    largest estimated memory of an exact count (default 4G);
                     over it the certified interval answers; also the limit
                     of --occurrences
   --timeout T       stop tightening the bracket after this long (e.g. 90s)
@@ -68,7 +68,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 	occ := fs.Int("occurrences", -1, "")
 	maxWork := fs.Float64("max-work", prob.DefaultWork, "")
 	relWidth := fs.Float64("rel-width", 1e-6, "")
-	maxMem := byteSize(prob.ExactMemory)
+	maxMem := byteSize(defaultMemory)
 	fs.Var(&maxMem, "max-memory", "")
 	var timeout duration
 	fs.Var(&timeout, "timeout", "")
@@ -93,6 +93,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 	case timeout < 0:
 		return failure(e, usagef("prob: --timeout must not be negative"))
 	}
+	limitMemory(int64(maxMem))
 	out := probOutput{Patterns: set.Strings(), N: *n}
 	code := exitOK
 	exact, need := prob.InExactRange(set, *n, int64(maxMem))
@@ -118,7 +119,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 			cctx, cancel = context.WithTimeout(ctx, time.Duration(timeout))
 			defer cancel()
 		}
-		c, err := prob.Certify(cctx, set, *n, *relWidth, prove.Options{Typed: pos})
+		c, err := prob.Certify(cctx, set, *n, *relWidth, prove.Options{Typed: pos, MaxMemory: int64(maxMem), Tool: toolName()})
 		if err != nil {
 			return failure(e, err)
 		}
