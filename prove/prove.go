@@ -326,6 +326,14 @@ func (p *plan) options(ctx context.Context, opts Options, endBits int) (bounds.O
 	}
 	p.beyond = lim.beyond
 	bo.CertN = lim.certN
+	if opts.Planned != nil {
+		last := bo.MaxN
+		if lim.certN > 0 {
+			last = min(last, lim.certN)
+		}
+		work, _, _ := certify.Estimate(opts.expect(p.rep.Set), Structure(p.rep), p.planned(last), endBits)
+		opts.Planned(Plan{LastN: last, Beyond: lim.beyond, CheckWork: work, CheckTime: p.reserve(opts, endBits)(last)})
+	}
 	if deadline, ok := ctx.Deadline(); ok {
 		bo.Reserve = p.reserve(opts, endBits)
 		first := p.states.MaxLength()

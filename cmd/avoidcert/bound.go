@@ -47,10 +47,13 @@ Flags:
                       "all_n":{"n0","a_n0","lo","hi"},"estimates":{"note":
                       "estimate, not certified",...},"stop":...,"certificate":PATH}
   --max-k K           stop at this k (default 1000, the checker's limit)
-  --max-memory B      stop before a step that would need more (default 4G)
-  --timeout T         stop the bracket after this long, e.g. 90s or 10m, and
-                      certify the best one (default none)
-  --progress          one line per bracket on stderr (for logs)
+  --max-memory B      the engine's work and the checker's re-check together:
+                      no bracket whose certificate the checker could not check
+                      within it (default 4G)
+  --timeout T         stop the bracket in time to certify the best one within
+                      this long, e.g. 90s or 10m, as estimated (default none)
+  --progress          the plan, one line per bracket, and a line at least
+                      every 3 s, on stderr (for logs)
   --quiet             no live progress bar (shown on a terminal by default)
 
 The certificate file: a regular file is replaced atomically (temp file
@@ -63,8 +66,9 @@ once its process is gone (README: the temp-file rule).
 standard error.
 
 Exit codes: 0 target met (or lambda decided exactly), 3 a budget stopped the
-run first (the best certified bracket is printed and certified; when it stops
-before a first bracket nothing is written), 2 bad input, 4 interrupted
+run first (the best certified bracket is printed and certified, and the
+flag to raise named; a budget that cannot hold a first bracket and its check
+is refused at once, and nothing is written), 2 bad input, 4 interrupted
 (Ctrl-C or SIGTERM: nothing is written; use --timeout to stop early and keep
 a certificate), out of space, or a certificate the checker refused (with its
 reason; nothing is written).
@@ -157,6 +161,14 @@ func (b *budget) watch(e *env, opts *prove.Options, wanted int) (done func()) {
 	switch {
 	case b.progress:
 		log := newProgressLog(e.stderr)
+		opts.Planned = func(p prove.Plan) {
+			limit := "the largest --max-k allows"
+			if p.Beyond != nil {
+				limit = "past it, " + p.Beyond.Explain(flagOf)
+			}
+			log.printf("plan: brackets up to n = %d (%s); the checker's re-check of a bracket there: about %.2g coefficient operations, %s (estimates)",
+				p.LastN, limit, p.CheckWork, p.CheckTime.Round(time.Second/10))
+		}
 		opts.Progress = func(ev prove.Event) {
 			if ev.Bracket == nil {
 				log.doing(fmt.Sprintf("%s, iterating towards the bracket at n=%d", where(ev), ev.NextN))

@@ -39,6 +39,9 @@ Flags:
   --max-k K, --max-memory B, --timeout T   budgets, as for bound
   --progress, --quiet                       progress, as for bound
 
+A claim that no set satisfies is refuted at once, without a certificate:
+0 <= a_n <= n! gives 0 <= lambda <= 1 and 1/lambda >= 1.
+
 Exit codes: 0 proved, 1 refuted, 3 undecided within the budget (--timeout
 stops the bracket in time to certify the best one), 2 bad input, 4 interrupted
 (Ctrl-C or SIGTERM) or a certificate the checker refused.
