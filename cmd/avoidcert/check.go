@@ -134,11 +134,13 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	}
 	var limit *certify.LimitError
 	if errors.As(err, &limit) {
-		flag, now := "--max-work", fmt.Sprintf("%.3g", float64(opts.MaxWork))
+		reason := fmt.Sprintf("re-checking the certificate needs about %.2g coefficient operations, over --max-work %.3g; raise --max-work to at least %.2g to check it",
+			limit.Need, float64(opts.MaxWork), limit.Need)
 		if limit.Resource == "memory" {
-			flag, now = "--max-memory", bytesize.Format(opts.MaxMemory)
+			reason = fmt.Sprintf("re-checking the certificate needs %s, over --max-memory %s; raise --max-memory to at least %s to check it",
+				bytesize.About(int64(limit.Need)), bytesize.Format(opts.MaxMemory), bytesize.Flag(int64(limit.Need)))
 		}
-		return checkUndecided(e, *asJSON, cert, fmt.Sprintf("%v; raise %s (now %s) to check it", err, flag, now))
+		return checkUndecided(e, *asJSON, cert, reason)
 	}
 	return checkVerdict(e, *asJSON, cert, err)
 }
