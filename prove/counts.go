@@ -8,6 +8,7 @@ import (
 	"math/big"
 
 	"avoidcert/certify"
+	"avoidcert/internal/memory"
 	"avoidcert/internal/par"
 	"avoidcert/pattern"
 	"avoidcert/transfer"
@@ -24,7 +25,8 @@ func Counts(ctx context.Context, set pattern.Set, n int, opts Options) ([]*big.I
 	if n < 0 {
 		return nil, fmt.Errorf("prove: counts up to n = %d: n must not be negative", n)
 	}
-	if need := CountsMemory(set, n, opts); need > opts.maxMemory() {
+	need := CountsMemory(set, n, opts)
+	if need > opts.maxMemory() {
 		return nil, &BudgetError{Budget: BudgetMemory, What: fmt.Sprintf("counting %s to n = %d (the engine and the checker side by side)", set, n),
 			Need: float64(need), Limit: float64(opts.maxMemory()), err: errors.New("counts over the memory budget")}
 	}
@@ -43,7 +45,16 @@ func Counts(ctx context.Context, set pattern.Set, n int, opts Options) ([]*big.I
 		c, err := certify.Counts(ctx, opts.given(set), n)
 		ownDone <- counted{c, err}
 	}()
-	engine, err := transfer.Counts(ctx, set, n, nil)
+	// The checker's iteration allocates each iterate anew: in the second
+	// half of a large count, where the iterates are largest, the collector
+	// runs before each of the engine's steps so that the checker's dead
+	// iterates do not pile up next to both live ones.
+	collect := func(k, last int) {
+		if 2*k >= last {
+			memory.Collect(need)
+		}
+	}
+	engine, err := transfer.Counts(ctx, set, n, collect)
 	own := <-ownDone
 	panicked.Raise()
 	switch {
