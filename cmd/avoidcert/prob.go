@@ -144,7 +144,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 		case c.Interval.Lo.M.Sign() == 0:
 			out.Note += "; λ = 0 for this set (a_N/N! decays faster than any exponential), so the bound's lower end is 0 and only the upper end says something; more digits do not change that"
 		default:
-			out.Note += fmt.Sprintf("; the relative width is still above --rel-width %g: a budget stopped the bracket first", *relWidth)
+			out.Note += fmt.Sprintf("; the relative width is still above --rel-width %g: %s", *relWidth, stopWords(c.Result))
 			code = exitUndecided
 		}
 	}
