@@ -16,6 +16,7 @@ import (
 
 	"avoidcert/census"
 	"avoidcert/certify"
+	"avoidcert/internal/bytesize"
 	"avoidcert/pattern"
 	"avoidcert/prove"
 )
@@ -47,7 +48,7 @@ Flags:
   --jobs J         classes certified at once (default: the number of CPUs)
   --shard I/N      only the I-th of N slices of the classes (1 <= I <= N), for
                    a cluster job array; merge the N folders afterwards
-  --max-memory B   memory budget shared by the J classes at work (default 8G)
+  --max-memory B   memory budget shared by the J classes at work (default 4G)
   --quiet          no progress bar (it is shown only when stderr is a terminal)
   --json           print the census (the content of DIR/census.json, format
                    avoidcert-census; docs/json.md) instead of the summary
@@ -89,7 +90,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	shardFlag := fs.String("shard", "", "")
 	quiet := fs.Bool("quiet", false, "")
 	asJSON := fs.Bool("json", false, "")
-	maxMemory := byteSize(8 << 30)
+	maxMemory := byteSize(defaultMemory)
 	fs.Var(&maxMemory, "max-memory", "")
 	pos, err := parseArgs(fs, args)
 	if err != nil {
@@ -123,6 +124,10 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	if err := openOutDir("census", "--out", dir, true); err != nil {
 		return failure(e, err)
 	}
+	perClass := int64(maxMemory) / int64(*jobs)
+	if over := censusFits(shard, params, perClass); over != nil {
+		return censusBudget(e, over, *jobs, "nothing was done")
+	}
 	limitMemory(int64(maxMemory))
 	bar := newCensusBar(ctx, e, *quiet)
 	rep, err := census.Run(ctx, census.Options{
@@ -130,10 +135,10 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 		Shard:   shard,
 		Dir:     dir,
 		Jobs:    *jobs,
-		Tool:    "avoidcert " + version,
-		Certify: censusCertifier(int64(maxMemory) / int64(*jobs)),
-		Count:   censusCounter,
-		Check:   census.CheckerOf(censusOptions(int64(maxMemory) / int64(*jobs))),
+		Tool:    toolName(),
+		Certify: censusCertifier(perClass),
+		Count:   censusCounter(perClass),
+		Check:   census.CheckerOf(censusOptions(perClass)),
 		Progress: func(ev census.Event) {
 			if ev.Class == "" && ev.Resumed > 0 {
 				fmt.Fprintf(e.stderr, "avoidcert: continuing the census in %s: %d of %d classes are in its journal\n", dir, ev.Resumed, ev.Total)
@@ -143,16 +148,43 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	})
 	bar.finish(err == nil)
 	if err != nil {
-		return censusFailure(e, dir, err)
+		return censusFailure(e, dir, *jobs, err)
 	}
 	writeCensusSummary(e, dir, rep, *asJSON)
 	return exitOK
 }
 
 // censusCounter counts with the engine and the checker side by side and
-// returns the counts only when they agree (prove.Counts).
-func censusCounter(ctx context.Context, set pattern.Set, n int) ([]*big.Int, error) {
-	return prove.Counts(ctx, set, n, prove.Options{Typed: set.Strings()})
+// returns the counts only when they agree (prove.Counts), within the
+// memory of one class.
+func censusCounter(maxMemory int64) census.Counter {
+	return func(ctx context.Context, set pattern.Set, n int) ([]*big.Int, error) {
+		return prove.Counts(ctx, set, n, prove.Options{Typed: set.Strings(), MaxMemory: maxMemory})
+	}
+}
+
+// censusFits refuses, before any class is done, a share of the memory
+// budget below what every class of the shard needs at least
+// (prove.LeastMemory: its counts, and a first bracket with its check).
+func censusFits(shard census.Shard, params census.Params, perClass int64) *prove.BudgetError {
+	for _, c := range shard.Classes(params.Length) {
+		set := pattern.NewSet(c.Representative)
+		if need := prove.LeastMemory(set, params.To, prove.Options{}); need > perClass {
+			return &prove.BudgetError{Budget: prove.BudgetMemory, What: fmt.Sprintf("class %s (its counts to n = %d, a first bracket and its check)", c.Representative, params.To),
+				Need: float64(need), Limit: float64(perClass)}
+		}
+	}
+	return nil
+}
+
+// censusBudget reports a class over its share of the memory budget
+// (--max-memory divided among the --jobs classes at work): exit 3, with
+// the budget that would let it run, and what became of the work.
+func censusBudget(e *env, b *prove.BudgetError, jobs int, kept string) int {
+	total := int64(b.Need) * int64(jobs)
+	fmt.Fprintf(e.stderr, "avoidcert: census: undecided: %s needs %s, over its share of --max-memory (%s for each of --jobs %d); raise --max-memory to at least %s, or lower --jobs; %s\n",
+		b.What, bytesize.About(int64(b.Need)), bytesize.Format(int64(b.Limit)), jobs, bytesize.Flag(total), kept)
+	return exitUndecided
 }
 
 // parseShard reads --shard I/N; "" is the whole census.
@@ -174,9 +206,12 @@ func parseShard(s string, classes int) (census.Shard, error) {
 
 // censusFailure reports a failed run: an interrupt or a failed class
 // keeps the journal, and the message says how to continue.
-func censusFailure(e *env, dir string, err error) int {
+func censusFailure(e *env, dir string, jobs int, err error) int {
 	var in *census.InputError
+	var over *prove.BudgetError
 	switch {
+	case errors.As(err, &over) && over.Budget == prove.BudgetMemory:
+		return censusBudget(e, over, jobs, "finished classes are kept in "+filepath.Join(dir, "journal"))
 	case outOfSpace(err):
 		fmt.Fprintf(e.stderr, "avoidcert: census: out of space writing %s: the disk or the quota is full; finished classes are kept in %s: free space and run the same command again\n",
 			writtenWhere(err), filepath.Join(dir, "journal"))
@@ -197,7 +232,7 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	out := fs.String("out", "", "")
 	jobs := fs.Int("jobs", runtime.NumCPU(), "")
 	asJSON := fs.Bool("json", false, "")
-	maxMemory := byteSize(8 << 30)
+	maxMemory := byteSize(defaultMemory)
 	fs.Var(&maxMemory, "max-memory", "")
 	dirs, err := parseArgs(fs, args)
 	if err != nil {

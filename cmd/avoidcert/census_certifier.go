@@ -22,7 +22,7 @@ func censusCertifier(maxMemory int64) census.Certifier {
 			return census.Certified{}, err
 		}
 		if !r.Done() {
-			return census.Certified{}, fmt.Errorf("%d digits not reached: %s", digits, stopWords(r.Bracket))
+			return census.Certified{}, fmt.Errorf("%d digits not reached: %w", digits, r.Stopped())
 		}
 		data, err := certify.Marshal(r.Certificate)
 		if err != nil {
@@ -35,5 +35,5 @@ func censusCertifier(maxMemory int64) census.Certifier {
 // censusOptions are the budgets of one class of a census (certifying it,
 // or checking its certificate again).
 func censusOptions(maxMemory int64) prove.Options {
-	return prove.Options{MaxMemory: maxMemory, Tool: "avoidcert " + version}
+	return prove.Options{MaxMemory: maxMemory, Tool: toolName()}
 }
