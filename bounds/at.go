@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math/big"
 
+	"avoidcert/internal/memory"
 	"avoidcert/transfer"
 )
 
@@ -31,6 +32,13 @@ func Ratios(ctx context.Context, sys transfer.System, gn, gnd *transfer.Iterate)
 	return res.lo, res.hi, nil
 }
 
+// AtNeed estimates the peak bytes of BracketAt(ctx, sys, n, d, prec), in
+// time independent of n, so that a caller can refuse it before the work.
+func AtNeed(sys transfer.System, n, d int) int64 {
+	r := &runner{sys: sys, eng: transfer.New(sys), d: max(d, 1)}
+	return r.needFrom(sys.StartN(), n)
+}
+
 // BracketAt iterates a system from its start to G_(n+d) and returns its
 // bracket at n with step d, Lambda rounded outward to prec bits, with the
 // digest of G_n.
@@ -47,9 +55,12 @@ func BracketAt(ctx context.Context, sys transfer.System, n, d int, prec uint) (*
 	for g.N < n+d {
 		var next *transfer.Iterate
 		if g.N == n {
-			gn = g
+			gn, spare = g, nil // G_n is kept; nothing else but the step's own storage
 			next, err = e.Next(ctx, g)
 		} else {
+			if !e.Recycles(spare, g.N+1) {
+				spare = nil // let the collector have it while the step allocates
+			}
 			next, err = e.Advance(ctx, g, spare)
 			spare = g
 		}
@@ -58,6 +69,8 @@ func BracketAt(ctx context.Context, sys transfer.System, n, d int, prec uint) (*
 		}
 		g = next
 	}
+	spare = nil
+	memory.Collect(AtNeed(sys, n, d))
 	lo, hi, err := Ratios(ctx, sys, gn, g)
 	if err != nil {
 		return nil, err

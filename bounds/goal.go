@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/big"
+	"time"
 
 	"avoidcert/interval"
 )
@@ -23,6 +24,15 @@ type Options struct {
 	// MaxN is the largest n at which a bracket is taken (iterates go to
 	// MaxN + Step).
 	MaxN int
+	// CertN, when positive, is the largest n whose bracket the caller can
+	// still certify (its certificate's check would be over budget beyond
+	// it): the run takes no bracket past it and stops there with
+	// StopCertifiable, like MaxN.
+	CertN int
+	// Reserve, when set, is the time the caller needs after the run to
+	// certify a bracket at n (build and check its certificate): a deadline
+	// stops the run early enough to leave it.
+	Reserve func(n int) time.Duration
 	// MaxMemory bounds the bytes held: iterates (transfer.Engine.Footprint
 	// for the next step) plus this package's workspace.
 	MaxMemory int64
@@ -35,6 +45,23 @@ type Options struct {
 
 func (o Options) step() int { return max(o.Step, 1) }
 
+// lastN returns the largest n a bracket may be taken at (0: no limit) and
+// the stop that names it.
+func (o Options) lastN() (int, StopReason) {
+	if o.CertN > 0 && (o.MaxN == 0 || o.CertN < o.MaxN) {
+		return o.CertN, StopCertifiable
+	}
+	return o.MaxN, StopMaxN
+}
+
+// reserve returns the time to leave after a bracket at n.
+func (o Options) reserve(n int) time.Duration {
+	if o.Reserve == nil {
+		return 0
+	}
+	return o.Reserve(n)
+}
+
 func (o Options) validate(needTarget bool) error {
 	switch {
 	case o.Step < 0:
@@ -43,8 +70,8 @@ func (o Options) validate(needTarget bool) error {
 		return fmt.Errorf("bounds: Digits must be positive, got %d", o.Digits)
 	case o.Width != nil && o.Width.Sign() <= 0:
 		return fmt.Errorf("bounds: Width must be positive, got %s", o.Width.RatString())
-	case o.MaxN < 0 || o.MaxMemory < 0:
-		return fmt.Errorf("bounds: budgets must not be negative (MaxN %d, MaxMemory %d)", o.MaxN, o.MaxMemory)
+	case o.MaxN < 0 || o.CertN < 0 || o.MaxMemory < 0:
+		return fmt.Errorf("bounds: budgets must not be negative (MaxN %d, CertN %d, MaxMemory %d)", o.MaxN, o.CertN, o.MaxMemory)
 	case needTarget && o.Digits == 0 && o.Width == nil:
 		return fmt.Errorf("bounds: no target: set Digits (e.g. 30) or Width (e.g. 1e-30)")
 	}

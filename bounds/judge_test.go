@@ -2,6 +2,7 @@ package bounds
 
 import (
 	"context"
+	"math/big"
 	"testing"
 
 	"avoidcert/interval"
@@ -60,5 +61,15 @@ func TestJudge(t *testing.T) {
 	}
 	if _, err := ParseQuantity("radius"); err != nil {
 		t.Error(err)
+	}
+}
+
+// Before its first bracket a run knows only [0, inf]; a claim below 0 is
+// refuted by the first bracket, never "decided" with no bracket at all.
+func TestJudgeNeedsABracket(t *testing.T) {
+	_, st := system(t, "123")
+	v, res, err := Judge(context.Background(), st, interval.Interval{Lo: big.NewRat(-1, 1), Hi: big.NewRat(-1, 2)}, QuantityLambda, Options{MaxN: 30})
+	if err != nil || v != Refuted || len(res.Brackets) == 0 {
+		t.Fatalf("verdict %s, %v, brackets %v", v, err, res)
 	}
 }

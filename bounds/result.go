@@ -113,13 +113,16 @@ type StopReason string
 // the goal was reached; the others are budget stops, after which the result
 // still holds the best certified bracket found.
 const (
-	StopTarget    StopReason = "target"    // the digits or width target is met
-	StopExact     StopReason = "exact"     // a bracket of zero width: lambda is known exactly
-	StopDecided   StopReason = "decided"   // Judge: the claim is proved or refuted
-	StopMaxN      StopReason = "max-n"     // Options.MaxN reached
-	StopMemory    StopReason = "memory"    // the next step would exceed Options.MaxMemory
-	StopTimeout   StopReason = "timeout"   // the context deadline (stopped in time to keep a bracket)
-	StopCancelled StopReason = "cancelled" // the context was cancelled
+	StopTarget  StopReason = "target"  // the digits or width target is met
+	StopExact   StopReason = "exact"   // a bracket of zero width: lambda is known exactly
+	StopDecided StopReason = "decided" // Judge: the claim is proved or refuted
+	StopMaxN    StopReason = "max-n"   // Options.MaxN reached
+	// StopCertifiable: Options.CertN reached; a bracket further on could
+	// not be certified within the caller's budgets.
+	StopCertifiable StopReason = "certifiable"
+	StopMemory      StopReason = "memory"    // the next step would exceed Options.MaxMemory
+	StopTimeout     StopReason = "timeout"   // the context deadline (stopped in time to keep a bracket)
+	StopCancelled   StopReason = "cancelled" // the context was cancelled
 )
 
 // ErrBudget is wrapped by every refusal that a larger budget would lift:
@@ -132,8 +135,11 @@ var ErrBudget = errors.New("bounds: over the budget")
 // BudgetError is a run refused or left without a bracket by a budget.
 type BudgetError struct {
 	// Stop names the budget: StopMemory (Options.MaxMemory), StopMaxN
-	// (Options.MaxN) or StopTimeout (the context's deadline).
+	// (Options.MaxN), StopCertifiable (Options.CertN) or StopTimeout (the
+	// context's deadline).
 	Stop StopReason
+	// Need is, for StopMemory, the bytes the first bracket needs.
+	Need int64
 	msg  string
 }
 
@@ -165,7 +171,10 @@ type Result struct {
 	Explicit *AllN
 	Stop     StopReason
 	// Detail explains a budget stop in words.
-	Detail    string
+	Detail string
+	// Need is, for StopMemory, the bytes the step or bracket refused would
+	// have needed.
+	Need      int64
 	Elapsed   time.Duration
 	Estimates Estimates
 }

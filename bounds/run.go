@@ -295,7 +295,7 @@ func drive(ctx context.Context, runners []*runner, opts Options, g goal, progres
 	stop, detail := StopReason(""), ""
 	for stop == "" {
 		l := combined(runners)
-		if g.met(l) {
+		if bracketed(runners) && g.met(l) {
 			stop = StopTarget
 			if _, ok := g.(judgeGoal); ok {
 				stop = StopDecided
@@ -316,6 +316,18 @@ func drive(ctx context.Context, runners []*runner, opts Options, g goal, progres
 	return finish(runners, e, stop, detail, start)
 }
 
+// bracketed reports whether every runner has a bracket: before that the
+// enclosure is only what holds for every set, [0, inf], and a goal is not
+// met by it (a claim below 0 is refuted by the first bracket).
+func bracketed(runners []*runner) bool {
+	for _, r := range runners {
+		if r.best == nil {
+			return false
+		}
+	}
+	return true
+}
+
 // checkFirstMemory plans the first bracket of every runner and refuses a
 // memory budget that cannot hold them, lowering the first n when that
 // helps.
@@ -324,8 +336,8 @@ func checkFirstMemory(runners []*runner, opts Options) error {
 		var need int64
 		for _, r := range runners {
 			r.next = r.first() + above
-			if opts.MaxN > 0 {
-				r.next = max(min(r.next, opts.MaxN), r.first())
+			if last, _ := opts.lastN(); last > 0 {
+				r.next = max(min(r.next, last), r.first())
 			}
 			need += r.firstNeed(r.next)
 		}
@@ -333,7 +345,7 @@ func checkFirstMemory(runners []*runner, opts Options) error {
 			return nil
 		}
 		if above == 0 {
-			return &BudgetError{Stop: StopMemory, msg: fmt.Sprintf("bounds: a first bracket needs %s, over the memory budget of %s; raise it", bytesize.About(need), bytesize.Format(opts.MaxMemory))}
+			return &BudgetError{Stop: StopMemory, Need: need, msg: fmt.Sprintf("bounds: a first bracket needs %s, over the memory budget of %s; raise it", bytesize.About(need), bytesize.Format(opts.MaxMemory))}
 		}
 	}
 	return nil
@@ -404,7 +416,7 @@ func dropDominated(runners []*runner, digests bool) {
 
 // finish assembles the result.
 func finish(runners []*runner, e *env, stop StopReason, detail string, start time.Time) (*Result, error) {
-	res := &Result{Stop: stop, Detail: detail}
+	res := &Result{Stop: stop, Detail: detail, Need: e.need}
 	for _, r := range runners {
 		r.digest(e.opts.Digests)
 		if r.best != nil {

@@ -219,6 +219,36 @@ func TestBudgetStops(t *testing.T) {
 		}
 		checkContains(t, "123", res, ref123)
 	})
+	t.Run("certifiable", func(t *testing.T) {
+		// CertN stops the run like MaxN, under its own name, and the
+		// lower of the two caps binds
+		res, err := Run(context.Background(), sys123, Options{Digits: 80, MaxN: 40, CertN: 22}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if res.Stop != StopCertifiable || res.Brackets[0].N != 22 {
+			t.Fatalf("stop %s at n = %d, want certifiable at 22", res.Stop, res.Brackets[0].N)
+		}
+		checkContains(t, "123", res, ref123)
+		if res, _ := Run(context.Background(), sys123, Options{Digits: 80, MaxN: 20, CertN: 22}, nil); res.Stop != StopMaxN {
+			t.Errorf("MaxN below CertN: stop %s, want max-n", res.Stop)
+		}
+	})
+	t.Run("reserve", func(t *testing.T) {
+		// time reserved after the run for certifying: a run with a whole
+		// second of deadline and a reserve of almost all of it stops
+		// early, and never before its first bracket
+		ctx, cancel := context.WithTimeout(context.Background(), time.Second)
+		defer cancel()
+		start := time.Now()
+		res, err := Run(ctx, sys1234, Options{Digits: 200, Reserve: func(int) time.Duration { return 900 * time.Millisecond }}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if res.Stop != StopTimeout || time.Since(start) > 700*time.Millisecond {
+			t.Fatalf("stop %s after %v, want a timeout stop well before the deadline", res.Stop, time.Since(start))
+		}
+	})
 	t.Run("memory", func(t *testing.T) {
 		const budget = 40 << 20
 		var peakN int

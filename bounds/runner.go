@@ -10,6 +10,7 @@ import (
 	"time"
 
 	"avoidcert/internal/bytesize"
+	"avoidcert/internal/memory"
 	"avoidcert/interval"
 	"avoidcert/transfer"
 )
@@ -60,6 +61,8 @@ type env struct {
 	combined func() Enclosure
 	// elsewhere returns the bytes held by the other blocks.
 	elsewhere func() int64
+	// need is what a step or bracket refused for memory would have needed.
+	need int64
 }
 
 func newRunner(ctx context.Context, block int, sys transfer.System, d int) (*runner, error) {
@@ -135,12 +138,24 @@ func (r *runner) baseNeed(j int, other int64) int64 {
 }
 
 // firstNeed returns the peak bytes up to the first bracket at n0.
-func (r *runner) firstNeed(n0 int) int64 {
+func (r *runner) firstNeed(n0 int) int64 { return r.needFrom(r.cur.N, n0) }
+
+// needFrom returns the peak bytes of stepping from G_from to a bracket at
+// n0.
+func (r *runner) needFrom(from, n0 int) int64 {
 	var peak int64
-	for n := r.cur.N; n < n0; n++ {
-		peak = max(peak, r.eng.Footprint(n)+r.size(n+1))
+	for n := from; n < n0; n++ {
+		peak = max(peak, r.eng.Footprint(n))
 	}
 	return max(peak, r.baseNeed(n0, 0))
+}
+
+// stepNeed returns the peak bytes of a plain step from the current
+// iterate, with other bytes held elsewhere: the step's Footprint (the
+// current iterate, the next one in the recycled storage or new, the
+// step's scratch) and what this runner holds besides.
+func (r *runner) stepNeed(other int64) int64 {
+	return other + r.held() - bytesOf(r.cur) - bytesOf(r.spare) + r.eng.Footprint(r.cur.N)
 }
 
 // advance steps until the next bracket is taken (and returns "") or a
@@ -153,9 +168,12 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 		cur := r.cur
 		if r.base != nil && cur.N == r.base.N+r.d {
 			k := r.base.N
-			if need := r.held() + r.evalNeed(k) + e.elsewhere(); budget > 0 && need > budget {
+			need := r.held() + r.evalNeed(k) + e.elsewhere()
+			if budget > 0 && need > budget {
+				e.need = need
 				return StopMemory, fmt.Sprintf("the bracket at n = %d would need %s, over the memory budget of %s", k, bytesize.About(need), bytesize.Format(budget)), nil
 			}
+			memory.Collect(need)
 			if err := r.evaluate(ctx, e); err != nil {
 				return stopFor(err)
 			}
@@ -164,14 +182,15 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 		K := cur.N
 		if r.base == nil {
 			// The earliest bracket still possible has base G_n.
-			if e.opts.MaxN > 0 && K > e.opts.MaxN {
-				return StopMaxN, fmt.Sprintf("reached the largest n allowed (%d)", e.opts.MaxN), nil
+			if last, why := e.opts.lastN(); last > 0 && K > last {
+				return why, fmt.Sprintf("no bracket past n = %d", last), nil
 			}
 			other := e.elsewhere() + r.pinnedExtra()
 			if need := r.baseNeed(K, other); budget > 0 && need > budget {
+				e.need = need
 				return StopMemory, fmt.Sprintf("a bracket at n = %d would need %s, over the memory budget of %s", K, bytesize.About(need), bytesize.Format(budget)), nil
 			}
-			if left, ok := timeLeft(ctx); ok && left < r.bracketTime(K) {
+			if left, ok := timeLeft(ctx); ok && left < r.bracketTime(K)+e.opts.reserve(K) {
 				return StopTimeout, fmt.Sprintf("stopped at G_%d: a further bracket would not finish before the deadline", K), nil
 			}
 			keep := K == r.next
@@ -179,7 +198,7 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 			if !keep && !early && budget > 0 && r.baseNeed(K+1, other) > budget {
 				keep = true // the last bracket the memory allows
 			}
-			if left, ok := timeLeft(ctx); ok && !keep && !early && left < r.stepEstimate(K)+r.bracketTime(K+1) {
+			if left, ok := timeLeft(ctx); ok && !keep && !early && left < r.stepEstimate(K)+r.bracketTime(K+1)+e.opts.reserve(K+1) {
 				keep = true // the last bracket the deadline allows
 			}
 			if keep {
@@ -189,7 +208,8 @@ func (r *runner) advance(ctx context.Context, e *env) (StopReason, string, error
 				continue
 			}
 		}
-		if need := r.held() - bytesOf(r.spare) + max(bytesOf(r.spare), r.size(K+1)) + e.elsewhere(); budget > 0 && need > budget {
+		if need := r.stepNeed(e.elsewhere()); budget > 0 && need > budget {
+			e.need = need
 			return StopMemory, fmt.Sprintf("the step to G_%d would need %s, over the memory budget of %s", K+1, bytesize.About(need), bytesize.Format(budget)), nil
 		}
 		if err := r.step(ctx, e, false); err != nil {
@@ -204,8 +224,11 @@ func (r *runner) step(ctx context.Context, e *env, keep bool) error {
 	t0 := time.Now()
 	var next *transfer.Iterate
 	var err error
+	if keep || !r.eng.Recycles(r.spare, cur.N+1) {
+		r.spare = nil // let the collector have it: the step allocates
+	}
+	memory.Collect(r.stepNeed(e.elsewhere()))
 	if keep {
-		r.spare = nil // let the collector have it: the kept step allocates
 		next, err = r.eng.Next(ctx, cur)
 	} else {
 		next, err = r.eng.Advance(ctx, cur, r.spare)
@@ -367,8 +390,8 @@ func (r *runner) plan(e *env) int {
 		}
 	}
 	next += origin
-	if e.opts.MaxN > 0 {
-		next = min(next, e.opts.MaxN)
+	if last, _ := e.opts.lastN(); last > 0 {
+		next = min(next, last)
 	}
 	return max(next, r.evaluated+r.d) // the base of a bracket is at or after G_(n+d)
 }

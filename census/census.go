@@ -11,7 +11,6 @@ import (
 	"avoidcert/certify"
 	"avoidcert/internal/par"
 	"avoidcert/pattern"
-	"avoidcert/prove"
 )
 
 // Lengths of patterns a census covers.
@@ -25,7 +24,11 @@ const (
 type Params struct {
 	Length int `json:"length"` // pattern length K
 	To     int `json:"to"`     // counts a_0..a_To
-	Digits int `json:"digits"` // significant digits certified for lambda
+	// Digits are the significant digits certified for lambda; 0 asks for
+	// counts, groups and forms only: each class is certified by the
+	// cheapest certificate its structure allows (prove.Classify), whose
+	// lambda range is coarse, and the groups are not refined.
+	Digits int `json:"digits"`
 	// RefineDigits caps the digits at which the classes of two adjacent
 	// count groups whose ranges overlap are bracketed again (Digits: no
 	// refinement).
@@ -39,8 +42,8 @@ func (p Params) Validate() error {
 		return fmt.Errorf("length %d is outside %d..%d", p.Length, MinLength, MaxLength)
 	case p.To < 0:
 		return fmt.Errorf("counts to n = %d: n must not be negative", p.To)
-	case p.Digits < 1:
-		return fmt.Errorf("%d digits: at least 1 is needed", p.Digits)
+	case p.Digits < 0:
+		return fmt.Errorf("%d digits: the digits must not be negative (0: counts, groups and forms only)", p.Digits)
 	case p.RefineDigits < p.Digits:
 		return fmt.Errorf("refining up to %d digits: the cap must be at least the census's %d digits", p.RefineDigits, p.Digits)
 	}
@@ -98,14 +101,14 @@ type Range struct {
 // the file bytes of a certificate the checker has accepted for exactly
 // this set, Checked the same certificate as it was checked. The row's
 // certified fields are read from Checked (its outward decimals, its
-// structure class and form), never given separately. Short says why the
-// bracket stopped before the digits asked for (a budget), "" when they
-// were reached: a class certificate must reach them, a refinement keeps
-// the best bracket it got.
+// structure class and form), never given separately. Short is the budget
+// that stopped the bracket before the digits asked for (wrapping
+// prove.ErrBudget), nil when they were reached: a class certificate must
+// reach them, a refinement keeps the best bracket it got.
 type Certified struct {
 	Certificate []byte
 	Checked     *certify.Certificate
-	Short       string
+	Short       error
 }
 
 // Certifier certifies one set to the given digits (structure, bracket,
@@ -295,8 +298,8 @@ func certifyClass(ctx context.Context, opts Options, j *journal, c pattern.Class
 	if err != nil {
 		return Row{}, fmt.Errorf("class %s: certifying: %w", rep, err)
 	}
-	if cert.Short != "" {
-		return Row{}, fmt.Errorf("class %s: %w: %d digits not reached: %s", rep, prove.ErrBudget, opts.Params.Digits, cert.Short)
+	if cert.Short != nil {
+		return Row{}, fmt.Errorf("class %s: %d digits not reached: %w", rep, opts.Params.Digits, cert.Short)
 	}
 	row := Row{Representative: rep}
 	row.fill(cert.Checked)

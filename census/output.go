@@ -87,7 +87,11 @@ func tableMarkdown(rep *Report) []byte {
 			rep.Shard, len(rep.Rows), rep.Classes)
 	}
 	o := summarizeOrder(rep)
-	fmt.Fprintf(&b, "- tool: %s; counts a_n for n <= %d; lambda certified to %d significant digits, classes of overlapping neighbouring groups refined up to %d\n", rep.Tool, p.To, p.Digits, p.RefineDigits)
+	if p.Digits == 0 {
+		fmt.Fprintf(&b, "- tool: %s; counts a_n for n <= %d; counts, groups and forms only: each class's certificate is its structure test's, with a coarse lambda range (no bracket aimed at digits, no refinement)\n", rep.Tool, p.To)
+	} else {
+		fmt.Fprintf(&b, "- tool: %s; counts a_n for n <= %d; lambda certified to %d significant digits, classes of overlapping neighbouring groups refined up to %d\n", rep.Tool, p.To, p.Digits, p.RefineDigits)
+	}
 	fmt.Fprintf(&b, "- symmetry classes (reverse, complement, both): %d\n", len(rep.Rows))
 	fmt.Fprintf(&b, "- groups with equal counts up to n = %d: %d, all separated by n = %d. A proved lower bound on the number of c-Wilf classes; the classes within a group are candidates for c-Wilf equivalence (evidence, not proof).\n",
 		p.To, len(rep.Groups), rep.SeparatingN)

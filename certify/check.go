@@ -14,14 +14,15 @@ const (
 	// DefaultMaxWork is the default cap on the estimated recomputation
 	// work, in coefficient operations (one big-integer addition or
 	// multiply-add each; see docs/certificate.md, "Limits", for the
-	// measured time of one). It is set so that every certificate the
-	// command line's bound writes at its defaults passes at this default:
-	// the memory estimate is the binding limit, this one stops only
-	// hostile certificates.
+	// measured time of one). Every command that writes certificates plans
+	// its brackets within this limit and DefaultMaxMemory, so whatever it
+	// writes at its defaults passes at these defaults; the memory estimate
+	// binds first in practice, this one stops hostile certificates.
 	DefaultMaxWork = 1_000_000_000_000
 	// DefaultMaxMemory is the default cap on the estimated memory of the
-	// recomputation, in bytes: 8 GiB, the default memory budget of bound.
-	DefaultMaxMemory = 8 << 30
+	// recomputation, in bytes: 4 GiB, the one default memory budget of
+	// every command (it leaves room on a CI runner with 7 GB of memory).
+	DefaultMaxMemory = 4 << 30
 )
 
 // ErrLimit is wrapped by every refusal that a raised CheckOptions limit

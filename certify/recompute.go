@@ -65,7 +65,19 @@ func (ck *checker) bracketWork(sys *system, b Bracket) float64 {
 // limits estimates the recomputation's work and memory and refuses it
 // above the options' limits; it sets ck.total for the progress reports.
 func (ck *checker) limits() error {
-	work, memory := 0.0, 0.0
+	work, memory := ck.cost()
+	ck.total = work
+	if work > float64(ck.opts.MaxWork) {
+		return &LimitError{Resource: "work", Need: work, Limit: float64(ck.opts.MaxWork)}
+	}
+	if memory > float64(ck.opts.MaxMemory) {
+		return &LimitError{Resource: "memory", Need: memory, Limit: float64(ck.opts.MaxMemory)}
+	}
+	return nil
+}
+
+// cost estimates the recomputation's work and memory (see limits).
+func (ck *checker) cost() (work, memory float64) {
 	for _, gr := range ck.groups() {
 		sys := newSystem(ck.sp, gr.states, gr.top)
 		from := ck.startN(ck.c.Evidence.Brackets[gr.brackets[0]])
@@ -104,16 +116,7 @@ func (ck *checker) limits() error {
 	}
 	// the structure section is verified first, on its own memory
 	sw, sm := ck.structureCost()
-	work += sw
-	memory = max(memory, sm)
-	ck.total = work
-	if work > float64(ck.opts.MaxWork) {
-		return &LimitError{Resource: "work", Need: work, Limit: float64(ck.opts.MaxWork)}
-	}
-	if memory > float64(ck.opts.MaxMemory) {
-		return &LimitError{Resource: "memory", Need: memory, Limit: float64(ck.opts.MaxMemory)}
-	}
-	return nil
+	return work + sw, max(memory, sm)
 }
 
 // progress adds work units to the progress and reports it.

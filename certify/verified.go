@@ -88,6 +88,13 @@ func bracketInWords(b Bracket, states int) string {
 	return fmt.Sprintf("bracket of G_%d against G_%d, step %d, on %s", b.N, b.N+b.Step, b.Step, system)
 }
 
+// LambdaZero reports whether the certificate proves lambda = 0 (its
+// structure section, or an upper end of 0): then 1/lambda has no value,
+// and Lines says so rather than print an interval up to infinity.
+func (v Verified) LambdaZero() bool {
+	return v.LambdaStatus == string(LambdaZero) || v.Lambda[1] == "0"
+}
+
 // Lines states v one claim a line, in plain text.
 func (v Verified) Lines() []string {
 	end := func(s string) string {
@@ -96,10 +103,14 @@ func (v Verified) Lines() []string {
 		}
 		return s
 	}
+	radius := fmt.Sprintf("1/lambda in [%s, %s]", end(v.Radius[0]), end(v.Radius[1]))
+	if v.LambdaZero() {
+		radius = "1/lambda: none (lambda = 0)"
+	}
 	lines := []string{
 		fmt.Sprintf("the set %s (window length %d)", strings.Join(v.Patterns, ","), v.Window),
 		fmt.Sprintf("lambda   in [%s, %s]", end(v.Lambda[0]), end(v.Lambda[1])),
-		fmt.Sprintf("1/lambda in [%s, %s]", end(v.Radius[0]), end(v.Radius[1])),
+		radius,
 	}
 	switch {
 	case v.Class == "":

@@ -188,7 +188,7 @@ func Read(r io.Reader) (*Certificate, error) {
 			return nil, fmt.Errorf("certificate: truncated or damaged: the file does not end with the end marker %q", EndMarker)
 		}
 		if treeErr != nil {
-			return nil, fmt.Errorf("certificate: not valid JSON: %s", jsonProblem(treeErr))
+			return nil, fmt.Errorf("certificate: %s", jsonProblem(treeErr))
 		}
 		return nil, fmt.Errorf("certificate: end marker is %q, not %q", abbreviate(end), EndMarker)
 	}
@@ -718,9 +718,9 @@ func jsonProblem(err error) string {
 	var syntaxErr *json.SyntaxError
 	switch {
 	case errors.As(err, &typeErr):
-		return fmt.Sprintf("%s: %s is not a valid %s here (at byte %d)", abbreviate(typeErr.Field), abbreviate(typeErr.Value), typeErr.Type, typeErr.Offset)
+		return fmt.Sprintf("%s: a %s where the format has another kind of value (at byte %d)", abbreviate(typeErr.Field), abbreviate(typeErr.Value), typeErr.Offset)
 	case errors.As(err, &syntaxErr):
-		return fmt.Sprintf("not valid JSON at byte %d: %s", syntaxErr.Offset, abbreviate(syntaxErr.Error()))
+		return fmt.Sprintf("not valid JSON at byte %d (a character out of place: the file was changed or damaged)", syntaxErr.Offset)
 	}
 	return abbreviate(err.Error())
 }

@@ -167,7 +167,7 @@ func TestReadRefusesDamagedFiles(t *testing.T) {
 		{"too large", append(bytes.Repeat([]byte(" "), certify.MaxFileSize), good...), "larger than the limit"},
 		{"long number", redigest(bytes.Replace(good, []byte(`"mu_lo": "`), []byte(`"mu_lo": "`+strings.Repeat("1", 5000)), 1)), "over the limit"},
 		{"huge n", redigest(bytes.Replace(good, []byte(`"n": 8`), []byte(`"n": 80000`), 1)), "out of range"},
-		{"n not an integer", redigest(bytes.Replace(good, []byte(`"n": 8`), []byte(`"n": 8.5`), 1)), "is not a valid int"},
+		{"n not an integer", redigest(bytes.Replace(good, []byte(`"n": 8`), []byte(`"n": 8.5`), 1)), "a number 8.5 where the format has another kind of value"},
 		{"start unknown", redigest(bytes.Replace(good, []byte(`"start": "empty"`), []byte(`"start": "full"`), 1)), "not one of empty, ones, whole"},
 		{"infinite lo", redigest(bytes.Replace(good, []byte(`"mu_lo": "`), []byte(`"mu_lo": "", "x": "`), 1)), "\"x\" is not a member name"},
 	} {

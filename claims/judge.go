@@ -132,7 +132,7 @@ func certifiedFor(c Claim) certified {
 				}
 				o := growthOutcome(c, j.Certified)
 				if o.verdict == Undecided {
-					o.evidence += "; " + stopWords(j.Bracket)
+					o.evidence += "; " + stopWords(j.Result)
 				}
 				return []*certify.Certificate{j.Certificate}, o, nil
 			},
@@ -164,9 +164,9 @@ func certifiedFor(c Claim) certified {
 			}
 			o := orderOutcome(c, cmp.First.Certificate, cmp.Second.Certificate)
 			if o.verdict == Undecided && !cmp.First.Done() {
-				o.evidence += "; " + stopWords(cmp.First.Bracket)
+				o.evidence += "; " + stopWords(cmp.First)
 			} else if o.verdict == Undecided && !cmp.Second.Done() {
-				o.evidence += "; " + stopWords(cmp.Second.Bracket)
+				o.evidence += "; " + stopWords(cmp.Second)
 			}
 			return []*certify.Certificate{cmp.First.Certificate, cmp.Second.Certificate}, o, nil
 		},
@@ -230,18 +230,28 @@ func disjointAt(a, b bounds.Enclosure, digits int) bool {
 	return printed(a.Hi, true).Cmp(printed(b.Lo, false)) < 0 || printed(b.Hi, true).Cmp(printed(a.Lo, false)) < 0
 }
 
-func stopWords(res *bounds.Result) string {
-	if res.Detail != "" {
-		return fmt.Sprintf("budget stop (%s): %s", res.Stop, res.Detail)
+// stopWords says which budget of the claim stopped a run, and what more
+// it would need.
+func stopWords(r *prove.Result) string {
+	if over := r.Stopped(); over != nil {
+		return "budget stop: " + over.Explain(fieldOf)
 	}
-	return fmt.Sprintf("budget stop (%s at n = %d)", res.Stop, res.Brackets[0].N)
+	return "decided"
+}
+
+// fieldOf names the manifest field (or gate flag) that sets a budget.
+func fieldOf(b prove.Budget) string {
+	return map[prove.Budget]string{prove.BudgetMemory: "max_memory", prove.BudgetTime: "timeout", prove.BudgetMaxK: "max_k"}[b]
 }
 
 // budgetOutcome turns a budget error into an undecided verdict, and
 // reports false for any other error.
 func budgetOutcome(err error, claimCtx, runCtx context.Context, c Claim) (outcome, bool) {
+	var be *prove.BudgetError
 	switch {
-	case errors.Is(err, prove.ErrBudget):
+	case errors.As(err, &be) && (be.Budget != prove.BudgetTime || be.Need > 0):
+		return outcome{Undecided, be.Explain(fieldOf)}, true
+	case errors.Is(err, prove.ErrBudget) && !errors.Is(err, context.DeadlineExceeded):
 		return outcome{Undecided, strings.TrimPrefix(err.Error(), "prove: ")}, true
 	case errors.Is(err, context.DeadlineExceeded) && runCtx.Err() != nil:
 		return outcome{Undecided, "the run's timeout was spent before this claim was decided"}, true

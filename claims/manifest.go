@@ -19,6 +19,7 @@ import (
 	"avoidcert/internal/input"
 	"avoidcert/interval"
 	"avoidcert/pattern"
+	"avoidcert/prove"
 )
 
 // Kind names what a claim states.
@@ -52,7 +53,7 @@ type Budget struct {
 const MaxClaims = 10000
 
 // DefaultBudget is a claim's budget when the manifest sets none.
-var DefaultBudget = Budget{MaxK: certify.MaxN, MaxN: 100, MaxMemory: 4 << 30}
+var DefaultBudget = Budget{MaxK: certify.MaxN, MaxN: 100, MaxMemory: prove.DefaultMaxMemory}
 
 // Manifest is a parsed claims file.
 type Manifest struct {

@@ -81,18 +81,12 @@ func Run(ctx context.Context, m *Manifest, opts Options) ([]Result, error) {
 		runCtx, cancel = context.WithTimeout(ctx, timeout)
 		defer cancel()
 	}
-	memCap := m.MaxMemory
-	if opts.MaxMemory > 0 {
-		memCap = opts.MaxMemory
-	}
 	var results []Result
 	for _, c := range m.Claims {
 		if err := ctx.Err(); err != nil {
 			return results, err
 		}
-		if memCap > 0 {
-			c.Budget.MaxMemory = min(c.Budget.MaxMemory, memCap)
-		}
+		c.Budget.MaxMemory = m.claimMemory(c, opts)
 		r := judge(runCtx, c, opts)
 		r.Manifest = m.File
 		if err := ctx.Err(); err != nil {
@@ -104,6 +98,30 @@ func Run(ctx context.Context, m *Manifest, opts Options) ([]Result, error) {
 		}
 	}
 	return results, nil
+}
+
+// MemoryLimit is the largest memory budget a claim of the run may use:
+// every claim's max_memory, capped by opts.MaxMemory or else by [run]
+// max_memory.
+func (m *Manifest) MemoryLimit(opts Options) int64 {
+	var largest int64
+	for _, c := range m.Claims {
+		largest = max(largest, m.claimMemory(c, opts))
+	}
+	return largest
+}
+
+// claimMemory is the memory budget of claim c within the run's cap:
+// opts.MaxMemory, which overrides [run] max_memory.
+func (m *Manifest) claimMemory(c Claim, opts Options) int64 {
+	limit := m.MaxMemory
+	if opts.MaxMemory > 0 {
+		limit = opts.MaxMemory
+	}
+	if limit > 0 {
+		return min(c.Budget.MaxMemory, limit)
+	}
+	return c.Budget.MaxMemory
 }
 
 func judge(runCtx context.Context, c Claim, opts Options) Result {
@@ -118,7 +136,14 @@ func judge(runCtx context.Context, c Claim, opts Options) Result {
 	r := Result{ID: c.ID, Kind: c.Kind, Line: c.Line, Claim: c}
 	var o outcome
 	err := ctx.Err()
-	if err == nil {
+	why := ""
+	if c.Kind == KindGrowth {
+		why = prove.Impossible(c.Claimed, c.Of)
+	}
+	if err == nil && why != "" {
+		// refuted by what every set satisfies: no certificate is needed
+		o = outcome{Refuted, why + "; no certificate needed"}
+	} else if err == nil {
 		switch c.Kind {
 		case KindCount, KindEqualCounts, KindProbability:
 			o, err = judgeCounts(ctx, c, po)

@@ -77,6 +77,25 @@ of = "radius"
 interval = ["1.57079", "1.57080"]
 
 [[claim]]
+id = "growth-negative"
+kind = "growth"
+patterns = ["123"]
+value = "-0.5"
+
+[[claim]]
+id = "growth-above-one"
+kind = "growth"
+patterns = ["123"]
+interval = ["1.01", "2"]
+
+[[claim]]
+id = "radius-below-one"
+kind = "growth"
+patterns = ["123"]
+of = "radius"
+value = "0.5"
+
+[[claim]]
 id = "growth-undecided"
 kind = "growth"
 patterns = ["1342"]
@@ -193,10 +212,13 @@ func TestVerdicts(t *testing.T) {
 		"growth-last-digit":        {Refuted, "outside the claim"},
 		"radius-truncated":         {Proved, "radius in [1.04754"},
 		"radius-pi-half":           {Proved, "radius in [1.570796"},
-		"growth-undecided":         {Undecided, "budget stop (max-n"},
+		"growth-negative":          {Refuted, "every set has 0 <= lambda <= 1, since 0 <= a_n <= n!, and the claim lies below 0"},
+		"growth-above-one":         {Refuted, "every set has 0 <= lambda <= 1, since 0 <= a_n <= n!, and the claim lies above 1"},
+		"radius-below-one":         {Refuted, "every set has 1/lambda >= 1"},
+		"growth-undecided":         {Undecided, "is the last that max_k 6 allows; raise max_k"},
 		"form-true":                {Proved, "periodic with period 2"},
 		"form-false":               {Refuted, "proves subexponential"},
-		"form-undecided":           {Undecided, "memory budget"},
+		"form-undecided":           {Undecided, "over max_memory 1.0 KiB; raise max_memory to"},
 		"order-true":               {Proved, "is below"},
 		"order-false":              {Refuted, "is not below"},
 		"order-undecided":          {Undecided, "overlaps"},
@@ -215,7 +237,11 @@ func TestVerdicts(t *testing.T) {
 		if r.Verdict != w.verdict || !strings.Contains(r.Evidence, w.says) {
 			t.Errorf("%s: %s (%s); want %s, saying %q", r.ID, r.Verdict, r.Evidence, w.verdict, w.says)
 		}
-		if r.Kind == KindGrowth || r.Kind == KindOrder || (r.Kind == KindForm && r.Verdict != Undecided) {
+		impossible := strings.Contains(r.Evidence, "no certificate needed")
+		if impossible != (r.ID == "growth-negative" || r.ID == "growth-above-one" || r.ID == "radius-below-one") {
+			t.Errorf("%s: %s; only a claim no set satisfies is refuted without a certificate", r.ID, r.Evidence)
+		}
+		if !impossible && (r.Kind == KindGrowth || r.Kind == KindOrder || (r.Kind == KindForm && r.Verdict != Undecided)) {
 			if len(r.Certificates) == 0 || len(r.Certificates[0].SHA256) != 64 {
 				t.Errorf("%s: no certificate digest: %+v", r.ID, r.Certificates)
 			}

@@ -7,6 +7,7 @@ import (
 
 	"avoidcert/internal/settest"
 	"avoidcert/pattern"
+	"avoidcert/prove"
 )
 
 // BenchmarkOccurrences times the layered iteration at the sizes quoted in
@@ -59,7 +60,7 @@ func rangeLayers(set pattern.Set, N int) int {
 func exactRange(set pattern.Set) int {
 	fits := func(N int) bool {
 		c := OccurrenceCost(set, N, rangeLayers(set, N))
-		return c.Work <= DefaultWork && c.Memory <= ExactMemory
+		return c.Work <= DefaultWork && c.Memory <= prove.DefaultMaxMemory
 	}
 	lo, hi := 1, 100_000
 	for lo < hi {

@@ -8,7 +8,6 @@ import (
 	"avoidcert/internal/bytesize"
 	"avoidcert/pattern"
 	"avoidcert/prove"
-	"avoidcert/transfer"
 )
 
 // MaxExactN is the largest N that Exact counts to: a_N for N <= 500 takes
@@ -16,25 +15,14 @@ import (
 // (docs/benchmarks.md); the memory limit of Exact decides below it.
 const MaxExactN = 500
 
-// ExactMemory is the default memory limit of the exact range: a count
-// estimated (InExactRange) to need more is answered with a certified
-// interval instead. 123 reaches N = 500 within it (15 s, 461 MB measured).
-const ExactMemory = 1 << 30
-
-// bothCounts scales the engine's computed footprint to an estimate for
-// the engine and the checker counting side by side (prove.Counts): the
-// peak resident memory measured once was 3.8 times the engine's footprint
-// for 123 at N = 500 (461 MB) and 4.2 times for 1342 at N = 200 (2.66 GB);
-// an estimate, not a bound.
-const bothCounts = 4.5
-
 // InExactRange reports whether a_N is counted exactly within memory bytes
-// (N <= MaxExactN and the estimated memory fits), and the estimate.
+// (N <= MaxExactN and the estimated memory of the engine and the checker
+// counting side by side, prove.CountsMemory, fits), and the estimate.
 func InExactRange(set pattern.Set, N int, memory int64) (bool, int64) {
 	if N < 0 || N > MaxExactN {
 		return false, 0
 	}
-	need := int64(float64(transfer.CountsFootprint(set, N)) * bothCounts)
+	need := prove.CountsMemory(set, N, prove.Options{})
 	return need <= memory, need
 }
 
@@ -47,7 +35,7 @@ func Exact(ctx context.Context, set pattern.Set, N int, memory int64) (*big.Int,
 		if N < 0 || N > MaxExactN {
 			return nil, nil, fmt.Errorf("prob: N = %d is outside the exact range 0..%d", N, MaxExactN)
 		}
-		return nil, nil, fmt.Errorf("%w: counting %s to N = %d needs %s, over %s",
+		return nil, nil, fmt.Errorf("%w: counting %s to N = %d needs %s, over the memory budget of %s",
 			prove.ErrBudget, set, N, bytesize.About(need), bytesize.Format(memory))
 	}
 	counts, err := prove.Counts(ctx, set, N, prove.Options{MaxMemory: memory})

@@ -347,7 +347,7 @@ func TestAvoidAll(t *testing.T) {
 		t.Fatal(err)
 	}
 	ratio := func(n int) *big.Rat { return new(big.Rat).SetFrac(counts[n], factorial(n)) }
-	exact, err := AvoidAll(ctx, set, []int{30, 29, 29}, ExactMemory, 1e-6, prove.Options{})
+	exact, err := AvoidAll(ctx, set, []int{30, 29, 29}, prove.DefaultMaxMemory, 1e-6, prove.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

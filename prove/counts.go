@@ -2,11 +2,13 @@ package prove
 
 import (
 	"context"
+	"errors"
 	"fmt"
+	"math"
 	"math/big"
 
 	"avoidcert/certify"
-	"avoidcert/internal/bytesize"
+	"avoidcert/internal/memory"
 	"avoidcert/internal/par"
 	"avoidcert/pattern"
 	"avoidcert/transfer"
@@ -17,15 +19,16 @@ import (
 // opts.Typed when set: the patterns as the user typed them), at the same
 // time. It returns the counts only when the two agree;
 // otherwise the error names the first n where they differ. A count whose
-// engine iterates would need more than opts.MaxMemory is refused before
-// the work (ErrBudget).
+// estimated memory (CountsMemory) is over opts.MaxMemory is refused before
+// the work with a *BudgetError.
 func Counts(ctx context.Context, set pattern.Set, n int, opts Options) ([]*big.Int, error) {
 	if n < 0 {
 		return nil, fmt.Errorf("prove: counts up to n = %d: n must not be negative", n)
 	}
-	if need := transfer.CountsFootprint(set, n); need > opts.maxMemory() {
-		return nil, fmt.Errorf("%w: counting %s to n = %d needs %s, over the memory budget of %s",
-			ErrBudget, set, n, bytesize.About(need), bytesize.Format(opts.maxMemory()))
+	need := CountsMemory(set, n, opts)
+	if need > opts.maxMemory() {
+		return nil, &BudgetError{Budget: BudgetMemory, What: fmt.Sprintf("counting %s to n = %d (the engine and the checker side by side)", set, n),
+			Need: float64(need), Limit: float64(opts.maxMemory()), err: errors.New("counts over the memory budget")}
 	}
 	type counted struct {
 		counts []*big.Int
@@ -42,7 +45,16 @@ func Counts(ctx context.Context, set pattern.Set, n int, opts Options) ([]*big.I
 		c, err := certify.Counts(ctx, opts.given(set), n)
 		ownDone <- counted{c, err}
 	}()
-	engine, err := transfer.Counts(ctx, set, n, nil)
+	// The checker's iteration allocates each iterate anew: in the second
+	// half of a large count, where the iterates are largest, the collector
+	// runs before each of the engine's steps so that the checker's dead
+	// iterates do not pile up next to both live ones.
+	collect := func(k, last int) {
+		if 2*k >= last {
+			memory.Collect(need)
+		}
+	}
+	engine, err := transfer.Counts(ctx, set, n, collect)
 	own := <-ownDone
 	panicked.Raise()
 	switch {
@@ -57,6 +69,20 @@ func Counts(ctx context.Context, set pattern.Set, n int, opts Options) ([]*big.I
 		}
 	}
 	return engine, nil
+}
+
+// CountsMemory estimates the peak bytes of Counts(ctx, set, n, opts), in
+// time independent of n: the engine's (transfer.CountsFootprint) and the
+// checker's, which counts with the iteration it re-checks brackets with:
+// its estimate for a bracket at n - 1 with step 1 (certify.Estimate), which
+// iterates the same G_0 .. G_n and holds one table more.
+func CountsMemory(set pattern.Set, n int, opts Options) int64 {
+	engine := transfer.CountsFootprint(set, n)
+	_, checker, err := certify.Estimate(opts.given(set), nil, []certify.Planned{{Start: certify.StartEmpty, Step: 1, N: max(n-1, 0)}}, 64)
+	if err != nil {
+		return engine // the checker cannot read the set: its count will say so
+	}
+	return engine + int64(min(checker, math.MaxInt64/2))
 }
 
 func countAt(c []*big.Int, i int) string {

@@ -101,3 +101,29 @@ func (f Form) Words() string {
 	}
 	return "undecided: primitivity and the period are not proved"
 }
+
+// LambdaZero reports whether a checked certificate proves lambda = 0 (its
+// structure section, or an upper end of 0): then 1/lambda has no value
+// (Enclosure gives it as +infinity).
+func LambdaZero(c *certify.Certificate) bool {
+	return Enclosure(c, bounds.QuantityLambda).Hi.Sign() == 0
+}
+
+// Impossible says why no set of patterns has its quantity in the claimed
+// interval, when the claim misses what every set satisfies: 0 <= a_n <= n!
+// gives 0 <= lambda <= 1, so 1/lambda >= 1 (and none at all when
+// lambda = 0). It returns "" when the claim is possible. Such a claim is
+// refuted without a certificate.
+func Impossible(claim interval.Interval, of bounds.Quantity) string {
+	zero, one := new(big.Rat), big.NewRat(1, 1)
+	const every = "every set has 0 <= lambda <= 1, since 0 <= a_n <= n!"
+	switch {
+	case of == bounds.QuantityRadius && claim.Hi.Cmp(one) < 0:
+		return "every set has 1/lambda >= 1, since 0 <= a_n <= n!, and the claim lies below 1"
+	case of != bounds.QuantityRadius && claim.Hi.Cmp(zero) < 0:
+		return every + ", and the claim lies below 0"
+	case of != bounds.QuantityRadius && claim.Lo.Cmp(one) > 0:
+		return every + ", and the claim lies above 1"
+	}
+	return ""
+}

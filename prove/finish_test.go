@@ -21,7 +21,10 @@ func TestFinishRefusedCertificate(t *testing.T) {
 		t.Fatal(err)
 	}
 	opts := Options{Digits: 6}
-	bo := p.options(opts)
+	bo, err := p.options(ctx, opts, endBits(6))
+	if err != nil {
+		t.Fatal(err)
+	}
 	bo.Digits = 6
 	res, err := p.bracket(ctx, bo, nil)
 	if err != nil {

@@ -15,8 +15,9 @@ import (
 // Defaults of Options.
 const (
 	// DefaultMaxMemory caps the engine's and the checker's estimated
-	// memory when Options.MaxMemory is 0.
-	DefaultMaxMemory = 8 << 30
+	// memory when Options.MaxMemory is 0: the checker's own default, the
+	// one default memory budget of every command.
+	DefaultMaxMemory = certify.DefaultMaxMemory
 	// DefaultCheckWork caps the checker's estimated work when
 	// Options.CheckWork is 0: the checker's own default (also that of
 	// 'avoidcert check'), so whatever Certify builds within its memory
@@ -81,6 +82,22 @@ type Options struct {
 	// CheckProgress, if set, receives the checker's estimated work done
 	// and total (certify.CheckOptions.Progress).
 	CheckProgress func(done, total int64)
+	// Planned, if set, receives the plan of a bracket run before the run
+	// starts: how far the budgets let it go.
+	Planned func(Plan)
+}
+
+// Plan is how far a bracket run may go, found before it starts: brackets
+// up to n = LastN, the largest the budgets allow (Beyond, when not nil,
+// is why none past it could be certified; nil when MaxK binds), and the
+// checker's estimated work and time for re-checking a certificate of a
+// bracket at LastN (an estimate, from its work estimate at a measured
+// speed).
+type Plan struct {
+	LastN     int
+	Beyond    *BudgetError
+	CheckWork float64
+	CheckTime time.Duration
 }
 
 // Event is a progress event of a bracket run, with the number of blocks

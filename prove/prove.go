@@ -5,7 +5,9 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"math"
 	"math/big"
+	"time"
 
 	"avoidcert/bounds"
 	"avoidcert/certify"
@@ -31,6 +33,9 @@ type Result struct {
 	Certificate *certify.Certificate
 	// Estimates are floating-point figures for orientation, not proved.
 	Estimates Estimates
+
+	opts   Options
+	beyond *BudgetError
 }
 
 // Estimates are figures for orientation: estimate, not certified, and to
@@ -63,6 +68,37 @@ func (r *Result) Done() bool {
 	return r.Report.Class == structure.Subexponential
 }
 
+// Stopped returns, when a budget stopped the bracket run before its goal,
+// that budget, what it stopped and what more was needed when known (the
+// figures of a memory stop, or of the checker's re-check of a bracket
+// further on); nil when the run reached its goal.
+func (r *Result) Stopped() *BudgetError {
+	if r.Done() {
+		return nil
+	}
+	res := r.Bracket
+	switch res.Stop {
+	case bounds.StopCertifiable:
+		if r.beyond != nil {
+			return r.beyond
+		}
+	case bounds.StopMemory:
+		return &BudgetError{Budget: BudgetMemory, What: fmt.Sprintf("a bracket past n = %d", r.lastN()), Need: float64(res.Need), Limit: float64(r.opts.maxMemory())}
+	case bounds.StopMaxN:
+		return &BudgetError{Budget: BudgetMaxK, What: fmt.Sprintf("the bracket at n = %d (k = %d)", r.lastN(), r.lastN()-r.States.MaxLength()), Limit: float64(r.opts.MaxK)}
+	}
+	return &BudgetError{Budget: BudgetTime, What: fmt.Sprintf("a bracket past n = %d", r.lastN())}
+}
+
+// lastN is the largest n of the brackets the result rests on.
+func (r *Result) lastN() int {
+	n := 0
+	for _, b := range r.Bracket.Brackets {
+		n = max(n, b.N)
+	}
+	return n
+}
+
 // Certify brackets the growth rate of set to the target of opts (or until
 // a budget stops it), builds the certificate and returns it once the
 // checker has accepted it.
@@ -73,7 +109,18 @@ func Certify(ctx context.Context, set pattern.Set, opts Options) (*Result, error
 	if err != nil {
 		return nil, err
 	}
-	bo := p.options(opts)
+	target := opts.Digits
+	if target == 0 && opts.Width == nil {
+		target = defaultDigits
+	}
+	if opts.Width != nil {
+		w, _ := opts.Width.Float64()
+		target = max(target, int(math.Ceil(-math.Log10(w))))
+	}
+	bo, err := p.options(runCtx, opts, endBits(target))
+	if err != nil {
+		return nil, err
+	}
 	bo.Digits, bo.Width = opts.Digits, opts.Width
 	if bo.Digits == 0 && bo.Width == nil {
 		bo.Digits = defaultDigits
@@ -100,22 +147,32 @@ func Classify(ctx context.Context, set pattern.Set, opts Options) (*Result, erro
 }
 
 // Judgement is the verdict on a claim that lambda (or 1/lambda) lies in an
-// interval, read from a checked certificate.
+// interval, read from a checked certificate, or for a claim no set can
+// satisfy, from the bounds every set satisfies.
 type Judgement struct {
 	Verdict bounds.Verdict
 	// Certified is the enclosure of the claimed quantity that the
 	// certificate proves (Enclosure of the certificate).
 	Certified bounds.Enclosure
+	// Impossible, when not "", is why no set has the claimed value
+	// (Impossible): the verdict is Refuted, and there is no certificate
+	// (Result is nil).
+	Impossible string
 	*Result
 }
 
 // Judge decides the claim that the quantity of set lies in the closed
 // interval claim: it tightens the bracket until it lies inside the claim
 // or misses it, or a budget stops it, then certifies and checks the final
-// bracket and reads the verdict from the checked certificate (Decide).
+// bracket and reads the verdict from the checked certificate (Decide). A
+// claim that no set satisfies (Impossible) is refuted at once, without a
+// certificate.
 func Judge(ctx context.Context, set pattern.Set, claim interval.Interval, of bounds.Quantity, opts Options) (*Judgement, error) {
 	if claim.Lo == nil || claim.Hi == nil || claim.Lo.Cmp(claim.Hi) > 0 {
 		return nil, errors.New("prove: a claimed interval needs finite ends with lo <= hi")
+	}
+	if why := Impossible(claim, of); why != "" {
+		return &Judgement{Verdict: bounds.Refuted, Impossible: why}, nil
 	}
 	runCtx, cancel := opts.withDeadline(ctx)
 	defer cancel()
@@ -123,7 +180,10 @@ func Judge(ctx context.Context, set pattern.Set, claim interval.Interval, of bou
 	if err != nil {
 		return nil, err
 	}
-	bo := p.options(opts)
+	bo, err := p.options(runCtx, opts, endBits(interval.CommonDigits(claim.Lo, claim.Hi)+4))
+	if err != nil {
+		return nil, err
+	}
 	var res *bounds.Result
 	if p.rep.Class == structure.Subexponential {
 		// lambda = 0 is proved by the structure pass; a short run gives
@@ -132,7 +192,7 @@ func Judge(ctx context.Context, set pattern.Set, claim interval.Interval, of bou
 		res, err = p.bracket(runCtx, bo, p.progress(opts))
 	} else {
 		_, res, err = bounds.JudgeBlocks(runCtx, p.states, p.blocks, claim, of, bo, p.progress(opts))
-		err = budgetError(runCtx, err)
+		err = budgetError(runCtx, err, opts)
 	}
 	if err != nil {
 		return nil, err
@@ -217,7 +277,7 @@ func check(ctx context.Context, c *certify.Certificate, set pattern.Set, opts Op
 	}
 	err := certify.Check(ctx, c, certify.CheckOptions{Expect: opts.expect(set), MaxWork: opts.checkWork(), MaxMemory: opts.maxMemory(), Progress: opts.CheckProgress})
 	if errors.Is(err, certify.ErrLimit) {
-		return fmt.Errorf("%w: %w", ErrBudget, err)
+		return budgetError(ctx, err, opts)
 	}
 	return err
 }
@@ -228,6 +288,9 @@ type plan struct {
 	states *transfer.States
 	step   int
 	blocks [][]int // nil: the whole system
+	opts   Options
+	// beyond is why no bracket past the run's CertN could be certified
+	beyond *BudgetError
 }
 
 // planFor runs the structure test within the memory budget of opts and
@@ -237,9 +300,9 @@ type plan struct {
 func planFor(ctx context.Context, set pattern.Set, opts Options) (*plan, error) {
 	rep, err := structure.Analyze(ctx, set, structure.Options{MaxMemory: opts.maxMemory(), Witnesses: opts.Witnesses})
 	if err != nil {
-		return nil, budgetError(ctx, err)
+		return nil, budgetError(ctx, err, opts)
 	}
-	p := &plan{rep: rep, states: rep.States, step: 1}
+	p := &plan{rep: rep, states: rep.States, step: 1, opts: opts}
 	switch rep.Class {
 	case structure.Periodic:
 		p.step = rep.Period
@@ -250,17 +313,52 @@ func planFor(ctx context.Context, set pattern.Set, opts Options) (*plan, error) 
 }
 
 // options are the bracket options of the plan within the budgets of opts,
-// with the digests a certificate needs.
-func (p *plan) options(opts Options) bounds.Options {
-	return bounds.Options{Step: p.step, MaxN: opts.maxN(p.states), MaxMemory: opts.maxMemory(), Digests: true}
+// with the digests a certificate needs: no bracket past the largest n
+// whose certificate the checker could re-check within the same budgets,
+// and with a deadline, time left to certify the last bracket. What cannot
+// fit even a first bracket is refused here, before the work (a
+// *BudgetError); endBits estimates the length of the bracket ends.
+func (p *plan) options(ctx context.Context, opts Options, endBits int) (bounds.Options, error) {
+	bo := bounds.Options{Step: p.step, MaxN: p.lastN(opts), MaxMemory: opts.maxMemory(), Digests: true}
+	lim, err := p.limit(opts, bo.MaxN, endBits)
+	if err != nil {
+		return bo, err
+	}
+	p.beyond = lim.beyond
+	bo.CertN = lim.certN
+	if opts.Planned != nil {
+		last := bo.MaxN
+		if lim.certN > 0 {
+			last = min(last, lim.certN)
+		}
+		work, _, _ := certify.Estimate(opts.expect(p.rep.Set), Structure(p.rep), p.planned(last), endBits)
+		opts.Planned(Plan{LastN: last, Beyond: lim.beyond, CheckWork: work, CheckTime: p.reserve(opts, endBits)(last)})
+	}
+	if deadline, ok := ctx.Deadline(); ok {
+		bo.Reserve = p.reserve(opts, endBits)
+		first := p.states.MaxLength()
+		if need, left := bo.Reserve(first), time.Until(deadline); need > left {
+			return bo, &BudgetError{Budget: BudgetTime, What: fmt.Sprintf("the checker's re-check of a first bracket (n = %d)", first),
+				Need: need.Seconds(), Limit: max(left, 0).Seconds(), err: context.DeadlineExceeded}
+		}
+	}
+	return bo, nil
+}
+
+// lastN is the largest bracket n of the plan: that of opts, and a short
+// run for a subexponential set, whose lambda = 0 is proved by the
+// structure pass (the bracket only bounds the decay).
+func (p *plan) lastN(opts Options) int {
+	n := opts.maxN(p.states)
+	if p.rep.Class == structure.Subexponential {
+		n = min(n, 40+p.states.MaxLength())
+	}
+	return n
 }
 
 // bracket runs the bracket search the plan asks for. A subexponential set
 // has lambda = 0 proved: only a short run for the explicit upper bound.
 func (p *plan) bracket(ctx context.Context, opts bounds.Options, progress bounds.Progress) (*bounds.Result, error) {
-	if p.rep.Class == structure.Subexponential {
-		opts.MaxN = min(opts.MaxN, 40+p.states.MaxLength())
-	}
 	var res *bounds.Result
 	var err error
 	if p.blocks != nil {
@@ -268,26 +366,7 @@ func (p *plan) bracket(ctx context.Context, opts bounds.Options, progress bounds
 	} else {
 		res, err = bounds.Run(ctx, p.states, opts, progress)
 	}
-	return res, budgetError(ctx, err)
-}
-
-// budgetError marks the refusals that a larger budget would lift (the
-// structure test's structure.ErrBudget: its memory estimate over the
-// budget; the bracket runs' bounds.ErrBudget: a memory budget below the
-// first bracket's need, or a budget that stopped the run before its first
-// bracket) with ErrBudget, keeping the original error (and its
-// *structure.BudgetError or *bounds.BudgetError) in the chain. A stop by
-// the context wraps the context's error.
-func budgetError(ctx context.Context, err error) error {
-	switch {
-	case err == nil:
-		return nil
-	case ctx.Err() != nil:
-		return fmt.Errorf("%w (%w)", ctx.Err(), err)
-	case errors.Is(err, bounds.ErrBudget), errors.Is(err, structure.ErrBudget):
-		return fmt.Errorf("%w: %w", ErrBudget, err)
-	}
-	return err
+	return res, budgetError(ctx, err, p.opts)
 }
 
 // finish builds the certificate of a run and returns it once the checker
@@ -302,18 +381,21 @@ func (p *plan) finish(ctx context.Context, res *bounds.Result, digits int, opts 
 	}
 	c, err := BuildCertificate(buildCtx, opts.tool(), p.rep, res, digits)
 	if err != nil {
-		return nil, budgetError(ctx, err)
+		return nil, budgetError(ctx, err, opts)
 	}
 	// The patterns as the user typed them, not as the engine read them:
 	// should the two differ, the checker refuses the certificate.
 	c.Statement.Given = opts.given(p.rep.Set)
 	if err := check(ctx, c, p.rep.Set, opts); err != nil {
 		if errors.Is(err, ErrBudget) || ctx.Err() != nil {
-			return nil, fmt.Errorf("prove: checking the certificate built for %s: %w", p.rep.Set, err)
+			return nil, err
 		}
 		return nil, fmt.Errorf("prove: the certificate built for %s did not pass the checker: %w", p.rep.Set, err)
 	}
-	r := &Result{Set: p.rep.Set, Report: p.rep, States: p.states, Step: p.step, Blocks: p.blocks, Bracket: res, Certificate: c}
+	if res.Stop == bounds.StopCertifiable && p.beyond != nil {
+		res.Detail = p.beyond.Error()
+	}
+	r := &Result{Set: p.rep.Set, Report: p.rep, States: p.states, Step: p.step, Blocks: p.blocks, Bracket: res, Certificate: c, opts: opts, beyond: p.beyond}
 	r.Estimates = p.estimates(buildCtx, c, res, opts)
 	return r, nil
 }

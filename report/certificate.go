@@ -97,8 +97,9 @@ func FromCertificate(ctx context.Context, name string, data []byte) (*Certificat
 func checked(ctx context.Context, name string, data []byte) (*certify.Certificate, error) {
 	c, err := certify.Read(bytes.NewReader(data))
 	if err != nil {
-		// the reader's "certificate: " prefix names its package, not the file
-		return nil, fmt.Errorf("%s: not a certificate the checker can read: %s", name, strings.TrimPrefix(err.Error(), "certificate: "))
+		// as 'check' says: a file that does not read as a certificate is
+		// an invalid certificate (exit 1), not unreadable input (exit 2)
+		return nil, refused{fmt.Errorf("%s: the checker refuses the certificate: %s", name, strings.TrimPrefix(err.Error(), "certificate: "))}
 	}
 	if err := prove.Recheck(ctx, c, pattern.Set{}, prove.Options{Typed: c.Statement.Given}); err != nil {
 		switch {

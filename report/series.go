@@ -96,7 +96,7 @@ func FromSeries(ctx context.Context, name string, data []byte) (*Series, error) 
 		var d *series.Avoidance
 		av := ""
 		if it.Observed == 0 && it.Avoidance != nil {
-			a, err := prob.AvoidAll(ctx, set, lengths, prob.ExactMemory, 1e-6, prove.Options{})
+			a, err := prob.AvoidAll(ctx, set, lengths, prove.DefaultMaxMemory, 1e-6, prove.Options{})
 			if err != nil {
 				return nil, fmt.Errorf("%s: pattern %s: %v", name, it.Pattern, err)
 			}

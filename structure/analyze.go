@@ -3,6 +3,7 @@ package structure
 import (
 	"context"
 	"fmt"
+	"math"
 	"strings"
 
 	"avoidcert/pattern"
@@ -53,8 +54,9 @@ type Options struct {
 	// MaxSteps caps the sets R_1, R_2, ... computed (0: MaxSteps; at
 	// most MaxSteps).
 	MaxSteps int
-	// MaxMemory caps the estimated memory in bytes (0: DefaultMaxMemory);
-	// a test over it is refused before it starts with a *BudgetError.
+	// MaxMemory caps the estimated memory in bytes (0: no cap; package
+	// prove always sets one); a test over it is refused before it starts
+	// with a *BudgetError.
 	MaxMemory int64
 }
 
@@ -67,7 +69,7 @@ func (o Options) maxSteps() int {
 
 func (o Options) maxMemory() int64 {
 	if o.MaxMemory <= 0 {
-		return DefaultMaxMemory
+		return math.MaxInt64
 	}
 	return o.MaxMemory
 }

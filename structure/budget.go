@@ -13,10 +13,6 @@ import (
 // (the checker's limit too).
 const MaxSteps = 1000
 
-// DefaultMaxMemory caps the test's estimated memory when
-// Options.MaxMemory is 0.
-const DefaultMaxMemory = 8 << 30
-
 // ErrBudget is wrapped by a refusal of the structure test that a larger
 // memory budget would lift (a *BudgetError); recognise it with errors.Is.
 var ErrBudget = errors.New("structure: over the budget")

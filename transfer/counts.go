@@ -29,6 +29,9 @@ func Counts(ctx context.Context, s pattern.Set, N int, progress Progress) ([]*bi
 		if g.N >= N {
 			return counts, nil
 		}
+		if !e.Recycles(spare, g.N+1) {
+			spare = nil // let the collector have it while the step allocates
+		}
 		next, err := e.Advance(ctx, g, spare)
 		if err != nil {
 			return nil, err
@@ -38,13 +41,14 @@ func Counts(ctx context.Context, s pattern.Set, N int, progress Progress) ([]*bi
 }
 
 // CountsFootprint estimates the peak bytes of Counts(ctx, s, N): the
-// largest step's Footprint plus the spare storage the recycling keeps. It
-// takes time independent of N (Footprint), so any N is refused at once.
+// largest step's Footprint (the step recycles the storage of the iterate
+// before its input, counted in its output). It takes time independent of N
+// (Footprint), so any N is refused at once.
 func CountsFootprint(s pattern.Set, N int) int64 {
 	e := New(Whole(NewStates(s)))
 	var peak int64
 	for n := max(N-2, 0); n < N; n++ {
-		peak = max(peak, e.Footprint(n)+e.IterateBytes(n)/headroomDiv)
+		peak = max(peak, e.Footprint(n))
 	}
 	return peak
 }

@@ -8,6 +8,7 @@ import (
 	"slices"
 	"sync"
 
+	"avoidcert/internal/memory"
 	"avoidcert/internal/par"
 	"avoidcert/internal/words"
 )
@@ -24,24 +25,31 @@ type Engine struct {
 	needs  []need   // running sums of G_n that single ops and first ops read
 
 	mu    sync.Mutex
-	spare [][]big.Word // scratch storage of earlier steps, for reuse
+	spare [][]big.Word // scratch storage given back during a step, for reuse in it
 }
 
-// take returns scratch storage of n words, reused from an earlier step
+// take returns scratch storage of n words, reused from earlier in the step
 // when one is large enough; its contents are arbitrary.
 func (e *Engine) take(n int) []big.Word {
 	e.mu.Lock()
 	defer e.mu.Unlock()
+	// the smallest array that fits: a small request must not take the
+	// array a large one of this step needs, or both are held at once
+	best := -1
 	for i, w := range e.spare {
-		if cap(w) >= n {
-			e.spare = append(e.spare[:i], e.spare[i+1:]...)
-			return w[:n]
+		if cap(w) >= n && (best < 0 || cap(w) < cap(e.spare[best])) {
+			best = i
 		}
 	}
-	// Arrays grow from step to step: kept arrays too small for this one
-	// are dropped rather than held next to the new one.
+	if best >= 0 {
+		w := e.spare[best]
+		e.spare = append(e.spare[:best], e.spare[best+1:]...)
+		return w[:n]
+	}
+	// Kept arrays too small for this one are dropped rather than held
+	// next to the new one.
 	e.spare = slices.DeleteFunc(e.spare, func(w []big.Word) bool { return cap(w) < n })
-	return make([]big.Word, n, n+n/headroomDiv)
+	return make([]big.Word, n)
 }
 
 // give returns scratch storage for reuse; only the largest few are kept.
@@ -60,7 +68,15 @@ func (e *Engine) give(ws ...[]big.Word) {
 	}
 }
 
-// maxSpare is how many scratch arrays an engine keeps between steps.
+// release drops the scratch storage kept for reuse.
+func (e *Engine) release() {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	e.spare = nil
+}
+
+// maxSpare is how many scratch arrays an engine keeps for reuse within a
+// step.
 const maxSpare = 3
 
 // term is a move of the system with its ops resolved for pulling.
@@ -200,24 +216,31 @@ func (e *Engine) newIterate(n int, recycle *Iterate) *Iterate {
 	return &Iterate{N: n, Limbs: limbs, states: e.st, blocks: blocks, words: w}
 }
 
-// IterateBytes returns the bytes of the coefficients of G_n (saturated
-// at 8*sizeCap, far beyond any memory).
+// IterateBytes returns the bytes a new G_n holds: its coefficients and
+// the spare capacity (1/headroomDiv) that lets a later step recycle its
+// storage (saturated far beyond any memory). The storage of
+// any iterate of this engine at n holds at most this much (Iterate.Bytes).
 func (e *Engine) IterateBytes(n int) int64 {
 	_, _, total := e.layout(n)
-	return 8 * int64(total)
+	return 8 * int64(withHeadroom(total))
 }
 
-// Footprint estimates the peak bytes of Next from G_n: G_n, the running
-// sums the step reads, G_(n+1), and the larger of the arrays of
-// differences of pushed moves (one per goroutine and group) and the
-// largest pair of intermediate arrays of a chained move. It takes time
-// independent of n and saturates at 8*sizeCap bytes (beyond any memory),
-// so that it can refuse any n at once.
+// withHeadroom is words of storage with its spare capacity.
+func withHeadroom(words int) int { return satAdd(words, words/headroomDiv) }
+
+// Footprint estimates the peak bytes of Next and Advance from G_n: G_n
+// and G_(n+1) (IterateBytes: the recycled storage of Advance is counted in
+// G_(n+1)), the running sums the step reads, and the larger of the arrays
+// of differences of pushed moves (one per goroutine and group) and the
+// largest pair of intermediate arrays of a chained move. Between steps an
+// engine holds nothing, so the caller's iterates are all the memory in
+// use there. It takes time independent of n and saturates far beyond any
+// memory, so that it can refuse any n at once.
 func (e *Engine) Footprint(n int) int64 {
 	in, limbs, inWords := e.layout(n)
 	out, outLimbs, outWords := e.layout(n + 1)
 	pushed, chained, used := e.plan(in, out)
-	words := satAdd(inWords, outWords)
+	words := satAdd(withHeadroom(inWords), withHeadroom(outWords))
 	for i, nd := range e.needs {
 		if used[i] {
 			words = satAdd(words, satMul(in[nd.p].count, limbs))
@@ -286,6 +309,17 @@ func (e *Engine) Next(ctx context.Context, g *Iterate) (*Iterate, error) {
 	return e.step(ctx, g, nil)
 }
 
+// Recycles reports whether Advance to G_n can write into the storage of
+// g. When it cannot, a caller should drop g before the step, so that the
+// collector may take it while the step allocates.
+func (e *Engine) Recycles(g *Iterate, n int) bool {
+	if g == nil {
+		return false
+	}
+	_, _, total := e.layout(n)
+	return cap(g.words) >= total
+}
+
 // Advance returns G_(n+1) like Next, in the storage of recycle (an iterate
 // of this engine that the caller no longer needs; nil allocates). After
 // the call recycle must not be used; g is unchanged.
@@ -304,6 +338,9 @@ func (e *Engine) step(ctx context.Context, g, recycle *Iterate) (*Iterate, error
 		return nil, fmt.Errorf("transfer: the iterate does not belong to this engine's states")
 	}
 	n := g.N
+	// the storage of earlier steps goes back before this one allocates:
+	// the step itself holds no more than its Footprint
+	memory.Collect(e.Footprint(n))
 	out := e.newIterate(n+1, recycle)
 	ixs := make([]*Indexer, e.st.MaxLength()+2)
 	for l := range ixs {
@@ -378,15 +415,17 @@ func (e *Engine) step(ctx context.Context, g, recycle *Iterate) (*Iterate, error
 			src = dst
 		}
 	}
+	e.release() // the chained moves' arrays are not the size a push needs
 	// Moves with several drops into a small state are pushed.
 	for _, grp := range pushed {
 		if err := e.push(ctx, g, &out.blocks[grp.to], grp.terms, ixs, grp.low); err != nil {
 			return nil, err
 		}
 	}
-	for i := range sums {
-		e.give(sums[i].words)
-	}
+	// Nothing is kept for the next step: between steps the engine holds no
+	// storage, so that what a caller holds is all the memory in use (the
+	// budgets of package bounds count on it).
+	e.release()
 	return out, nil
 }
 

@@ -97,8 +97,9 @@ func (g *Iterate) StateSum(p int) *big.Int {
 	return new(big.Int).SetBits(acc)
 }
 
-// Bytes returns the memory held by the coefficients.
-func (g *Iterate) Bytes() int64 { return int64(len(g.words)) * 8 }
+// Bytes returns the memory held by the coefficients' storage, spare
+// capacity included.
+func (g *Iterate) Bytes() int64 { return int64(cap(g.words)) * 8 }
 
 // DigestHeader starts the byte stream of an iterate
 // (docs/prefix-states.md).

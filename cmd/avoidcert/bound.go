@@ -49,10 +49,13 @@ Flags:
                       "estimates":{"note":"estimate, not certified",...},
                       "stop":...,"certificate":PATH} (docs/json.md)
   --max-k K           stop at this k (default 1000, the checker's limit)
-  --max-memory B      stop before a step that would need more (default 8G)
-  --timeout T         stop the bracket after this long, e.g. 90s or 10m, and
-                      certify the best one (default none; 0s is refused)
-  --progress          one line per bracket on stderr (for logs)
+  --max-memory B      the engine's work and the checker's re-check together:
+                      no bracket whose certificate the checker could not check
+                      within it (default 4G)
+  --timeout T         stop the bracket in time to certify the best one within
+                      this long, e.g. 90s or 10m, as estimated (default none)
+  --progress          the plan, one line per bracket, and a line at least
+                      every 3 s, on stderr (for logs)
   --quiet             no live progress bar (shown on a terminal by default);
                       not with --progress
 
@@ -67,8 +70,9 @@ once its process is gone (README: the temp-file rule).
 standard error.
 
 Exit codes: 0 target met (or lambda decided exactly), 3 a budget stopped the
-run first (the best certified bracket is printed and certified; when it stops
-before a first bracket nothing is written), 2 bad input, 4 interrupted
+run first (the best certified bracket is printed and certified, and the
+flag to raise named; a budget that cannot hold a first bracket and its check
+is refused at once, and nothing is written), 2 bad input, 4 interrupted
 (Ctrl-C or SIGTERM: nothing is written; use --timeout to stop early and keep
 a certificate), out of space, or a certificate the checker refused (with its
 reason; nothing is written).
@@ -88,7 +92,7 @@ type budget struct {
 }
 
 func (b *budget) register(fs *flag.FlagSet) {
-	b.maxMemory = 8 << 30
+	b.maxMemory = defaultMemory
 	fs.IntVar(&b.maxK, "max-k", certify.MaxN, "")
 	fs.Var(&b.maxMemory, "max-memory", "")
 	fs.Var(&b.timeout, "timeout", "")
@@ -130,7 +134,7 @@ func (b *budget) validate(cmd string) error {
 // pattern arguments as typed, which bind the checker.
 func (b *budget) options() prove.Options {
 	limitMemory(int64(b.maxMemory))
-	opts := prove.Options{MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Tool: "avoidcert " + version, Typed: b.typed}
+	opts := prove.Options{MaxK: b.maxK, MaxMemory: int64(b.maxMemory), Tool: toolName(), Typed: b.typed}
 	if b.timeout > 0 {
 		opts.Deadline = time.Now().Add(time.Duration(b.timeout))
 	}
@@ -160,14 +164,26 @@ func (b *budget) watch(e *env, opts *prove.Options, wanted int) (done func()) {
 	}
 	switch {
 	case b.progress:
-		opts.Progress = func(ev prove.Event) {
-			if ev.Bracket != nil {
-				d := agreed(ev.Lambda)
-				fmt.Fprintf(e.stderr, "%s: lambda in %s (%d of %d digits agreed)\n", where(ev), ev.Lambda.String(max(d+3, 8)), d, wanted)
+		log := newProgressLog(e.stderr)
+		opts.Planned = func(p prove.Plan) {
+			limit := "the largest --max-k allows"
+			if p.Beyond != nil {
+				limit = "past it, " + p.Beyond.Explain(flagOf)
 			}
+			log.printf("plan: brackets up to n = %d (%s); the checker's re-check of a bracket there: about %.2g coefficient operations, %s (estimates)",
+				p.LastN, limit, p.CheckWork, p.CheckTime.Round(time.Second/10))
 		}
-		opts.CheckProgress = checkLines(e.stderr)
-		return func() {}
+		opts.Progress = func(ev prove.Event) {
+			if ev.Bracket == nil {
+				log.doing(fmt.Sprintf("%s, iterating towards the bracket at n=%d", where(ev), ev.NextN))
+				return
+			}
+			d := agreed(ev.Lambda)
+			log.doing(fmt.Sprintf("%s, the bracket taken; iterating on, or certifying the best bracket", where(ev)))
+			log.printf("%s: lambda in %s (%d of %d digits agreed)", where(ev), ev.Lambda.String(max(d+3, 8)), d, wanted)
+		}
+		opts.CheckProgress = checkLines(log)
+		return log.close
 	case e.progress && !b.quiet:
 		bar := newLiveBar(e.stderr, int64(wanted), "digits")
 		opts.Progress = func(ev prove.Event) {
@@ -277,18 +293,19 @@ func wantedDigits(opts prove.Options) int {
 	return max(1, int(math.Ceil(-math.Log10(w))))
 }
 
-func stopWords(res *bounds.Result) string {
-	switch res.Stop {
+// stopWords says why the bracket run ended: its goal, or the budget that
+// stopped it, named by its flag, with what more it would need.
+func stopWords(r *prove.Result) string {
+	switch r.Bracket.Stop {
 	case bounds.StopTarget:
 		return "target met"
 	case bounds.StopExact:
 		return "lambda known exactly (a bracket of zero width)"
-	default:
-		if res.Detail != "" {
-			return fmt.Sprintf("budget stop (%s): %s", res.Stop, res.Detail)
-		}
-		return fmt.Sprintf("budget stop (%s)", res.Stop)
 	}
+	if over := r.Stopped(); over != nil {
+		return "budget stop: " + over.Explain(flagOf)
+	}
+	return "decided"
 }
 
 // certified returns the lambda and radius intervals the checked
@@ -313,7 +330,11 @@ func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
 		fmt.Fprintln(w, "lambda = 0 (proved by the structure test: no cyclic avoider of any length)")
 	}
 	fmt.Fprintf(w, "lambda   in %s  (%s)\n", lambda.String(digits), digitWords(lambda, agreed))
-	fmt.Fprintf(w, "1/lambda in %s\n", radius.String(digits))
+	if prove.LambdaZero(r.Certificate) {
+		fmt.Fprintln(w, "1/lambda: "+noRadius)
+	} else {
+		fmt.Fprintf(w, "1/lambda in %s\n", radius.String(digits))
+	}
 	for _, br := range res.Brackets {
 		fmt.Fprintf(w, "bracket: n = %d, step %d, start %s, on %d of %d prefix states\n", br.N, br.Step, br.Start, len(br.States), r.States.Len())
 	}
@@ -334,10 +355,14 @@ func writeBoundText(w io.Writer, r *prove.Result, dest *outFile) {
 		fmt.Fprintf(w, "stopped: upper bound taken at k = %d (lambda = 0 is proved; the bracket only bounds the decay) after %.1f s\n",
 			r.K(), res.Elapsed.Seconds())
 	} else {
-		fmt.Fprintf(w, "stopped: %s after %.1f s\n", stopWords(res), res.Elapsed.Seconds())
+		fmt.Fprintf(w, "stopped: %s after %.1f s\n", stopWords(r), res.Elapsed.Seconds())
 	}
 	fmt.Fprintf(w, "certificate: %s\n", dest.describe())
 }
+
+// noRadius is what bound, claim and check say of 1/lambda when the
+// checked certificate proves lambda = 0 (JSON: "radius": null).
+const noRadius = "none (lambda = 0)"
 
 // allNLine prints the certificate's explicit bound, valid for every
 // n >= n0 (the checker verifies it). A is shown rounded to nearest, for
@@ -403,7 +428,7 @@ type boundJSON struct {
 	Period      *int           `json:"period"`
 	FiniteFrom  *int           `json:"finite_from"`
 	Lambda      endsJSON       `json:"lambda"`
-	Radius      endsJSON       `json:"radius"`
+	Radius      *endsJSON      `json:"radius"`
 	K           int            `json:"k"`
 	Digits      int            `json:"lambda_digits"`
 	AllN        *allNJSON      `json:"all_n"`
@@ -451,8 +476,12 @@ func writeBoundJSON(w io.Writer, r *prove.Result, dest *outFile) {
 	res := r.Bracket
 	lambda, radius, digits, agreed := certified(r.Certificate)
 	out := boundJSON{jsonHead: headOf("bound"), Patterns: r.Set.Strings(), Class: string(prove.FormOf(r.Certificate).Class),
-		Lambda: ends(lambda, digits), Radius: ends(radius, digits), K: r.K(), Digits: min(agreed, 1000),
+		Lambda: ends(lambda, digits), K: r.K(), Digits: min(agreed, 1000),
 		Stop: string(res.Stop), Seconds: res.Elapsed.Seconds()}
+	if !prove.LambdaZero(r.Certificate) {
+		rad := ends(radius, digits)
+		out.Radius = &rad // null when lambda = 0: 1/lambda has no value
+	}
 	out.Exponent, out.Period, out.FiniteFrom = classNumbers(r.Certificate.Structure)
 	out.AllN = allNJSONOf(r.Certificate.Statement.AllN, digits)
 	est := &estimatesJSON{Note: "estimate, not certified", CPhases: r.Estimates.ByResidue}

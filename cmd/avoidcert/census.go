@@ -51,7 +51,9 @@ finished classes are in DIR/journal, refined certificates in refined/.
 Flags:
   --length K         pattern length, 3 to 8 (required)
   --to N             counts a_0..a_N (default 20)
-  --digits D         significant digits of lambda to certify (default 10)
+  --digits D         significant digits of lambda to certify (default 10);
+                     0: counts, groups and forms only (each class certified
+                     by its structure test's certificate, lambda coarse)
   --refine-digits R  the most digits a class is bracketed at to order its
                      group (default 2D; R = D orders at D digits only)
   --out DIR          output folder (default census-K, or census-K-shard-I-of-N),
@@ -60,7 +62,7 @@ Flags:
   --shard I/N        only the I-th of N slices of the classes (1 <= I <= N),
                      for a cluster job array; merge the N folders afterwards
                      (a shard orders its own groups only and refines nothing)
-  --max-memory B     memory budget shared by the J workers (default 8G): each
+  --max-memory B     memory budget shared by the J workers (default 4G): each
                      class's counting, structure test, bracket and check are
                      held to B/J
   --quiet            no progress bar (it is shown only when stderr is a terminal)
@@ -109,7 +111,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	shardFlag := fs.String("shard", "", "")
 	quiet := fs.Bool("quiet", false, "")
 	asJSON := fs.Bool("json", false, "")
-	maxMemory := byteSize(8 << 30)
+	maxMemory := byteSize(defaultMemory)
 	fs.Var(&maxMemory, "max-memory", "")
 	pos, err := parseArgs(fs, args)
 	if err != nil {
@@ -126,8 +128,8 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 		return failure(e, usagef("census: --length is required, e.g. 'avoidcert census --length 5'"))
 	case *jobs < 1:
 		return failure(e, usagef("census: --jobs must be at least 1"))
-	case *digits > certify.MaxDigits-5:
-		return failure(e, usagef("census: --digits must be between 1 and %d", certify.MaxDigits-5))
+	case *digits < 0 || *digits > certify.MaxDigits-5:
+		return failure(e, usagef("census: --digits must be between 0 (counts, groups and forms only) and %d", certify.MaxDigits-5))
 	case *refineDigits < *digits || *refineDigits > certify.MaxDigits-5:
 		return failure(e, usagef("census: --refine-digits must be between --digits (%d) and %d", *digits, certify.MaxDigits-5))
 	}
@@ -148,28 +150,31 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	if err := openOutDir("census", "--out", dir, false); err != nil {
 		return failure(e, err)
 	}
+	perClass := int64(maxMemory) / int64(*jobs)
+	if over := censusFits(shard, params, perClass); over != nil {
+		return censusBudget(e, over, *jobs, "nothing was done")
+	}
 	limitMemory(int64(maxMemory))
-	worker := int64(maxMemory) / int64(*jobs)
-	plan := census.EstimateRun(params, shard, *jobs, worker)
+	plan := census.EstimateRun(params, shard, *jobs, perClass)
 	if class, what, need, over := plan.Over(); over {
 		fmt.Fprintf(e.stderr, "avoidcert: census: undecided: class %s: %s needs %s, over the memory budget of one worker (%s: --max-memory %s shared by --jobs %d); raise --max-memory, lower --jobs or --to; nothing was done\n",
-			class, what, bytesize.About(need), bytesize.Format(worker), bytesize.Format(int64(maxMemory)), *jobs)
+			class, what, bytesize.About(need), bytesize.Format(perClass), bytesize.Format(int64(maxMemory)), *jobs)
 		return exitUndecided
 	}
 	if err := openOutDir("census", "--out", dir, true); err != nil {
 		return failure(e, err)
 	}
-	fmt.Fprintf(e.stderr, "avoidcert: census of length %d, %d classes in %s: %s\n", *length, len(plan.Classes), dir, plan.Summary())
+	fmt.Fprintf(e.stderr, "avoidcert: census of length %d, %s in %s: %s\n", *length, censusNoun(len(plan.Classes), "class", "classes"), dir, plan.Summary())
 	bar := newCensusBar(ctx, e, *quiet)
 	rep, err := census.Run(ctx, census.Options{
 		Params:  params,
 		Shard:   shard,
 		Dir:     dir,
 		Jobs:    *jobs,
-		Tool:    "avoidcert " + version,
-		Certify: censusCertifier(worker),
-		Count:   censusCounter(worker),
-		Check:   census.CheckerOf(censusOptions(worker)),
+		Tool:    toolName(),
+		Certify: censusCertifier(perClass),
+		Count:   censusCounter(perClass),
+		Check:   census.CheckerOf(censusOptions(perClass)),
 		Progress: func(ev census.Event) {
 			if ev.Class == "" && ev.Round == 0 && ev.Resumed > 0 {
 				fmt.Fprintf(e.stderr, "avoidcert: continuing the census in %s: %d of %d classes are in its journal\n", dir, ev.Resumed, ev.Total)
@@ -180,7 +185,7 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 	})
 	bar.finish(err == nil)
 	if err != nil {
-		return censusFailure(e, dir, err)
+		return censusFailure(e, dir, *jobs, err)
 	}
 	writeCensusSummary(e, dir, rep, *asJSON)
 	return exitOK
@@ -188,11 +193,35 @@ func runCensus(ctx context.Context, e *env, args []string) int {
 
 // censusCounter counts with the engine and the checker side by side and
 // returns the counts only when they agree (prove.Counts), within the
-// memory budget of one worker.
+// memory of one class.
 func censusCounter(maxMemory int64) census.Counter {
 	return func(ctx context.Context, set pattern.Set, n int) ([]*big.Int, error) {
 		return prove.Counts(ctx, set, n, prove.Options{Typed: set.Strings(), MaxMemory: maxMemory})
 	}
+}
+
+// censusFits refuses, before any class is done, a share of the memory
+// budget below what every class of the shard needs at least
+// (prove.LeastMemory: its counts, and a first bracket with its check).
+func censusFits(shard census.Shard, params census.Params, perClass int64) *prove.BudgetError {
+	for _, c := range shard.Classes(params.Length) {
+		set := pattern.NewSet(c.Representative)
+		if need := prove.LeastMemory(set, params.To, prove.Options{}); need > perClass {
+			return &prove.BudgetError{Budget: prove.BudgetMemory, What: fmt.Sprintf("class %s (its counts to n = %d, a first bracket and its check)", c.Representative, params.To),
+				Need: float64(need), Limit: float64(perClass)}
+		}
+	}
+	return nil
+}
+
+// censusBudget reports a class over its share of the memory budget
+// (--max-memory divided among the --jobs classes at work): exit 3, with
+// the budget that would let it run, and what became of the work.
+func censusBudget(e *env, b *prove.BudgetError, jobs int, kept string) int {
+	total := int64(b.Need) * int64(jobs)
+	fmt.Fprintf(e.stderr, "avoidcert: census: undecided: %s needs %s, over its share of --max-memory (%s for each of --jobs %d); raise --max-memory to at least %s, or lower --jobs; %s\n",
+		b.What, bytesize.About(int64(b.Need)), bytesize.Format(int64(b.Limit)), jobs, bytesize.Flag(total), kept)
+	return exitUndecided
 }
 
 // parseShard reads --shard I/N; "" is the whole census.
@@ -214,9 +243,12 @@ func parseShard(s string, classes int) (census.Shard, error) {
 
 // censusFailure reports a failed run: an interrupt or a failed class
 // keeps the journal, and the message says how to continue.
-func censusFailure(e *env, dir string, err error) int {
+func censusFailure(e *env, dir string, jobs int, err error) int {
 	var in *census.InputError
+	var over *prove.BudgetError
 	switch {
+	case errors.As(err, &over) && over.Budget == prove.BudgetMemory:
+		return censusBudget(e, over, jobs, "finished classes are kept in "+filepath.Join(dir, "journal"))
 	case outOfSpace(err):
 		fmt.Fprintf(e.stderr, "avoidcert: census: out of space writing %s: the disk or the quota is full; finished classes are kept in %s: free space and run the same command again\n",
 			writtenWhere(err), filepath.Join(dir, "journal"))
@@ -242,7 +274,7 @@ func runCensusMerge(ctx context.Context, e *env, args []string) int {
 	jobs := fs.Int("jobs", runtime.NumCPU(), "")
 	quiet := fs.Bool("quiet", false, "")
 	asJSON := fs.Bool("json", false, "")
-	maxMemory := byteSize(8 << 30)
+	maxMemory := byteSize(defaultMemory)
 	fs.Var(&maxMemory, "max-memory", "")
 	dirs, err := parseArgs(fs, args)
 	if err != nil {
@@ -325,9 +357,14 @@ func writeCensusSummary(e *env, dir string, rep *census.Report, asJSON bool) {
 	if rep.Shard != nil {
 		what += ", shard " + rep.Shard.String()
 	}
-	fmt.Fprintf(e.stdout, "%s: %d classes, %d groups with equal counts up to n = %d (separated by n = %d), %d of %d adjacent pairs strictly ordered by lambda\n",
-		what, len(rep.Rows), len(rep.Groups), rep.Params.To, rep.SeparatingN, strict, len(rep.Order))
-	if len(rep.GroupOrder) > 0 {
+	fmt.Fprintf(e.stdout, "%s: %s, %s with equal counts up to n = %d (separated by n = %d)",
+		what, censusNoun(len(rep.Rows), "class", "classes"), censusNoun(len(rep.Groups), "group", "groups"), rep.Params.To, rep.SeparatingN)
+	if rep.Params.Digits == 0 {
+		fmt.Fprintln(e.stdout, "; lambda not bracketed (--digits 0), so the groups are not ordered")
+	} else {
+		fmt.Fprintf(e.stdout, ", %d of %d adjacent pairs strictly ordered by lambda\n", strict, len(rep.Order))
+	}
+	if len(rep.GroupOrder) > 0 && rep.Params.Digits > 0 {
 		fmt.Fprintf(e.stdout, "order of the groups: %d of %d adjacent pairs proved (certificates of at most %d digits)", proved, len(rep.GroupOrder), digits)
 		if rep.Shard != nil {
 			fmt.Fprint(e.stdout, ", in this shard alone: the merge refines the order")
@@ -337,6 +374,14 @@ func writeCensusSummary(e *env, dir string, rep *census.Report, asJSON bool) {
 	fmt.Fprintf(e.stdout, "tables: %s, %s, %s; certificates in %s\n",
 		filepath.Join(dir, census.MarkdownFile), filepath.Join(dir, census.CSVFile), filepath.Join(dir, census.JSONFile),
 		filepath.Join(dir, "certificates"))
+}
+
+// censusNoun writes n with its noun, singular for one.
+func censusNoun(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
 }
 
 // refiningLine says, once per round of the refinement, how many classes

@@ -11,13 +11,19 @@ import (
 
 // censusCertifier certifies one class for the census through prove.Certify
 // (structure, bracket, certificate, and the checker's acceptance before
-// anything is returned). maxMemory is the budget of one class; a bracket
-// it stops early is still certified, and said to be short.
+// anything is returned), or for 0 digits through prove.Classify (the
+// structure test's own certificate, its lambda range coarse). maxMemory is
+// the budget of one class; a bracket it stops early is still certified,
+// and said to be short.
 func censusCertifier(maxMemory int64) census.Certifier {
 	return func(ctx context.Context, set pattern.Set, digits int) (census.Certified, error) {
 		opts := censusOptions(maxMemory)
 		opts.Digits, opts.Typed = digits, set.Strings()
-		r, err := prove.Certify(ctx, set, opts)
+		certifier := prove.Certify
+		if digits == 0 {
+			certifier = prove.Classify
+		}
+		r, err := certifier(ctx, set, opts)
 		if err != nil {
 			return census.Certified{}, err
 		}
@@ -26,8 +32,8 @@ func censusCertifier(maxMemory int64) census.Certifier {
 			return census.Certified{}, err
 		}
 		c := census.Certified{Certificate: data, Checked: r.Certificate}
-		if !r.Done() {
-			c.Short = stopWords(r.Bracket)
+		if digits > 0 && !r.Done() {
+			c.Short = r.Stopped()
 		}
 		return c, nil
 	}
@@ -36,5 +42,5 @@ func censusCertifier(maxMemory int64) census.Certifier {
 // censusOptions are the budgets of one class of a census (certifying it,
 // or checking its certificate again).
 func censusOptions(maxMemory int64) prove.Options {
-	return prove.Options{MaxMemory: maxMemory, Tool: "avoidcert " + version}
+	return prove.Options{MaxMemory: maxMemory, Tool: toolName()}
 }

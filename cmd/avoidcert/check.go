@@ -46,7 +46,7 @@ Flags:
                       memory limit is what binds in practice); values from
                       9.2e18 up ("inf" too) mean 9.2e18, no limit in practice
   --max-memory B      refuse certificates whose recomputation is estimated
-                      to need more memory (default 8G)
+                      to need more memory (default 4G)
   --progress          a line on stderr per percent of the work (for logs)
   --quiet             no live progress bar (shown on a terminal by default)
 
@@ -76,7 +76,7 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	var expect patternList
 	flags.Var(&expect, "expect", "")
 	maxWork := flags.Float64("max-work", checkWork, "")
-	maxMem := byteSize(8 << 30)
+	maxMem := byteSize(defaultMemory)
 	flags.Var(&maxMem, "max-memory", "")
 	asJSON := flags.Bool("json", false, "")
 	progress := flags.Bool("progress", false, "")
@@ -106,6 +106,7 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 		return failure(e, err)
 	}
 	opts.MaxMemory = int64(maxMem)
+	limitMemory(opts.MaxMemory)
 	data, err := readCertificateInput(ctx, pos[0])
 	if err != nil {
 		return failure(e, err)
@@ -119,9 +120,11 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 		return out.verdict(e, nil, err)
 	}
 	var bar *liveBar // drawn from the first report on: a refusal before the work draws nothing
+	var log *progressLog
 	switch {
 	case *progress:
-		opts.Progress = checkLines(e.stderr)
+		log = newProgressLog(e.stderr)
+		opts.Progress = checkLines(log)
 	case e.progress && !*quiet:
 		opts.Progress = func(done, total int64) {
 			if bar == nil {
@@ -134,16 +137,21 @@ func runCheck(ctx context.Context, e *env, args []string) int {
 	if bar != nil {
 		bar.finish()
 	}
+	if log != nil {
+		log.close()
+	}
 	if ctx.Err() != nil {
 		return interrupted(e)
 	}
 	var limit *certify.LimitError
 	if errors.As(err, &limit) {
-		flag, now := "--max-work", fmt.Sprintf("%.3g", float64(opts.MaxWork))
+		reason := fmt.Sprintf("re-checking the certificate needs about %.2g coefficient operations, over --max-work %.3g; raise --max-work to at least %.2g to check it",
+			limit.Need, float64(opts.MaxWork), limit.Need)
 		if limit.Resource == "memory" {
-			flag, now = "--max-memory", bytesize.Format(opts.MaxMemory)
+			reason = fmt.Sprintf("re-checking the certificate needs %s, over --max-memory %s; raise --max-memory to at least %s to check it",
+				bytesize.About(int64(limit.Need)), bytesize.Format(opts.MaxMemory), bytesize.Flag(int64(limit.Need)))
 		}
-		return out.undecided(e, cert, fmt.Sprintf("%v; raise %s (now %s) to check it", err, flag, now))
+		return out.undecided(e, cert, reason)
 	}
 	return out.verdict(e, cert, err)
 }
@@ -267,7 +275,9 @@ func (o checkOutput) verdict(e *env, cert *certify.Certificate, err error) int {
 	out := o.head("valid", "")
 	out.Patterns = v.Patterns
 	out.Lambda = &endsJSON{Lo: nonEmpty(v.Lambda[0]), Hi: nonEmpty(v.Lambda[1])}
-	out.Radius = &endsJSON{Lo: nonEmpty(v.Radius[0]), Hi: nonEmpty(v.Radius[1])}
+	if !v.LambdaZero() { // null when lambda = 0: 1/lambda has no value
+		out.Radius = &endsJSON{Lo: nonEmpty(v.Radius[0]), Hi: nonEmpty(v.Radius[1])}
+	}
 	out.Class, out.LambdaSt, out.Avoider = nonEmpty(v.Class), nonEmpty(v.LambdaStatus), nonEmpty(v.CyclicAvoider)
 	if v.Exponent > 0 {
 		out.Exponent = &v.Exponent

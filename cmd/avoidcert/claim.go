@@ -40,6 +40,9 @@ Flags:
   --max-k K, --max-memory B, --timeout T   budgets, as for bound
   --progress, --quiet                       progress, as for bound
 
+A claim that no set satisfies is refuted at once, without a certificate:
+0 <= a_n <= n! gives 0 <= lambda <= 1 and 1/lambda >= 1.
+
 Exit codes: 0 proved, 1 refuted, 3 undecided within the budget (--timeout
 stops the bracket in time to certify the best one), 2 bad input, 4 interrupted
 (Ctrl-C or SIGTERM) or a certificate the checker refused.
@@ -78,39 +81,73 @@ func runClaim(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
+	digits := claimDigits(claimed)
+	if j.Impossible != "" {
+		// refuted by what every set satisfies: no certificate is needed
+		reason := j.Impossible + "; this needs no certificate"
+		if *asJSON {
+			writeJSON(e.stdout, claimJSON{jsonHead: headOf("claim"), Patterns: set.Strings(), Quantity: string(quantity),
+				Claimed: ends(bounds.Enclosure{Lo: claimed.Lo, Hi: claimed.Hi}, digits), Verdict: "refuted", Evidence: reason})
+			return exitFailed
+		}
+		fmt.Fprintf(e.stdout, "claim: %s(%s) in %s\n", quantity, set, claimed.String(digits))
+		fmt.Fprintln(e.stdout, "refuted: "+reason)
+		return exitFailed
+	}
 	// The verdict and the interval shown are read from the certificate
 	// the checker accepted.
 	res := j.Bracket
-	digits := claimDigits(claimed)
-	words, code := "undecided: "+stopWords(res), exitUndecided
-	switch j.Verdict {
-	case bounds.Proved:
+	none := quantity == bounds.QuantityRadius && prove.LambdaZero(j.Certificate)
+	var words string
+	code := exitUndecided
+	switch {
+	case j.Verdict == bounds.Proved:
 		words, code = "proved: the certified interval lies inside the claim", exitOK
-	case bounds.Refuted:
+	case j.Verdict == bounds.Refuted && none:
+		words, code = "refuted: lambda = 0, so 1/lambda has no value, in no interval", exitFailed
+	case j.Verdict == bounds.Refuted:
 		words, code = "refuted: the certified interval misses the claim", exitFailed
+	default:
+		words = "undecided: " + stopWords(j.Result)
 	}
 	verdict, reason, _ := strings.Cut(words, ":")
 	if *asJSON {
-		writeJSON(e.stdout, struct {
-			jsonHead
-			Patterns  []string `json:"patterns"`
-			Class     string   `json:"structure_class"`
-			Quantity  string   `json:"quantity"`
-			Claimed   endsJSON `json:"claimed"`
-			Certified endsJSON `json:"certified"`
-			K         int      `json:"k"`
-			Verdict   string   `json:"verdict"`
-			Evidence  string   `json:"evidence"`
-			Seconds   float64  `json:"seconds"`
-		}{headOf("claim"), set.Strings(), string(prove.FormOf(j.Certificate).Class), string(quantity),
-			ends(bounds.Enclosure{Lo: claimed.Lo, Hi: claimed.Hi}, digits), ends(j.Certified, digits),
-			j.K(), verdict, strings.TrimSpace(reason), res.Elapsed.Seconds()})
+		k, class := j.K(), string(prove.FormOf(j.Certificate).Class)
+		out := claimJSON{jsonHead: headOf("claim"), Patterns: set.Strings(), Class: &class, Quantity: string(quantity),
+			Claimed: ends(bounds.Enclosure{Lo: claimed.Lo, Hi: claimed.Hi}, digits),
+			K:       &k, Verdict: verdict, Evidence: strings.TrimSpace(reason), Seconds: res.Elapsed.Seconds()}
+		if !none {
+			certified := ends(j.Certified, digits)
+			out.Certified = &certified
+		}
+		writeJSON(e.stdout, out)
 		return code
 	}
 	fmt.Fprintf(e.stdout, "claim: %s(%s) in %s\n", quantity, set, claimed.String(digits))
-	fmt.Fprintf(e.stdout, "certified: %s in %s (k = %d)\n", quantity, j.Certified.String(digits), j.K())
+	if none {
+		fmt.Fprintf(e.stdout, "certified: %s: %s (k = %d)\n", quantity, noRadius, j.K())
+	} else {
+		fmt.Fprintf(e.stdout, "certified: %s in %s (k = %d)\n", quantity, j.Certified.String(digits), j.K())
+	}
 	fmt.Fprintln(e.stdout, words)
 	return code
+}
+
+// claimJSON is the --json output of claim. structure_class, certified and k are
+// null for a claim refuted without a certificate (no set satisfies it);
+// certified is null too for the radius of a set with lambda = 0 (1/lambda
+// has no value).
+type claimJSON struct {
+	jsonHead
+	Patterns  []string  `json:"patterns"`
+	Class     *string   `json:"structure_class"`
+	Quantity  string    `json:"quantity"`
+	Claimed   endsJSON  `json:"claimed"`
+	Certified *endsJSON `json:"certified"`
+	K         *int      `json:"k"`
+	Verdict   string    `json:"verdict"`
+	Evidence  string    `json:"evidence"`
+	Seconds   float64   `json:"seconds"`
 }
 
 // claimInterval reads exactly one of --value and --interval.

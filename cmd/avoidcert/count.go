@@ -30,7 +30,7 @@ Flags:
                     fraction p/q) or json (counts as decimal strings,
                     probability as an exact fraction; docs/json.md)
   --json            the same as --format json
-  --max-memory B    refuse runs estimated to need more memory (default 8G)
+  --max-memory B    refuse runs estimated to need more memory (default 4G)
   --progress        report each iterate on stderr
   --verbose         say which patterns were dropped as duplicates or redundant
 
@@ -47,7 +47,7 @@ func runCount(ctx context.Context, e *env, args []string) int {
 	to := fs.Int("to", 20, "")
 	format := fs.String("format", "text", "")
 	asJSON := fs.Bool("json", false, "")
-	maxMem := byteSize(8 << 30)
+	maxMem := byteSize(defaultMemory)
 	fs.Var(&maxMem, "max-memory", "")
 	progress := fs.Bool("progress", false, "")
 	verbose := fs.Bool("verbose", false, "")

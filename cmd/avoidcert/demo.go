@@ -68,7 +68,7 @@ func runDemo(ctx context.Context, e *env, args []string) int {
 		return failure(e, err)
 	}
 	g := &gateRun{manifest: m, junitPath: filepath.Join(dir, "junit.xml"),
-		opts: claims.Options{CertDir: filepath.Join(dir, "certificates"), Tool: "avoidcert " + version}}
+		opts: claims.Options{CertDir: filepath.Join(dir, "certificates"), Tool: toolName()}}
 	if err := g.prepare("demo"); err != nil {
 		return failure(e, err)
 	}

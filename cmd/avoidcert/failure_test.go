@@ -8,7 +8,6 @@ import (
 	"strings"
 	"testing"
 
-	"avoidcert/bounds"
 	"avoidcert/internal/settest"
 	"avoidcert/prove"
 )
@@ -28,7 +27,7 @@ func TestFailureExitCodes(t *testing.T) {
 	}{
 		{"usage", usagef("bound: --digits 0 is out of range"), exitUsage, "--digits 0"},
 		{"memory budget", memory, exitUndecided, "raise --max-memory"},
-		{"max-n budget", fmt.Errorf("prove: %w", &bounds.BudgetError{Stop: bounds.StopMaxN}), exitUndecided, "raise --max-k"},
+		{"max-k budget", fmt.Errorf("x: %w", &prove.BudgetError{Budget: prove.BudgetMaxK, What: "the bracket at n = 9 (k = 6)", Limit: 6}), exitUndecided, "is the last that --max-k 6 allows; raise --max-k"},
 		{"checker limits", fmt.Errorf("checking: %w", prove.ErrBudget), exitUndecided, "raise the budget"},
 		{"deadline", fmt.Errorf("x: %w", context.DeadlineExceeded), exitUndecided, "raise --timeout"},
 		{"interrupt", fmt.Errorf("x: %w", context.Canceled), exitAborted, "interrupted"},

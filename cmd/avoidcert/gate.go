@@ -40,7 +40,8 @@ Flags:
                        checker instead of recomputed (default: .avoidcert-cache
                        beside FILE; "off" for none; locked for the run)
   --timeout T          the whole run's budget, e.g. 10m (overrides [run] timeout)
-  --max-memory B       cap every claim's memory, e.g. 4G (overrides [run] max_memory)
+  --max-memory B       cap every claim's memory (overrides [run] max_memory;
+                       a claim's own max_memory defaults to 4G)
   --progress           one line on stderr as each claim is judged
 
 Exit codes: 0 every claim proved, 1 some claim refuted, 3 none refuted but
@@ -95,7 +96,7 @@ func runGate(ctx context.Context, e *env, args []string) int {
 		*cache = ""
 	}
 	g := &gateRun{manifest: m, junitPath: *junit, progress: *progress,
-		opts: claims.Options{CacheDir: *cache, CertDir: *certs, Timeout: time.Duration(timeout), MaxMemory: int64(mem), Tool: "avoidcert " + version}}
+		opts: claims.Options{CacheDir: *cache, CertDir: *certs, Timeout: time.Duration(timeout), MaxMemory: int64(mem), Tool: toolName()}}
 	if err := g.prepare("gate"); err != nil {
 		return failure(e, err)
 	}
@@ -202,15 +203,23 @@ func sameFolder(a, b string) bool {
 // exitOK means the run did not finish (interrupted) or the report could
 // not be written; the message is already printed.
 func (g *gateRun) run(ctx context.Context, e *env) ([]claims.Result, int) {
-	if g.opts.MaxMemory > 0 {
-		limitMemory(g.opts.MaxMemory)
-	}
+	limitMemory(g.manifest.MemoryLimit(g.opts))
 	if g.progress {
 		total := len(g.manifest.Claims)
 		done := 0
+		log := newProgressLog(e.stderr)
+		defer log.close()
+		next := func() {
+			if done < total {
+				c := g.manifest.Claims[done]
+				log.doing(fmt.Sprintf("judging claim %s (%d of %d, line %d)", c.ID, done+1, total, c.Line))
+			}
+		}
+		next()
 		g.opts.Done = func(r claims.Result) {
 			done++
-			fmt.Fprintf(e.stderr, "[%d/%d] %s: %s (%.1f s)\n", done, total, r.ID, r.Verdict, r.Elapsed.Seconds())
+			log.printf("[%d/%d] %s: %s (%.1f s)", done, total, r.ID, r.Verdict, r.Elapsed.Seconds())
+			next()
 		}
 	}
 	start := time.Now()

@@ -18,11 +18,10 @@ import (
 	"strings"
 	"syscall"
 
-	"avoidcert/bounds"
 	"avoidcert/internal/atomicfile"
 	"avoidcert/internal/brief"
+	"avoidcert/internal/memory"
 	"avoidcert/prove"
-	"avoidcert/structure"
 )
 
 // Exit codes, documented in the README.
@@ -211,7 +210,7 @@ func run(ctx context.Context, e *env, args []string) int {
 			fmt.Fprintln(e.stderr, "avoidcert: version takes no arguments")
 			return exitUsage
 		}
-		fmt.Fprintln(e.stdout, "avoidcert", version)
+		printVersion(e.stdout)
 		return exitOK
 	}
 	c, ok := commands[name]
@@ -240,17 +239,9 @@ func asksHelp(args []string) bool {
 	return false
 }
 
-// version is the producing tool's version, written into certificates.
-const version = "0.1.0"
-
 const helpUsage = `Usage: avoidcert help [COMMAND]
 
 Without a command, lists the commands; with one, prints its usage and flags.
-`
-
-const versionUsage = `Usage: avoidcert version
-
-Prints the version of avoidcert, the one written into its certificates.
 `
 
 func printOverview(w io.Writer) {
@@ -287,8 +278,7 @@ or internal error.
 // checker refused among them) is 4.
 func failure(e *env, err error) int {
 	var ue usageError
-	var be *bounds.BudgetError
-	var sbe *structure.BudgetError
+	var pbe *prove.BudgetError
 	msg := ownWords(err.Error())
 	switch {
 	case outOfSpace(err):
@@ -298,21 +288,11 @@ func failure(e *env, err error) int {
 		return exitUsage
 	case errors.Is(err, context.Canceled):
 		return interrupted(e)
+	case errors.As(err, &pbe):
+		fmt.Fprintf(e.stderr, "avoidcert: undecided: %s; nothing was written\n", ownWords(pbe.Explain(flagOf)))
+		return exitUndecided
 	case errors.Is(err, context.DeadlineExceeded):
 		fmt.Fprintln(e.stderr, "avoidcert: undecided: --timeout ran out before a first result; nothing was written; raise --timeout")
-		return exitUndecided
-	case errors.As(err, &be) && be.Stop == bounds.StopMemory:
-		fmt.Fprintf(e.stderr, "avoidcert: undecided: %s: raise --max-memory; nothing was written\n", ownWords(be.Error()))
-		return exitUndecided
-	case errors.As(err, &be):
-		raise := map[bounds.StopReason]string{bounds.StopMaxN: "--max-k", bounds.StopTimeout: "--timeout"}[be.Stop]
-		if raise == "" {
-			raise = "the budget"
-		}
-		fmt.Fprintf(e.stderr, "avoidcert: undecided: %s; nothing was written; raise %s\n", ownWords(be.Error()), raise)
-		return exitUndecided
-	case errors.As(err, &sbe):
-		fmt.Fprintf(e.stderr, "avoidcert: undecided: %s; nothing was written; raise --max-memory\n", ownWords(sbe.Error()))
 		return exitUndecided
 	case errors.Is(err, prove.ErrBudget):
 		fmt.Fprintf(e.stderr, "avoidcert: undecided: %s; nothing was written; raise the budget\n", msg)
@@ -347,6 +327,18 @@ func ownWords(msg string) string {
 	}
 }
 
+// defaultMemory is the memory budget of every command without
+// --max-memory (and of the gate without max_memory): the checker's own
+// default, so that whatever one command writes at its defaults 'check'
+// accepts at its defaults.
+const defaultMemory = prove.DefaultMaxMemory
+
+// flagOf names the flag that sets a budget (none for the checker's work
+// limit, which only 'check' sets).
+func flagOf(b prove.Budget) string {
+	return map[prove.Budget]string{prove.BudgetMemory: "--max-memory", prove.BudgetTime: "--timeout", prove.BudgetMaxK: "--max-k"}[b]
+}
+
 // usageError marks bad flags, arguments or input files. It wraps what
 // usagef's %w wraps (a full disk is then still recognised as such).
 type usageError struct{ err error }
@@ -361,9 +353,10 @@ func usagef(format string, args ...any) error {
 
 // limitMemory tells the garbage collector the memory budget, so that it
 // reclaims dropped iterates before the heap grows past the budget rather
-// than at twice the live size.
+// than at twice the live size (internal/memory). Every command with
+// --max-memory calls it before its work.
 func limitMemory(bytes int64) {
-	debug.SetMemoryLimit(bytes)
+	memory.Limit(bytes)
 }
 
 // interrupted reports a Ctrl-C or SIGTERM: exit 4, nothing written.

@@ -49,7 +49,7 @@ Flags:
                     (default 5e10, about a minute on two cores; only with
                     --occurrences)
   --rel-width W     target relative width of a certified interval (default 1e-6)
-  --max-memory B    largest estimated memory of an exact count (default 1G);
+  --max-memory B    largest estimated memory of an exact count (default 4G);
                     over it the certified interval answers; also the limit
                     of --occurrences
   --timeout T       stop tightening the bracket after this long (e.g. 90s;
@@ -71,7 +71,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 	occ := fs.Int("occurrences", -1, "")
 	maxWork := fs.Float64("max-work", prob.DefaultWork, "")
 	relWidth := fs.Float64("rel-width", 1e-6, "")
-	maxMem := byteSize(prob.ExactMemory)
+	maxMem := byteSize(defaultMemory)
 	fs.Var(&maxMem, "max-memory", "")
 	var timeout duration
 	fs.Var(&timeout, "timeout", "")
@@ -102,6 +102,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 	case !(*maxWork > 0):
 		return failure(e, usagef("prob: --max-work must be a positive number of word additions, such as 5e10"))
 	}
+	limitMemory(int64(maxMem))
 	out := probOutput{jsonHead: headOf("prob"), Patterns: set.Strings(), N: *n}
 	code := exitOK
 	exact, need := prob.InExactRange(set, *n, int64(maxMem))
@@ -127,7 +128,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 			cctx, cancel = context.WithTimeout(ctx, time.Duration(timeout))
 			defer cancel()
 		}
-		c, err := prob.Certify(cctx, set, *n, *relWidth, prove.Options{Typed: pos})
+		c, err := prob.Certify(cctx, set, *n, *relWidth, prove.Options{Typed: pos, MaxMemory: int64(maxMem), Tool: toolName()})
 		if err != nil {
 			return failure(e, err)
 		}
@@ -153,7 +154,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 		case c.Interval.Lo.M.Sign() == 0:
 			out.Note += "; λ = 0 for this set (a_N/N! decays faster than any exponential), so the bound's lower end is 0 and only the upper end says something; more digits do not change that"
 		default:
-			out.Note += fmt.Sprintf("; the relative width is still above --rel-width %g: a budget stopped the bracket first", *relWidth)
+			out.Note += fmt.Sprintf("; the relative width is still above --rel-width %g: %s", *relWidth, stopWords(c.Result))
 			code = exitUndecided
 		}
 	}

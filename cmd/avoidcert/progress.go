@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"sync"
 	"sync/atomic"
 	"time"
 
@@ -60,14 +61,81 @@ func (lb *liveBar) finish() {
 	lb.container.Wait()
 }
 
-// checkLines reports the checker's progress as lines on w, for logs: at
-// most one line per percent of the estimated work.
-func checkLines(w io.Writer) func(done, total int64) {
+// checkLines reports the checker's progress as lines on log: at most one
+// line per percent of the estimated work, and what it is doing between
+// them for the heartbeat.
+func checkLines(log *progressLog) func(done, total int64) {
 	shown := int64(-1)
 	return func(done, total int64) {
-		if pct := 100 * done / max(total, 1); pct > shown {
+		pct := 100 * done / max(total, 1)
+		log.doing(fmt.Sprintf("checking the certificate, %d%% of about %d coefficient operations", pct, total))
+		if pct > shown {
 			shown = pct
-			fmt.Fprintf(w, "checked %d%%: about %d of %d coefficient operations\n", pct, done, total)
+			log.printf("checked %d%%: about %d of %d coefficient operations", pct, done, total)
 		}
 	}
+}
+
+// heartbeat is the longest a progress log stays silent while work goes
+// on (a variable so that tests can shorten it).
+var heartbeat = 3 * time.Second
+
+// progressLog writes progress lines for logs (--progress) and, whenever
+// the work has printed nothing for a heartbeat, a line saying what it is
+// doing and for how long: a single step of a large iterate, a bracket or a
+// percent of a check can take minutes. Its methods may be called from any
+// goroutine; close stops the heartbeat.
+type progressLog struct {
+	w     io.Writer
+	start time.Time
+	mu    sync.Mutex
+	last  time.Time // of the last line
+	now   string    // what the work is doing
+	done  chan struct{}
+	wg    sync.WaitGroup
+}
+
+func newProgressLog(w io.Writer) *progressLog {
+	l := &progressLog{w: w, start: time.Now(), last: time.Now(), now: "starting", done: make(chan struct{})}
+	l.wg.Add(1)
+	go func() {
+		defer l.wg.Done()
+		tick := time.NewTicker(heartbeat / 4)
+		defer tick.Stop()
+		for {
+			select {
+			case <-l.done:
+				return
+			case <-tick.C:
+				l.mu.Lock()
+				if time.Since(l.last) >= heartbeat {
+					fmt.Fprintf(l.w, "still working after %s: %s\n", time.Since(l.start).Round(time.Second/10), l.now)
+					l.last = time.Now()
+				}
+				l.mu.Unlock()
+			}
+		}
+	}()
+	return l
+}
+
+// printf prints one progress line.
+func (l *progressLog) printf(format string, args ...any) {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	fmt.Fprintf(l.w, format+"\n", args...)
+	l.last = time.Now()
+}
+
+// doing records what the work is doing, for the next heartbeat line.
+func (l *progressLog) doing(what string) {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	l.now = what
+}
+
+// close stops the heartbeat; nothing is printed after it returns.
+func (l *progressLog) close() {
+	close(l.done)
+	l.wg.Wait()
 }

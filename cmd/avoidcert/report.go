@@ -74,10 +74,11 @@ Flags:
   --out FILE   write there (atomically, in an existing folder; a folder,
                device or FIFO is refused) instead of standard output
 
-Exit codes: 0 success, 1 a certificate the checker refuses or a census row
-it does not support, 2 bad input (a file that cannot be read, is no
-certificate, census or gate output; only regular files within the limits of
-the README's "Input limits" are read), 3 a certificate over the checker's
+Exit codes: 0 success, 1 a certificate the checker refuses (also one that
+does not read as a certificate, as for 'check') or a census row it does not
+support, 2 bad input (a file that cannot be read, a census folder or gate
+output that is not one; only regular files within the limits of the
+README's "Input limits" are read), 3 a certificate over the checker's
 memory or work limit (undecided), 4 interrupted (Ctrl-C or SIGTERM) or out of
 space.
 `,

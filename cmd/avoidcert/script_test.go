@@ -54,11 +54,15 @@ func runLogged() int {
 	return runProcessTo(io.MultiWriter(os.Stderr, log))
 }
 
-// injectFault gives the command, in tests only, the fault that
-// AVOIDCERT_TEST_FAULT names: "drop-last-token" makes the engine's parser
+// injectFault gives the command, in tests only, the heartbeat of
+// progress lines that AVOIDCERT_TEST_HEARTBEAT gives (a duration) and the
+// fault that AVOIDCERT_TEST_FAULT names: "drop-last-token" makes the engine's parser
 // drop the last pattern of every comma list, so that the scripts can show
 // the checker refusing to answer for the set the engine misread.
 func injectFault() {
+	if d, err := time.ParseDuration(os.Getenv("AVOIDCERT_TEST_HEARTBEAT")); err == nil {
+		heartbeat = d // a silent stretch long enough for a heartbeat line, in a short test
+	}
 	switch os.Getenv("AVOIDCERT_TEST_FAULT") {
 	case "":
 	case "drop-last-token":

@@ -73,7 +73,7 @@ Flags:
   --max-work W      largest estimated work of the exact laws, in word
                     additions (default 5e10, about a minute on two cores)
   --max-memory B    largest estimated memory of one exact law or exact
-                    avoidance count (default 1G)
+                    avoidance count (default 4G)
   --exact           exit 3 rather than approximate when an exact law is over
                     the budget
   --rel-width W     relative width of a certified avoidance probability
@@ -115,7 +115,7 @@ func runSeries(ctx context.Context, e *env, args []string) int {
 	fs.StringVar(&f.seed, "seed", "", "")
 	fs.BoolVar(&f.asJSON, "json", false, "")
 	fs.Float64Var(&f.maxWork, "max-work", prob.DefaultWork, "")
-	f.maxMem = byteSize(prob.ExactMemory)
+	f.maxMem = byteSize(defaultMemory)
 	fs.Var(&f.maxMem, "max-memory", "")
 	fs.BoolVar(&f.exact, "exact", false, "")
 	fs.Float64Var(&f.relWidth, "rel-width", 1e-6, "")
@@ -152,6 +152,7 @@ func runSeries(ctx context.Context, e *env, args []string) int {
 	if format.Delimiter != 0 && f.column == "" {
 		return failure(e, usagef("series: --delimiter needs --column (the file is otherwise one value a line)"))
 	}
+	limitMemory(int64(f.maxMem))
 
 	in, err := series.Open(file)
 	if err != nil {
@@ -441,7 +442,7 @@ func seriesAvoidance(ctx context.Context, it *series.Item, set pattern.Set, leng
 		cctx, cancel = context.WithTimeout(ctx, time.Duration(f.timeout))
 		defer cancel()
 	}
-	av, err := prob.AvoidAll(cctx, set, lengths, int64(f.maxMem), f.relWidth, prove.Options{})
+	av, err := prob.AvoidAll(cctx, set, lengths, int64(f.maxMem), f.relWidth, prove.Options{MaxMemory: int64(f.maxMem), Tool: toolName()})
 	if err != nil {
 		return 0, err
 	}

@@ -44,10 +44,11 @@ Flags:
                   the joint test: it avoids the set, starts in the start
                   state and ends, k moves later, in the current state with
                   the configuration's joint order
-  --max-memory B  refuse a test estimated to need more memory (default 8G)
+  --max-memory B  refuse a test estimated to need more memory (default 4G)
 
-Exit codes: 0 decided or not, 2 bad input, 3 over --max-memory,
-4 interrupted or a certificate the checker refused.
+Exit codes: 0 a class decided, 3 undecided (the step limit of 1000, or over
+--max-memory: nothing printed then), 2 bad input, 4 interrupted or a
+certificate the checker refused.
 `,
 		run: runStructure,
 	}
@@ -57,7 +58,7 @@ func runStructure(ctx context.Context, e *env, args []string) int {
 	fs := newFlags("structure")
 	asJSON := fs.Bool("json", false, "")
 	witnesses := fs.Bool("witnesses", false, "")
-	maxMem := byteSize(8 << 30)
+	maxMem := byteSize(defaultMemory)
 	fs.Var(&maxMem, "max-memory", "")
 	pos, err := parseArgs(fs, args)
 	if err != nil {
@@ -67,15 +68,25 @@ func runStructure(ctx context.Context, e *env, args []string) int {
 	if err != nil {
 		return failure(e, err)
 	}
-	r, err := prove.Classify(ctx, set, prove.Options{MaxMemory: int64(maxMem), Witnesses: *witnesses, Tool: "avoidcert " + version})
+	limitMemory(int64(maxMem))
+	r, err := prove.Classify(ctx, set, prove.Options{MaxMemory: int64(maxMem), Witnesses: *witnesses, Tool: toolName()})
 	if err != nil {
 		return failure(e, err)
 	}
 	if *asJSON {
 		writeStructureJSON(e.stdout, r, *witnesses)
-		return exitOK
+	} else {
+		writeStructureText(e.stdout, r, *witnesses)
 	}
-	writeStructureText(e.stdout, r, *witnesses)
+	return structureCode(r.Certificate.Structure)
+}
+
+// structureCode is the exit code of a checked structure section: 3 when
+// it decides no class (the step limit, a budget like any other), else 0.
+func structureCode(cs *certify.Structure) int {
+	if cs.Class == certify.ClassUndecided {
+		return exitUndecided
+	}
 	return exitOK
 }
 

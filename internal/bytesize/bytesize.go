@@ -66,3 +66,28 @@ func Format(n int64) string {
 	}
 	return fmt.Sprintf("%d bytes", n)
 }
+
+// Flag writes a size of at least n bytes as a flag or manifest value,
+// rounded up to two significant digits in whole M or G: "640M", "1.3G",
+// "12G" (values Parse reads back).
+func Flag(n int64) string {
+	const mi, gi = 1 << 20, 1 << 30
+	if n < gi {
+		m := max((n+mi-1)/mi, 1)
+		for m >= 100 && m%10 != 0 {
+			m++
+		}
+		return fmt.Sprintf("%dM", m)
+	}
+	if n >= 1<<50 {
+		return fmt.Sprintf("%dG", n/gi+1) // no rounding to two digits up here, and no overflow
+	}
+	tenths := (n*10 + gi - 1) / gi // in 0.1 G, rounded up
+	if tenths >= 100 {
+		return fmt.Sprintf("%dG", (tenths+9)/10)
+	}
+	if tenths%10 == 0 {
+		return fmt.Sprintf("%dG", tenths/10)
+	}
+	return fmt.Sprintf("%d.%dG", tenths/10, tenths%10)
+}

@@ -68,3 +68,31 @@ func TestParseTooLarge(t *testing.T) {
 		t.Errorf("Parse(8E6T) = %d, %v", v, err)
 	}
 }
+
+// TestFlag: a value that Parse reads back as at least n, with two
+// significant digits.
+func TestFlag(t *testing.T) {
+	for _, c := range []struct {
+		n    int64
+		want string
+	}{
+		{1, "1M"},
+		{300 << 20, "300M"},
+		{300<<20 + 1, "310M"},
+		{99<<20 + 5, "100M"},
+		{1 << 30, "1G"},
+		{1<<30 + 1, "1.1G"},
+		{9<<30 + 1<<29, "9.5G"},
+		{12 << 30, "12G"},
+		{12<<30 + 1, "13G"},
+		{1 << 50, "1048577G"},
+	} {
+		got := Flag(c.n)
+		if got != c.want {
+			t.Errorf("Flag(%d) = %q, want %q", c.n, got, c.want)
+		}
+		if back, err := Parse(got); err != nil || back < c.n {
+			t.Errorf("Flag(%d) = %q reads back as %d (%v)", c.n, got, back, err)
+		}
+	}
+}
