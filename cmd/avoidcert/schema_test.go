@@ -167,6 +167,7 @@ max_k = 2
 		{schema: "census", args: []string{"census", "--length", "3", "--to", "8", "--digits", "5", "--shard", "1/2", "--out", "s1", "--json", "--quiet"}},
 		{schema: "census", args: []string{"census", "--length", "3", "--to", "8", "--digits", "5", "--shard", "2/2", "--out", "s2", "--quiet"}, file: "s2/census.json"},
 		{schema: "census", args: []string{"census", "merge", "--out", "m3", "--json", "s1", "s2"}},
+		{schema: "census", args: []string{"census", "--length", "4", "--to", "9", "--digits", "0", "--out", "d4", "--json", "--quiet"}},
 		{schema: "prob", args: []string{"prob", "--n", "12", "123", "--json", "--occurrences", "3"}},
 		{schema: "prob", args: []string{"prob", "--n", "1000", "1342", "--json"}},
 		{schema: "prob", args: []string{"prob", "--n", "1000", "12,21", "--json"}},
