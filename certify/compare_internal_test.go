@@ -2,6 +2,7 @@ package certify
 
 import (
 	"context"
+	"fmt"
 	"strings"
 	"testing"
 )
@@ -40,4 +41,23 @@ func TestCompareRefusesPositiveOverZero(t *testing.T) {
 	if err == nil || !strings.Contains(err.Error(), "G_6 is positive where the elevated G_5 is 0 (state 2, index [0 0 4]), so hi must be infinite") {
 		t.Fatalf("got %v", err)
 	}
+}
+
+// A panic in one of eachState's workers is raised again on the caller's
+// goroutine (where a command's recovery turns it into an internal error),
+// not left to end the process from the worker.
+func TestEachStateRaisesWorkerPanicOnCaller(t *testing.T) {
+	defer func() {
+		r := recover()
+		if r == nil || !strings.Contains(fmt.Sprint(r), "state 3 is broken (in a worker of the checker)") {
+			t.Fatalf("recovered %v, want the worker's panic", r)
+		}
+	}()
+	_ = eachState(context.Background(), 2, 10, func(_, i int) error {
+		if i == 3 {
+			panic("state 3 is broken")
+		}
+		return nil
+	})
+	t.Fatal("eachState returned after a worker panicked")
 }

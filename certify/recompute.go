@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math/big"
 	"runtime"
+	"runtime/debug"
 	"sync"
 	"sync/atomic"
 )
@@ -283,15 +284,30 @@ func (ck *checker) composition(t *table, r int) []int {
 // eachState calls f(worker, i) for i = 0..count-1 on the given number of
 // goroutines (worker numbers them from 0) and returns the error of the
 // lowest index that failed, so that the message does not depend on the
-// scheduling; ctx stops it between calls.
+// scheduling; ctx stops it between calls. A panic in f stops the others
+// and is raised again on the caller's goroutine (with the worker's stack
+// in its value), where the caller's recovery sees it: a bug in the checker
+// must end a command as an internal error, never as Go's crash.
 func eachState(ctx context.Context, workers, count int, f func(worker, i int) error) error {
 	errs := make([]error, count)
 	var next atomic.Int64
 	var wg sync.WaitGroup
+	var mu sync.Mutex
+	var caught any
 	for worker := range workers {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			defer func() {
+				if r := recover(); r != nil {
+					next.Store(int64(count))
+					mu.Lock()
+					if caught == nil {
+						caught = fmt.Sprintf("%v (in a worker of the checker)\n%s", r, debug.Stack())
+					}
+					mu.Unlock()
+				}
+			}()
 			for {
 				i := int(next.Add(1)) - 1
 				if i >= count || ctx.Err() != nil {
@@ -302,6 +318,9 @@ func eachState(ctx context.Context, workers, count int, f func(worker, i int) er
 		}()
 	}
 	wg.Wait()
+	if caught != nil {
+		panic(caught)
+	}
 	if err := ctx.Err(); err != nil {
 		return err
 	}
