@@ -30,10 +30,22 @@ const (
 
 // InputError marks a refusal caused by what the user asked for (a folder
 // holding another census, shards that do not fit together): the message
-// names the problem and what to do.
-type InputError struct{ Msg string }
+// names the problem and what to do. Err is the system's error behind it,
+// if any, so that a caller can tell a full disk from a wrong --out.
+type InputError struct {
+	Msg string
+	Err error
+}
 
 func (e *InputError) Error() string { return e.Msg }
+
+func (e *InputError) Unwrap() error { return e.Err }
+
+// folderError refuses a folder that could not be created, keeping the
+// system's error.
+func folderError(what, dir string, err error) error {
+	return &InputError{Msg: fmt.Sprintf("cannot create the %s %s: %v; choose another --out", what, dir, err), Err: err}
+}
 
 func inputErrorf(format string, args ...any) error {
 	return &InputError{Msg: fmt.Sprintf(format, args...)}
@@ -60,7 +72,7 @@ type journal struct {
 func openJournal(ctx context.Context, dir string, params Params, shard Shard) (*journal, error) {
 	for _, d := range []string{dir, filepath.Join(dir, journalDir), filepath.Join(dir, certificateDir)} {
 		if err := os.MkdirAll(d, 0o755); err != nil {
-			return nil, inputErrorf("cannot create the census folder %s: %v; choose another --out", d, err)
+			return nil, folderError("census folder", d, err)
 		}
 	}
 	f, err := openFolder(dir)

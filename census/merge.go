@@ -105,7 +105,7 @@ func Merge(ctx context.Context, opts MergeOptions) (*Report, error) {
 		}
 	}
 	if err := os.MkdirAll(filepath.Join(out, certificateDir), 0o755); err != nil {
-		return nil, inputErrorf("cannot create the output folder %s: %v; choose another --out", out, err)
+		return nil, folderError("output folder", out, err)
 	}
 	o, err := openFolder(out)
 	if err != nil {

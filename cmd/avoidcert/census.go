@@ -321,6 +321,8 @@ func censusMergeFailure(e *env, err error) int {
 	var in *census.InputError
 	var refused *census.RefusedError
 	switch {
+	case outOfSpace(err):
+		return failure(e, err)
 	case errors.As(err, &in):
 		return failure(e, usagef("census merge: %v", err))
 	case errors.As(err, &refused):
