@@ -52,7 +52,9 @@ func AvoidAll(ctx context.Context, set pattern.Set, lengths []int, memory int64,
 		if p, ok := pointOf[n]; ok {
 			return p, nil
 		}
-		_, p, err := Exact(ctx, set, n, memory)
+		exactOpts := opts
+		exactOpts.MaxMemory = memory
+		_, p, err := Exact(ctx, set, n, exactOpts)
 		pointOf[n] = p
 		return p, err
 	}

@@ -27,9 +27,15 @@ func InExactRange(set pattern.Set, N int, memory int64) (bool, int64) {
 }
 
 // Exact returns a_N and a_N/N! for set, counted by the engine and the
-// checker side by side (prove.Counts). It refuses N outside the exact range
-// for memory bytes before any work.
-func Exact(ctx context.Context, set pattern.Set, N int, memory int64) (*big.Int, *big.Rat, error) {
+// checker side by side (prove.Counts: the checker counts opts.Typed, the
+// patterns as the user typed them, when set). It refuses N outside the
+// exact range for opts.MaxMemory bytes (prove.DefaultMaxMemory when 0)
+// before any work.
+func Exact(ctx context.Context, set pattern.Set, N int, opts prove.Options) (*big.Int, *big.Rat, error) {
+	memory := opts.MaxMemory
+	if memory == 0 {
+		memory = prove.DefaultMaxMemory
+	}
 	ok, need := InExactRange(set, N, memory)
 	if !ok {
 		if N < 0 || N > MaxExactN {
@@ -38,7 +44,8 @@ func Exact(ctx context.Context, set pattern.Set, N int, memory int64) (*big.Int,
 		return nil, nil, fmt.Errorf("%w: counting %s to N = %d needs %s, over the memory budget of %s",
 			prove.ErrBudget, set, N, bytesize.About(need), bytesize.Format(memory))
 	}
-	counts, err := prove.Counts(ctx, set, N, prove.Options{MaxMemory: memory})
+	opts.MaxMemory = memory
+	counts, err := prove.Counts(ctx, set, N, opts)
 	if err != nil {
 		return nil, nil, err
 	}

@@ -16,7 +16,7 @@ import (
 // separate script, not part of the suite), with the same result.
 func Example() {
 	set, _ := pattern.ParseSet([]string{"123"})
-	a, p, _ := prob.Exact(context.Background(), set, 10, prove.DefaultMaxMemory)
+	a, p, _ := prob.Exact(context.Background(), set, 10, prove.Options{})
 	fmt.Println(a, p.RatString())
 	counts, _ := prob.Occurrences(context.Background(), set, 10, 2)
 	fmt.Println(counts[0], counts[1], counts[2])

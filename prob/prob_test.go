@@ -75,7 +75,7 @@ func TestExactAgainstA008304(t *testing.T) {
 			for _, v := range row[:k-1] {
 				want.Add(want, big.NewInt(v))
 			}
-			a, p, err := Exact(context.Background(), increasing(k), n, prove.DefaultMaxMemory)
+			a, p, err := Exact(context.Background(), increasing(k), n, prove.Options{})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -95,10 +95,10 @@ func TestExactAgainstA008304(t *testing.T) {
 
 func TestExactRefusesOutsideRange(t *testing.T) {
 	set := settest.Must(t, "1342")
-	if _, _, err := Exact(context.Background(), set, MaxExactN+1, prove.DefaultMaxMemory); err == nil {
+	if _, _, err := Exact(context.Background(), set, MaxExactN+1, prove.Options{}); err == nil {
 		t.Error("N past MaxExactN accepted")
 	}
-	if _, _, err := Exact(context.Background(), set, 300, 1<<20); err == nil {
+	if _, _, err := Exact(context.Background(), set, 300, prove.Options{MaxMemory: 1 << 20}); err == nil {
 		t.Error("a count over the memory limit accepted")
 	}
 }

@@ -112,7 +112,7 @@ func runProb(ctx context.Context, e *env, args []string) int {
 		}
 	}
 	if exact {
-		a, p, err := prob.Exact(ctx, set, *n, int64(maxMem))
+		a, p, err := prob.Exact(ctx, set, *n, prove.Options{Typed: pos, MaxMemory: int64(maxMem)})
 		if err != nil {
 			return failure(e, err)
 		}

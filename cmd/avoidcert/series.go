@@ -172,7 +172,7 @@ func runSeries(ctx context.Context, e *env, args []string) int {
 	if err := seriesEnough(tally, items, f.delay, file); err != nil {
 		return failure(e, err)
 	}
-	code, err := seriesAssess(ctx, e, &out, &f, items, tally)
+	code, err := seriesAssess(ctx, e, &out, &f, items, pats, tally)
 	if errors.Is(err, errSilent) {
 		return code
 	}
@@ -205,7 +205,7 @@ func seriesItems(pats []string, length int) ([]pattern.Set, []int, error) {
 		return nil, nil, usagef("series: name at least one pattern after the file (e.g. 132, or 123,321 for a set), or give --length K")
 	default:
 		for _, a := range pats {
-			s, err := pattern.ParseSet([]string{a})
+			s, err := parseSet([]string{a})
 			if err != nil {
 				return nil, nil, usagef("series: %v", err)
 			}
@@ -359,7 +359,7 @@ func sortedLengths(m map[int]int64) []int {
 }
 
 // seriesAssess fills the items: counts, moments, tails, avoidance.
-func seriesAssess(ctx context.Context, e *env, out *series.Run, f *seriesFlags, items []pattern.Set, t *series.Tally) (int, error) {
+func seriesAssess(ctx context.Context, e *env, out *series.Run, f *seriesFlags, items []pattern.Set, typed []string, t *series.Tally) (int, error) {
 	lengths := prob.Interleave(int(t.Values), f.delay)
 	obs := make([]prob.Observation, len(items))
 	for i, s := range items {
@@ -404,7 +404,7 @@ func seriesAssess(ctx context.Context, e *env, out *series.Run, f *seriesFlags, 
 				Note:    "the exact law is over the budget left of --max-work and --max-memory (" + needText(a.Need, f.maxWork) + "): an approximation, not a bound"}
 		}
 		if it.Observed == 0 && f.length == 0 {
-			c, err := seriesAvoidance(ctx, it, items[i], lengths, f)
+			c, err := seriesAvoidance(ctx, it, items[i], typed[i], lengths, f)
 			if err != nil {
 				return 0, err
 			}
@@ -434,15 +434,16 @@ func needText(c prob.Cost, budget float64) string {
 // errSilent ends a command whose message is already written.
 var errSilent = errors.New("reported")
 
-// seriesAvoidance fills the avoidance probability of an item seen 0 times.
-func seriesAvoidance(ctx context.Context, it *series.Item, set pattern.Set, lengths []int, f *seriesFlags) (int, error) {
+// seriesAvoidance fills the avoidance probability of an item seen 0 times;
+// typed is the item's argument as the user wrote it, for the checker.
+func seriesAvoidance(ctx context.Context, it *series.Item, set pattern.Set, typed string, lengths []int, f *seriesFlags) (int, error) {
 	cctx := ctx
 	if f.timeout > 0 {
 		var cancel context.CancelFunc
 		cctx, cancel = context.WithTimeout(ctx, time.Duration(f.timeout))
 		defer cancel()
 	}
-	av, err := prob.AvoidAll(cctx, set, lengths, int64(f.maxMem), f.relWidth, prove.Options{MaxMemory: int64(f.maxMem), Tool: toolName()})
+	av, err := prob.AvoidAll(cctx, set, lengths, int64(f.maxMem), f.relWidth, prove.Options{Typed: []string{typed}, MaxMemory: int64(f.maxMem), Tool: toolName()})
 	if err != nil {
 		return 0, err
 	}
