@@ -134,14 +134,7 @@ func endsOf(q bounds.Enclosure) JSONEnds {
 		digits = min(max(interval.CommonDigits(q.Lo, q.Hi)+3, 8), 60)
 	}
 	var e JSONEnds
-	if q.Lo != nil {
-		s := interval.DecimalDown(q.Lo, digits)
-		e.Lo = &s
-	}
-	if q.Hi != nil {
-		s := interval.DecimalUp(q.Hi, digits)
-		e.Hi = &s
-	}
+	e.Lo, e.Hi = interval.DecimalEnds(q.Lo, q.Hi, digits)
 	return e
 }
 

@@ -45,6 +45,21 @@ func DecimalUp(r *big.Rat, digits int) string {
 	return outwardDecimal(r, digits, true)
 }
 
+// DecimalEnds writes the closed interval [lo, hi] outward (lo with
+// DecimalDown, hi with DecimalUp); a nil end, an unbounded one, stays nil.
+// It is the one writing of certified ends in JSON.
+func DecimalEnds(lo, hi *big.Rat, digits int) (loText, hiText *string) {
+	if lo != nil {
+		s := DecimalDown(lo, digits)
+		loText = &s
+	}
+	if hi != nil {
+		s := DecimalUp(hi, digits)
+		hiText = &s
+	}
+	return loText, hiText
+}
+
 func outwardDecimal(r *big.Rat, digits int, up bool) string {
 	if digits < 1 {
 		panic(fmt.Sprintf("interval: decimal output needs at least 1 significant digit, got %d", digits))

@@ -312,3 +312,16 @@ func TestDecimalScaled(t *testing.T) {
 		}
 	}
 }
+
+// DecimalEnds rounds each end outward and keeps an unbounded end nil
+// (1/3 at 3 digits: 0.333 below, 0.334 above; common practice, no source).
+func TestDecimalEnds(t *testing.T) {
+	third := big.NewRat(1, 3)
+	lo, hi := DecimalEnds(third, third, 3)
+	if lo == nil || hi == nil || *lo != "0.333" || *hi != "0.334" {
+		t.Errorf("DecimalEnds(1/3, 1/3, 3) = %v, %v; want 0.333, 0.334", lo, hi)
+	}
+	if lo, hi := DecimalEnds(nil, nil, 3); lo != nil || hi != nil {
+		t.Errorf("DecimalEnds(nil, nil) = %v, %v; want nil, nil", lo, hi)
+	}
+}

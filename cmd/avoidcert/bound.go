@@ -461,14 +461,7 @@ type estimatesJSON struct {
 
 func ends(x bounds.Enclosure, digits int) endsJSON {
 	var out endsJSON
-	if x.Lo != nil {
-		s := interval.DecimalDown(x.Lo, digits)
-		out.Lo = &s
-	}
-	if x.Hi != nil {
-		s := interval.DecimalUp(x.Hi, digits)
-		out.Hi = &s
-	}
+	out.Lo, out.Hi = interval.DecimalEnds(x.Lo, x.Hi, digits)
 	return out
 }
 
